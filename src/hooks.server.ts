@@ -1,0 +1,54 @@
+import { error, redirect, type Handle, type HandleServerError } from '@sveltejs/kit';
+import { sequence } from '@sveltejs/kit/hooks';
+import { accessForRoute, decide } from '$lib/auth/access';
+import { loadPrincipal } from '$lib/server/auth/principal';
+import { config } from '$lib/server/config';
+import { db } from '$lib/server/db';
+import { authHandle } from './auth';
+
+/** Fails start-up early with a sentence when configuration or the database is wrong. */
+export function init() {
+	config();
+	db();
+}
+
+/** Who is asking: fills `locals.user` from the Auth.js session and the database. */
+const authentication: Handle = async ({ event, resolve }) => {
+	const session = await event.locals.auth();
+	const userId = session?.user?.id;
+	event.locals.user = userId ? loadPrincipal(userId) : null;
+	return resolve(event);
+};
+
+/**
+ * May they: decided by route group before any load runs. Loads, actions and endpoints check
+ * again through requireRole(), because a guard here alone would not cover every data access.
+ */
+const authorization: Handle = async ({ event, resolve }) => {
+	const decision = decide(accessForRoute(event.route.id), event.locals.user?.role ?? null);
+	if (decision === 'sign-in') {
+		const next = event.url.pathname + event.url.search;
+		redirect(303, `/signin?next=${encodeURIComponent(next)}`);
+	}
+	if (decision === 'forbidden') error(403, 'Your role does not give access to this page.');
+	return resolve(event);
+};
+
+const securityHeaders: Handle = async ({ event, resolve }) => {
+	const response = await resolve(event);
+	response.headers.set('X-Content-Type-Options', 'nosniff');
+	response.headers.set('Referrer-Policy', 'strict-origin-when-cross-origin');
+	response.headers.set('X-Frame-Options', 'DENY');
+	response.headers.set('Permissions-Policy', 'camera=(), microphone=(), geolocation=()');
+	if (event.locals.user && !response.headers.has('Cache-Control')) {
+		response.headers.set('Cache-Control', 'private, no-store');
+	}
+	return response;
+};
+
+export const handle = sequence(securityHeaders, authHandle, authentication, authorization);
+
+export const handleError: HandleServerError = ({ error: err, event, status }) => {
+	if (status !== 404) console.error(`[${event.request.method} ${event.url.pathname}]`, err);
+	return { message: status === 404 ? 'Not found.' : 'Something went wrong on our side. Please try again.' };
+};

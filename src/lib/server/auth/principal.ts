@@ -1,0 +1,52 @@
+import { eq } from 'drizzle-orm';
+import type { Role } from '$lib/auth/roles';
+import { db, schema } from '../db';
+
+/** The signed-in person as every server check sees them: who, which role, which clinic. */
+export interface Principal {
+	id: string;
+	email: string;
+	name: string;
+	role: Role;
+	clinicId: string;
+	clinicName: string;
+	/** Set for patients: their patient record. */
+	patientId: string | null;
+}
+
+/**
+ * Reads the user's current role and clinic from the database on every request, so a role change
+ * or a removal takes effect at once rather than when a session token expires. A user with no
+ * membership and no patient record has no principal and is treated as signed out.
+ */
+export function loadPrincipal(userId: string): Principal | null {
+	const user = db().query.users.findFirst({ where: eq(schema.users.id, userId) }).sync();
+	if (!user) return null;
+	const staff = db()
+		.select({ role: schema.memberships.role, clinicId: schema.clinics.id, clinicName: schema.clinics.name })
+		.from(schema.memberships)
+		.innerJoin(schema.clinics, eq(schema.clinics.id, schema.memberships.clinicId))
+		.where(eq(schema.memberships.userId, userId))
+		.get();
+	if (staff) {
+		return { id: user.id, email: user.email, name: user.name ?? user.email, ...staff, patientId: null };
+	}
+	const patient = db()
+		.select({ patientId: schema.patients.id, clinicId: schema.clinics.id, clinicName: schema.clinics.name, fullName: schema.patients.fullName })
+		.from(schema.patients)
+		.innerJoin(schema.clinics, eq(schema.clinics.id, schema.patients.clinicId))
+		.where(eq(schema.patients.userId, userId))
+		.get();
+	if (patient) {
+		return {
+			id: user.id,
+			email: user.email,
+			name: user.name ?? patient.fullName,
+			role: 'patient',
+			clinicId: patient.clinicId,
+			clinicName: patient.clinicName,
+			patientId: patient.patientId
+		};
+	}
+	return null;
+}

@@ -1,0 +1,66 @@
+import { z } from 'zod';
+
+/**
+ * Every environment variable Kinelume reads, in one place, with defaults for the one-machine
+ * setup (SQLite file under .data/, the storage and mail fakes on loopback). Pointing these at a
+ * real S3-compatible service and a real SMTP relay is all a deployment needs. `.env.example`
+ * documents each variable.
+ */
+const bool = z
+	.enum(['true', 'false', '1', '0', 'yes', 'no'])
+	.transform((v) => v === 'true' || v === '1' || v === 'yes');
+
+const isProduction = process.env.NODE_ENV === 'production';
+
+const schema = z.object({
+	DATABASE_PATH: z.string().min(1).default('.data/kinelume.db'),
+	ORIGIN: z.url().default('http://localhost:3000'),
+	AUTH_SECRET: z.string().min(32, 'must be at least 32 characters').optional(),
+	S3_ENDPOINT: z.union([z.url(), z.literal('')]).default('http://127.0.0.1:4569'),
+	S3_REGION: z.string().min(1).default('us-east-1'),
+	S3_BUCKET: z
+		.string()
+		.regex(/^[a-z0-9][a-z0-9.-]{1,61}[a-z0-9]$/, 'must be a valid bucket name')
+		.default('kinelume'),
+	S3_ACCESS_KEY_ID: z.string().min(1).default('S3RVER'),
+	S3_SECRET_ACCESS_KEY: z.string().min(1).default('S3RVER'),
+	S3_FORCE_PATH_STYLE: bool.default(true),
+	SMTP_HOST: z.string().min(1).default('127.0.0.1'),
+	SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(2525),
+	SMTP_SECURE: bool.default(false),
+	SMTP_USER: z.string().default(''),
+	SMTP_PASSWORD: z.string().default(''),
+	MAIL_FROM: z.string().min(3).default('Kinelume <no-reply@kinelume.invalid>'),
+	DEV_INBOX_URL: z
+		.union([z.url(), z.literal('')])
+		.default(isProduction ? '' : 'http://127.0.0.1:2526'),
+	INVITATION_TTL_HOURS: z.coerce.number().int().min(1).max(24 * 30).default(72),
+	SIGN_IN_MAX_FAILURES: z.coerce.number().int().min(1).max(100).default(5),
+	SIGN_IN_WINDOW_MINUTES: z.coerce.number().int().min(1).max(24 * 60).default(15)
+});
+
+export type Config = z.infer<typeof schema>;
+
+/** Reads and validates the environment; a bad value throws a sentence naming the variable. */
+export function readConfig(env: Record<string, string | undefined> = process.env): Config {
+	const present = Object.fromEntries(
+		Object.entries(env).filter(([key, value]) => key in schema.shape && value !== undefined)
+	);
+	const parsed = schema.safeParse(present);
+	if (!parsed.success) {
+		const sentences = parsed.error.issues.map((issue) => {
+			const name = String(issue.path[0]);
+			return `The environment variable ${name} is invalid (${JSON.stringify(env[name])}): ${issue.message}.`;
+		});
+		throw new Error(sentences.join(' '));
+	}
+	return parsed.data;
+}
+
+let cached: Config | undefined;
+
+/** The process's configuration, read once on first use. */
+export function config(): Config {
+	cached ??= readConfig();
+	return cached;
+}

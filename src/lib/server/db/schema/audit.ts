@@ -1,0 +1,48 @@
+import { index, integer, sqliteTable, text } from 'drizzle-orm/sqlite-core';
+
+export const AUDIT_KINDS = [
+	'sign-in',
+	'sign-in-failed',
+	'sign-out',
+	'invitation-sent',
+	'invitation-accepted',
+	'invitation-revoked',
+	'role-changed',
+	'member-removed'
+] as const;
+export type AuditKind = (typeof AUDIT_KINDS)[number];
+
+/**
+ * Who did what, when. Rows are only ever inserted. Ids are kept as plain text (no foreign keys)
+ * so the trail survives the removal of the people and clinics it mentions.
+ */
+export const auditEvents = sqliteTable(
+	'audit_event',
+	{
+		id: integer('id').primaryKey({ autoIncrement: true }),
+		kind: text('kind', { enum: AUDIT_KINDS }).notNull(),
+		clinicId: text('clinic_id'),
+		actorUserId: text('actor_user_id'),
+		/** The e-mail address or record the event is about. */
+		subject: text('subject').notNull().default(''),
+		detail: text('detail', { mode: 'json' }).$type<Record<string, unknown>>(),
+		createdAt: integer('created_at', { mode: 'timestamp_ms' })
+			.notNull()
+			.$defaultFn(() => new Date())
+	},
+	(a) => [index('audit_clinic_time').on(a.clinicId, a.createdAt)]
+);
+
+/** Failed password sign-ins, counted per account and per client address for rate limiting. */
+export const signInFailures = sqliteTable(
+	'sign_in_failure',
+	{
+		id: integer('id').primaryKey({ autoIncrement: true }),
+		email: text('email').notNull(),
+		address: text('address').notNull(),
+		createdAt: integer('created_at', { mode: 'timestamp_ms' })
+			.notNull()
+			.$defaultFn(() => new Date())
+	},
+	(f) => [index('sign_in_failure_email_time').on(f.email, f.createdAt), index('sign_in_failure_address_time').on(f.address, f.createdAt)]
+);

@@ -1,0 +1,42 @@
+import { index, integer, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
+import { users } from './auth';
+
+export const STAFF_ROLES = ['admin', 'clinician', 'educator'] as const;
+export type StaffRole = (typeof STAFF_ROLES)[number];
+
+export const clinics = sqliteTable('clinic', {
+	id: text('id')
+		.primaryKey()
+		.$defaultFn(() => crypto.randomUUID()),
+	name: text('name').notNull(),
+	createdAt: integer('created_at', { mode: 'timestamp_ms' })
+		.notNull()
+		.$defaultFn(() => new Date())
+});
+
+/**
+ * A staff member's role in a clinic. A user belongs to at most one clinic (one membership), which
+ * keeps "which clinic is this request for" unambiguous; see DEVELOPERS.md.
+ */
+export const memberships = sqliteTable(
+	'membership',
+	{
+		id: text('id')
+			.primaryKey()
+			.$defaultFn(() => crypto.randomUUID()),
+		userId: text('user_id')
+			.notNull()
+			.references(() => users.id, { onDelete: 'cascade' }),
+		clinicId: text('clinic_id')
+			.notNull()
+			.references(() => clinics.id, { onDelete: 'cascade' }),
+		role: text('role', { enum: STAFF_ROLES }).notNull(),
+		createdAt: integer('created_at', { mode: 'timestamp_ms' })
+			.notNull()
+			.$defaultFn(() => new Date())
+	},
+	(m) => [uniqueIndex('membership_user_unique').on(m.userId), index('membership_clinic').on(m.clinicId)]
+);
+
+export type Clinic = typeof clinics.$inferSelect;
+export type Membership = typeof memberships.$inferSelect;

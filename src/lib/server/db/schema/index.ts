@@ -1,0 +1,5 @@
+export * from './auth';
+export * from './clinics';
+export * from './patients';
+export * from './invitations';
+export * from './audit';

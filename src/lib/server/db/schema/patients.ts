@@ -1,0 +1,51 @@
+import { index, integer, primaryKey, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
+import { users } from './auth';
+import { clinics } from './clinics';
+
+export const SIDES = ['left', 'right', 'both', 'not applicable'] as const;
+
+/**
+ * A person under a clinic's care. The record exists from the moment a clinician invites them;
+ * `userId` is filled when they accept the invitation and gain a sign-in.
+ */
+export const patients = sqliteTable(
+	'patient',
+	{
+		id: text('id')
+			.primaryKey()
+			.$defaultFn(() => crypto.randomUUID()),
+		clinicId: text('clinic_id')
+			.notNull()
+			.references(() => clinics.id, { onDelete: 'cascade' }),
+		userId: text('user_id').references(() => users.id, { onDelete: 'set null' }),
+		fullName: text('full_name').notNull(),
+		email: text('email').notNull(),
+		affectedSide: text('affected_side', { enum: SIDES }).notNull().default('not applicable'),
+		/** What the programme is for, in the clinician's words, e.g. "left total knee replacement". */
+		condition: text('condition').notNull().default(''),
+		createdAt: integer('created_at', { mode: 'timestamp_ms' })
+			.notNull()
+			.$defaultFn(() => new Date())
+	},
+	(p) => [
+		uniqueIndex('patient_user_unique').on(p.userId),
+		uniqueIndex('patient_clinic_email_unique').on(p.clinicId, p.email),
+		index('patient_clinic').on(p.clinicId)
+	]
+);
+
+/** Which clinicians look after which patient (many to many, within one clinic). */
+export const patientClinicians = sqliteTable(
+	'patient_clinician',
+	{
+		patientId: text('patient_id')
+			.notNull()
+			.references(() => patients.id, { onDelete: 'cascade' }),
+		clinicianUserId: text('clinician_user_id')
+			.notNull()
+			.references(() => users.id, { onDelete: 'cascade' })
+	},
+	(pc) => [primaryKey({ columns: [pc.patientId, pc.clinicianUserId] })]
+);
+
+export type Patient = typeof patients.$inferSelect;

@@ -1,0 +1,88 @@
+/**
+ * Kinelume's e-mails, each as plain text and simple HTML. Links are absolute so that they work
+ * from any mail client. The wording is ours, plain, and says who sent the message and why.
+ */
+export interface MailContent {
+	subject: string;
+	text: string;
+	html: string;
+}
+
+function escapeHtml(value: string): string {
+	return value
+		.replaceAll('&', '&amp;')
+		.replaceAll('<', '&lt;')
+		.replaceAll('>', '&gt;')
+		.replaceAll('"', '&quot;')
+		.replaceAll("'", '&#39;');
+}
+
+function layout(heading: string, paragraphs: string[], link: { url: string; label: string }): string {
+	const body = paragraphs.map((p) => `<p style="margin:0 0 16px">${escapeHtml(p)}</p>`).join('');
+	return `<!doctype html><html lang="en"><body style="margin:0;padding:24px;background:#faf8f4;color:#1c2230;font-family:Arial,sans-serif;font-size:18px;line-height:1.5">
+<div style="max-width:560px;margin:0 auto">
+<p style="margin:0 0 24px;font-weight:bold;color:#1f4d3e">Kinelume</p>
+<h1 style="font-size:24px;margin:0 0 16px">${escapeHtml(heading)}</h1>${body}
+<p style="margin:24px 0"><a href="${escapeHtml(link.url)}" style="display:inline-block;background:#1f4d3e;color:#ffffff;padding:12px 20px;border-radius:8px;text-decoration:none;font-weight:bold">${escapeHtml(link.label)}</a></p>
+<p style="margin:0;color:#5a6272;font-size:16px">If the button does not work, copy this address into your browser:<br>${escapeHtml(link.url)}</p>
+</div></body></html>`;
+}
+
+const ROLE_WORDS: Record<string, string> = {
+	admin: 'an admin',
+	clinician: 'a clinician',
+	educator: 'an educator'
+};
+
+export function staffInvitationMail(input: {
+	clinicName: string;
+	role: string;
+	inviterName: string;
+	url: string;
+	expiresAt: Date;
+}): MailContent {
+	const subject = `You are invited to join ${input.clinicName} on Kinelume`;
+	const lines = [
+		`${input.inviterName} has invited you to join ${input.clinicName} on Kinelume as ${ROLE_WORDS[input.role] ?? input.role}.`,
+		`The link works once and until ${input.expiresAt.toUTCString()}. If you did not expect this message, you can ignore it.`
+	];
+	return {
+		subject,
+		text: `${lines.join('\n\n')}\n\nAccept the invitation: ${input.url}\n`,
+		html: layout(subject, lines, { url: input.url, label: 'Accept the invitation' })
+	};
+}
+
+export function patientInvitationMail(input: {
+	clinicName: string;
+	patientName: string;
+	clinicianName: string;
+	url: string;
+	expiresAt: Date;
+}): MailContent {
+	const subject = `${input.clinicName} has set up Kinelume for your home exercises`;
+	const lines = [
+		`Hello ${input.patientName},`,
+		`${input.clinicianName} at ${input.clinicName} will share your home exercise programme with you on Kinelume: short videos with captions, one exercise at a time.`,
+		`Open the link to set up your account. It works once and until ${input.expiresAt.toUTCString()}.`,
+		'If anything in your programme causes sharp or worsening pain, stop and contact your clinician.'
+	];
+	return {
+		subject,
+		text: `${lines.join('\n\n')}\n\nSet up your account: ${input.url}\n`,
+		html: layout(subject, lines, { url: input.url, label: 'Set up my account' })
+	};
+}
+
+export function signInLinkMail(input: { url: string; expiresAt: Date }): MailContent {
+	const subject = 'Your Kinelume sign-in link';
+	const lines = [
+		'Use the button below to sign in to Kinelume. The link works once.',
+		`It expires at ${input.expiresAt.toUTCString()}. If you did not ask for it, you can ignore this message: nobody can sign in without it.`
+	];
+	return {
+		subject,
+		text: `${lines.join('\n\n')}\n\nSign in: ${input.url}\n`,
+		html: layout(subject, lines, { url: input.url, label: 'Sign in to Kinelume' })
+	};
+}

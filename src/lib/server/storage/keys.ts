@@ -1,0 +1,63 @@
+/**
+ * Where each stored object lives. Every key is built here so that ids never reach a key
+ * unchecked: a `/` or `..` inside an id would let one clinic's key point into another's.
+ *
+ *   clinics/<clinic>/recordings/<recording>/original
+ *   clinics/<clinic>/recordings/<recording>/rendition.mp4
+ *   clinics/<clinic>/recordings/<recording>/posters/<n>.jpg
+ *   clinics/<clinic>/recordings/<recording>/segments/<segment>.mp4
+ *   library/<published-version>/rendition.mp4, posters/<n>.jpg, segments/<segment>.mp4
+ */
+
+const ID_PATTERN = /^[A-Za-z0-9][A-Za-z0-9._-]{0,127}$/;
+
+/** Returns the id unchanged, or throws if it could not safely be one path segment of a key. */
+export function keySegment(id: string, what = 'id'): string {
+	if (!ID_PATTERN.test(id) || id.includes('..')) {
+		throw new Error(
+			`Invalid ${what} for a storage key: ${JSON.stringify(id)} (letters, digits, '.', '_' and '-' only, no '..').`
+		);
+	}
+	return id;
+}
+
+export interface MediaKeys {
+	/** Ends with `/`: pass it to `deletePrefix` to remove everything below. */
+	prefix: string;
+	rendition: string;
+	poster(index: number): string;
+	segment(segmentId: string): string;
+}
+
+export interface RecordingKeys extends MediaKeys {
+	original: string;
+}
+
+function mediaKeys(prefix: string): MediaKeys {
+	return {
+		prefix,
+		rendition: `${prefix}rendition.mp4`,
+		poster(index) {
+			if (!Number.isSafeInteger(index) || index < 0) {
+				throw new Error(`Invalid poster index for a storage key: ${index}.`);
+			}
+			return `${prefix}posters/${index}.jpg`;
+		},
+		segment(segmentId) {
+			return `${prefix}segments/${keySegment(segmentId, 'segment id')}.mp4`;
+		}
+	};
+}
+
+export function clinicPrefix(clinicId: string): string {
+	return `clinics/${keySegment(clinicId, 'clinic id')}/`;
+}
+
+export function recordingKeys(clinicId: string, recordingId: string): RecordingKeys {
+	const prefix = `${clinicPrefix(clinicId)}recordings/${keySegment(recordingId, 'recording id')}/`;
+	return { ...mediaKeys(prefix), original: `${prefix}original` };
+}
+
+export function libraryKeys(publishedVersionId: string): MediaKeys {
+	return mediaKeys(`library/${keySegment(publishedVersionId, 'published version id')}/`);
+}

@@ -1,0 +1,94 @@
+import { fail } from '@sveltejs/kit';
+import { z } from 'zod';
+import { STAFF_ROLES } from '$lib/server/db/schema/clinics';
+import { requireRole } from '$lib/server/auth/guard';
+import { normaliseEmail, sendInvitation } from '$lib/server/invitations';
+import {
+	changeRole,
+	emailHasRole,
+	listMembers,
+	listStaffInvitations,
+	MemberError,
+	removeMember,
+	revokeInvitation
+} from '$lib/server/members';
+import type { Actions, PageServerLoad } from './$types';
+
+export const load: PageServerLoad = () => {
+	const admin = requireRole('admin');
+	return {
+		clinicName: admin.clinicName,
+		selfId: admin.id,
+		members: listMembers(admin.clinicId),
+		invitations: listStaffInvitations(admin.clinicId).map((i) => ({
+			id: i.id,
+			email: i.email,
+			role: i.role,
+			status: i.status,
+			expiresAt: i.expiresAt.toISOString()
+		}))
+	};
+};
+
+const inviteForm = z.object({
+	email: z.email('Enter a valid e-mail address.').max(320).transform(normaliseEmail),
+	role: z.enum(STAFF_ROLES, 'Choose a role.')
+});
+const roleForm = z.object({ membershipId: z.uuid(), role: z.enum(STAFF_ROLES) });
+const idForm = z.object({ id: z.uuid() });
+
+function failed(action: string, message: string, status = 400, extra: Record<string, unknown> = {}) {
+	return fail(status, { action, message, ...extra });
+}
+
+export const actions: Actions = {
+	invite: async ({ request }) => {
+		const admin = requireRole('admin');
+		const raw = Object.fromEntries(await request.formData());
+		const parsed = inviteForm.safeParse(raw);
+		if (!parsed.success) {
+			return failed('invite', parsed.error.issues[0].message, 400, { email: String(raw.email ?? ''), role: String(raw.role ?? '') });
+		}
+		if (emailHasRole(parsed.data.email)) {
+			return failed('invite', 'That address already has an account in a clinic.', 409, parsed.data);
+		}
+		await sendInvitation({ clinicId: admin.clinicId, ...parsed.data, invitedBy: admin });
+		return { action: 'invite', sent: parsed.data.email };
+	},
+	role: async ({ request }) => {
+		const admin = requireRole('admin');
+		const parsed = roleForm.safeParse(Object.fromEntries(await request.formData()));
+		if (!parsed.success) return failed('role', 'Choose a member and a role.');
+		try {
+			changeRole(admin, parsed.data.membershipId, parsed.data.role);
+		} catch (e) {
+			if (e instanceof MemberError) return failed('role', e.message, 409);
+			throw e;
+		}
+		return { action: 'role', saved: true };
+	},
+	remove: async ({ request }) => {
+		const admin = requireRole('admin');
+		const parsed = idForm.safeParse(Object.fromEntries(await request.formData()));
+		if (!parsed.success) return failed('remove', 'Choose a member to remove.');
+		try {
+			removeMember(admin, parsed.data.id);
+		} catch (e) {
+			if (e instanceof MemberError) return failed('remove', e.message, 409);
+			throw e;
+		}
+		return { action: 'remove', saved: true };
+	},
+	revoke: async ({ request }) => {
+		const admin = requireRole('admin');
+		const parsed = idForm.safeParse(Object.fromEntries(await request.formData()));
+		if (!parsed.success) return failed('revoke', 'Choose an invitation.');
+		try {
+			revokeInvitation(admin, parsed.data.id);
+		} catch (e) {
+			if (e instanceof MemberError) return failed('revoke', e.message, 409);
+			throw e;
+		}
+		return { action: 'revoke', saved: true };
+	}
+};

@@ -1,0 +1,52 @@
+import { fail } from '@sveltejs/kit';
+import { eq } from 'drizzle-orm';
+import { z } from 'zod';
+import { ROLE_LABELS } from '$lib/auth/roles';
+import { requireUser } from '$lib/server/auth/guard';
+import { hashPassword, PASSWORD_MIN_LENGTH, verifyPassword } from '$lib/server/auth/passwords';
+import { db, schema } from '$lib/server/db';
+import type { Actions, PageServerLoad } from './$types';
+
+export const load: PageServerLoad = () => {
+	const user = requireUser();
+	const row = db().query.users.findFirst({ where: eq(schema.users.id, user.id) }).sync();
+	return {
+		name: user.name,
+		email: user.email,
+		roleLabel: ROLE_LABELS[user.role],
+		clinicName: user.clinicName,
+		hasPassword: Boolean(row?.passwordHash),
+		passwordMinLength: PASSWORD_MIN_LENGTH
+	};
+};
+
+const passwordForm = z
+	.object({
+		current: z.string().max(1024),
+		password: z.string().min(PASSWORD_MIN_LENGTH, `Choose a password of at least ${PASSWORD_MIN_LENGTH} characters.`).max(1024),
+		confirm: z.string()
+	})
+	.refine((f) => f.password === f.confirm, { message: 'The two new passwords differ.' });
+
+export const actions: Actions = {
+	password: async ({ request }) => {
+		const user = requireUser();
+		const raw = Object.fromEntries(await request.formData());
+		const parsed = passwordForm.safeParse({
+			current: raw.current ?? '',
+			password: raw.password ?? '',
+			confirm: raw.confirm ?? ''
+		});
+		if (!parsed.success) return fail(400, { message: parsed.error.issues[0].message });
+		const row = db().query.users.findFirst({ where: eq(schema.users.id, user.id) }).sync();
+		if (row?.passwordHash && !(await verifyPassword(row.passwordHash, parsed.data.current))) {
+			return fail(400, { message: 'Your current password is not right.' });
+		}
+		db()
+			.update(schema.users)
+			.set({ passwordHash: await hashPassword(parsed.data.password) })
+			.where(eq(schema.users.id, user.id))
+			.run();
+		return { saved: true };
+	}
+};

@@ -1,0 +1,65 @@
+import { error, fail, redirect } from '@sveltejs/kit';
+import { z } from 'zod';
+import { ROLE_LABELS } from '$lib/auth/roles';
+import { PASSWORD_MIN_LENGTH } from '$lib/server/auth/passwords';
+import {
+	acceptInvitation,
+	findInvitation,
+	InvitationError,
+	statusSentence
+} from '$lib/server/invitations';
+import type { Actions, PageServerLoad } from './$types';
+
+function pendingInvitation(token: string) {
+	const found = findInvitation(token);
+	if (!found) error(404, 'This invitation link is not valid. Check that you copied all of it.');
+	if (found.status !== 'pending') error(410, statusSentence(found.status));
+	return found;
+}
+
+export const load: PageServerLoad = ({ params }) => {
+	const found = pendingInvitation(params.token);
+	return {
+		email: found.invitation.email,
+		role: found.invitation.role,
+		roleLabel: ROLE_LABELS[found.invitation.role],
+		clinicName: found.clinicName,
+		accountExists: found.accountExists,
+		passwordRequired: found.invitation.role !== 'patient',
+		passwordMinLength: PASSWORD_MIN_LENGTH
+	};
+};
+
+const acceptForm = z
+	.object({
+		name: z.string().trim().min(1, 'Enter your name.').max(120, 'Keep your name under 120 characters.'),
+		password: z.string().max(1024),
+		confirm: z.string().max(1024)
+	})
+	.refine((f) => f.password === f.confirm, { message: 'The two passwords differ.', path: ['confirm'] });
+
+export const actions: Actions = {
+	default: async ({ params, request }) => {
+		const found = pendingInvitation(params.token);
+		const raw = Object.fromEntries(await request.formData());
+		const parsed = acceptForm.safeParse({
+			name: raw.name ?? '',
+			password: raw.password ?? '',
+			confirm: raw.confirm ?? ''
+		});
+		const name = String(raw.name ?? '');
+		if (!parsed.success) return fail(400, { name, message: parsed.error.issues[0].message });
+		const { password } = parsed.data;
+		const required = found.invitation.role !== 'patient';
+		if ((required || password) && password.length < PASSWORD_MIN_LENGTH) {
+			return fail(400, { name, message: `Choose a password of at least ${PASSWORD_MIN_LENGTH} characters.` });
+		}
+		try {
+			const accepted = await acceptInvitation(params.token, { name: parsed.data.name, password: password || null });
+			redirect(303, `/signin?welcome=1&email=${encodeURIComponent(accepted.email)}`);
+		} catch (thrown) {
+			if (thrown instanceof InvitationError) return fail(409, { name, message: thrown.message });
+			throw thrown;
+		}
+	}
+};

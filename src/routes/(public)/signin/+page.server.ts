@@ -1,0 +1,115 @@
+import { fail, isRedirect, redirect } from '@sveltejs/kit';
+import { z } from 'zod';
+import { ROLE_HOME } from '$lib/auth/roles';
+import { safeNext } from '$lib/forms/safe-next';
+import { recordAudit } from '$lib/server/audit';
+import {
+	clearSignInFailures,
+	recordSignInFailure,
+	signInLockout
+} from '$lib/server/auth/sign-in-limits';
+import { normaliseEmail } from '$lib/server/invitations';
+import { signIn } from '../../../auth';
+import type { Actions, PageServerLoad } from './$types';
+
+const GENERIC_FAILURE = 'That e-mail address and password do not match an account. Check both and try again.';
+
+const AUTH_ERRORS: Record<string, string> = {
+	Verification:
+		'That sign-in link has expired or was already used. Ask for a new link below, or sign in with your password.',
+	AccessDenied: 'That address cannot sign in here. Ask your clinic for an invitation.',
+	CredentialsSignin: GENERIC_FAILURE
+};
+
+export const load: PageServerLoad = ({ locals, url }) => {
+	if (locals.user) redirect(303, safeNext(url.searchParams.get('next'), ROLE_HOME[locals.user.role]));
+	const code = url.searchParams.get('error');
+	return {
+		next: safeNext(url.searchParams.get('next')),
+		authError: code ? (AUTH_ERRORS[code] ?? 'Signing in did not work. Please try again.') : null,
+		notice: url.searchParams.get('welcome') ? 'Your account is ready. Sign in below.' : null,
+		email: url.searchParams.get('email') ?? ''
+	};
+};
+
+const passwordForm = z.object({
+	email: z.email().max(320).transform(normaliseEmail),
+	password: z.string().min(1).max(1024),
+	redirectTo: z.string().optional()
+});
+
+const linkForm = z.object({
+	email: z.email().max(320).transform(normaliseEmail),
+	redirectTo: z.string().optional()
+});
+
+/** Auth.js ends sign-in with a redirect; one carrying `error=` means it failed. */
+function redirectFailed(location: string, base: URL): boolean {
+	return new URL(location, base).searchParams.has('error');
+}
+
+export const actions: Actions = {
+	password: async (event) => {
+		// Auth.js reads the original body; we read a copy to validate and rate-limit first.
+		const form = Object.fromEntries(await event.request.clone().formData());
+		const parsed = passwordForm.safeParse(form);
+		if (!parsed.success) {
+			return fail(400, {
+				method: 'password',
+				email: String(form.email ?? ''),
+				message: 'Enter your e-mail address and your password.'
+			});
+		}
+		const { email } = parsed.data;
+		const address = event.getClientAddress();
+		const lockout = signInLockout(email, address);
+		if (lockout.locked) {
+			event.setHeaders({ 'Retry-After': String(lockout.retryAfterSeconds) });
+			const minutes = Math.ceil(lockout.retryAfterSeconds / 60);
+			return fail(429, {
+				method: 'password',
+				email,
+				message: `Too many failed sign-ins. Wait ${minutes} minute${minutes === 1 ? '' : 's'} and try again, or ask for a sign-in link by e-mail.`
+			});
+		}
+		try {
+			await signIn(event);
+		} catch (thrown) {
+			if (!isRedirect(thrown)) throw thrown;
+			if (redirectFailed(thrown.location, event.url)) {
+				recordSignInFailure(email, address);
+				recordAudit({ kind: 'sign-in-failed', subject: email, detail: { method: 'password', address } });
+				return fail(400, { method: 'password', email, message: GENERIC_FAILURE });
+			}
+			clearSignInFailures(email);
+			redirect(303, safeNext(parsed.data.redirectTo));
+		}
+		return fail(500, { method: 'password', email, message: 'Signing in did not finish. Please try again.' });
+	},
+
+	link: async (event) => {
+		const form = Object.fromEntries(await event.request.clone().formData());
+		const parsed = linkForm.safeParse(form);
+		if (!parsed.success) {
+			return fail(400, {
+				method: 'link',
+				email: String(form.email ?? ''),
+				message: 'Enter the e-mail address your clinic invited.'
+			});
+		}
+		try {
+			await signIn(event);
+		} catch (thrown) {
+			if (!isRedirect(thrown)) throw thrown;
+			if (redirectFailed(thrown.location, event.url)) {
+				return fail(400, {
+					method: 'link',
+					email: parsed.data.email,
+					message: 'We could not send a link just now. Please try again in a minute.'
+				});
+			}
+			redirect(303, '/signin/link-sent');
+		}
+		return fail(500, { method: 'link', email: parsed.data.email, message: 'Please try again.' });
+	}
+};

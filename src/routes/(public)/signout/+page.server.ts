@@ -1,0 +1,17 @@
+import { redirect } from '@sveltejs/kit';
+import { signOut } from '../../../auth';
+import type { Actions, PageServerLoad } from './$types';
+
+export const load: PageServerLoad = ({ locals }) => ({ signedIn: Boolean(locals.user) });
+
+export const actions: Actions = {
+	default: async (event) => {
+		try {
+			await signOut(event);
+		} catch (thrown) {
+			// Auth.js answers with a redirect; we choose where it lands.
+			if (!(thrown && typeof thrown === 'object' && 'location' in thrown)) throw thrown;
+		}
+		redirect(303, '/signin');
+	}
+};

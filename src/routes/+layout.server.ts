@@ -1,0 +1,12 @@
+import { inboxEnabled } from '$lib/server/mail/inbox';
+import type { LayoutServerLoad } from './$types';
+
+export const load: LayoutServerLoad = ({ locals }) => {
+	const user = locals.user;
+	return {
+		viewer: user
+			? { name: user.name, email: user.email, role: user.role, clinicName: user.clinicName }
+			: null,
+		inboxEnabled: user?.role === 'admin' && inboxEnabled()
+	};
+};

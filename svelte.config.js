@@ -1,0 +1,34 @@
+import adapter from '@sveltejs/adapter-node';
+import { vitePreprocess } from '@sveltejs/vite-plugin-svelte';
+
+/** @type {import('@sveltejs/kit').Config} */
+const config = {
+	preprocess: vitePreprocess(),
+	compilerOptions: { runes: true },
+	kit: {
+		adapter: adapter(),
+		typescript: {
+			// The fakes and scripts are TypeScript too; type-check and lint them with the app.
+			config: (tsconfig) => ({ ...tsconfig, include: [...tsconfig.include, '../fakes/**/*.ts'] })
+		},
+		// Auth.js relies on SvelteKit's Origin check for form posts (on by default; never turn it off).
+		csp: {
+			mode: 'auto',
+			directives: {
+				'default-src': ['self'],
+				'script-src': ['self'],
+				'style-src': ['self', 'unsafe-inline'],
+				'img-src': ['self', 'data:', 'blob:'],
+				'media-src': ['self', 'blob:'],
+				'font-src': ['self'],
+				'connect-src': ['self'],
+				'object-src': ['none'],
+				'base-uri': ['self'],
+				'form-action': ['self'],
+				'frame-ancestors': ['none']
+			}
+		}
+	}
+};
+
+export default config;

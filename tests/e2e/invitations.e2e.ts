@@ -1,0 +1,116 @@
+import { expect, test } from '@playwright/test';
+import { ACCOUNTS, database, firstLink, signInWithPassword, waitForMail } from './support';
+import { E2E } from './ports';
+
+test('an admin invites a clinician, who accepts and signs in; the link then is spent', async ({ page, browser }) => {
+	const email = `new.physio.${Date.now()}@alder-street.example`;
+	await signInWithPassword(page, ACCOUNTS.admin);
+	await expect(page).toHaveURL(/\/clinic$/);
+	const since = Date.now();
+	const invite = page.locator('form[action="?/invite"]');
+	await invite.getByLabel('E-mail address').fill(email);
+	await invite.getByLabel('Role').selectOption('clinician');
+	await invite.getByRole('button', { name: 'Send invitation' }).click();
+	await expect(page.getByRole('status').filter({ hasText: `Invitation sent to ${email}` })).toBeVisible();
+	await expect(page.getByRole('cell', { name: email })).toBeVisible();
+
+	const mail = await waitForMail(email, since);
+	expect(mail.subject).toContain('Alder Street Community Clinic');
+	const link = firstLink(mail.text, '/invite/');
+
+	const guest = await browser.newContext({ baseURL: E2E.origin });
+	const newcomer = await guest.newPage();
+	await newcomer.goto(link);
+	await expect(newcomer.getByRole('heading', { level: 1 })).toHaveText('Join Alder Street Community Clinic');
+	await newcomer.getByLabel('Your name').fill('Noor Ashby');
+	await newcomer.getByLabel('Choose a password').fill('a-long-enough-secret');
+	await newcomer.getByLabel('Type the password again').fill('a-long-enough-secret');
+	await newcomer.getByRole('button', { name: 'Accept and create my account' }).click();
+	await expect(newcomer).toHaveURL(/\/signin\?welcome=1/);
+	await signInWithPassword(newcomer, email, 'a-long-enough-secret');
+	await expect(newcomer).toHaveURL(/\/patients$/);
+
+	const reused = await newcomer.request.get(new URL(link).pathname);
+	expect(reused.status()).toBe(410);
+	expect(await reused.text()).toContain('already been used');
+	await guest.close();
+
+	await page.reload();
+	await expect(page.getByRole('cell', { name: 'Noor Ashby' })).toBeVisible();
+});
+
+test('an expired invitation link is refused with a clear message and changes nothing', async ({ page }) => {
+	const email = `late.${Date.now()}@alder-street.example`;
+	await signInWithPassword(page, ACCOUNTS.admin);
+	const since = Date.now();
+	const invite = page.locator('form[action="?/invite"]');
+	await invite.getByLabel('E-mail address').fill(email);
+	await invite.getByRole('button', { name: 'Send invitation' }).click();
+	const link = firstLink((await waitForMail(email, since)).text, '/invite/');
+
+	const db = database();
+	db.prepare('update invitation set expires_at = ? where email = ?').run(Date.now() - 1000, email);
+	db.close();
+
+	const response = await page.request.get(new URL(link).pathname);
+	expect(response.status()).toBe(410);
+	expect(await response.text()).toContain('has expired');
+	const accepted = await page.request.post(new URL(link).pathname, {
+		form: { name: 'Late Person', password: 'a-long-enough-secret', confirm: 'a-long-enough-secret' },
+		headers: { Origin: E2E.origin },
+		maxRedirects: 0
+	});
+	expect(accepted.status()).toBe(410);
+	const check = database();
+	const users = check.prepare('select count(*) as n from user where email = ?').get(email) as { n: number };
+	check.close();
+	expect(users.n).toBe(0);
+});
+
+test('a clinician invites a patient, who joins without a password and signs in by link', async ({ page, browser }) => {
+	const email = `new.patient.${Date.now()}@alder-street.example`;
+	await signInWithPassword(page, ACCOUNTS.clinician);
+	const since = Date.now();
+	const invite = page.locator('form[action="?/invite"]');
+	await invite.getByLabel('Full name').fill('Hattie Groves');
+	await invite.getByLabel('E-mail address').fill(email);
+	await invite.getByLabel('Operation or injury').fill('Left total knee replacement');
+	await invite.getByLabel('Affected side').selectOption('left');
+	await invite.getByRole('button', { name: 'Send invitation' }).click();
+	const row = page.getByRole('row').filter({ hasText: 'Hattie Groves' });
+	await expect(row.getByText('Invited')).toBeVisible();
+
+	const link = firstLink((await waitForMail(email, since)).text, '/invite/');
+	const guest = await browser.newContext({ baseURL: E2E.origin });
+	const patient = await guest.newPage();
+	await patient.goto(link);
+	await patient.getByLabel('Your name').fill('Hattie Groves');
+	await patient.getByRole('button', { name: 'Accept and create my account' }).click();
+	await expect(patient).toHaveURL(/\/signin\?welcome=1/);
+
+	const linkSince = Date.now();
+	const linkForm = patient.locator('form[action="?/link"]');
+	await expect(linkForm.getByLabel('E-mail address')).toHaveValue(email);
+	await linkForm.getByRole('button', { name: 'Send me a sign-in link' }).click();
+	const signInLink = firstLink((await waitForMail(email, linkSince)).text, '/auth/callback/nodemailer');
+	await patient.goto(signInLink);
+	await expect(patient).toHaveURL(/\/today$/);
+	await expect(patient.getByRole('heading', { level: 1 })).toContainText('Hattie');
+	await guest.close();
+
+	await page.reload();
+	await expect(page.getByRole('row').filter({ hasText: 'Hattie Groves' }).getByText('Signed up')).toBeVisible();
+});
+
+test('a malformed invitation form keeps what was typed and says what is wrong', async ({ page }) => {
+	await signInWithPassword(page, ACCOUNTS.clinician);
+	const response = await page.request.post('/patients?/invite', {
+		form: { fullName: 'Someone', email: 'not-an-address', affectedSide: 'left', condition: '' },
+		headers: { Origin: E2E.origin },
+		maxRedirects: 0
+	});
+	expect(response.status()).toBe(400);
+	const html = await response.text();
+	expect(html).toContain('Enter a valid e-mail address.');
+	expect(html).toContain('value="Someone"');
+});

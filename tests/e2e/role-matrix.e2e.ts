@@ -1,0 +1,123 @@
+import { expect, test, type APIRequestContext } from '@playwright/test';
+import { readdirSync, statSync } from 'node:fs';
+import { join, relative, resolve, sep } from 'node:path';
+import { ACCOUNTS, contextFor, idOf, MATRIX_ROLES, type MatrixRole } from './support';
+import { E2E } from './ports';
+
+/**
+ * The role matrix: every route that exists × every role (and the signed-out public) → the
+ * status the server must answer. A route added under src/routes without a row here fails the
+ * first test, so nobody can add a page or endpoint without deciding who may reach it.
+ *
+ * Statuses: 200 allowed; 303 a page sending the signed-out to sign in (or a signed-in person on
+ * to their home); 401 an endpoint refusing the signed-out; 403 the wrong role; 404 another
+ * person's or clinic's record (answered as "not found" so ids cannot be probed); 410 a spent link.
+ */
+
+interface Fixture {
+	patientId: string;
+	otherPatientId: string;
+	otherClinicPatientId: string;
+	clinicId: string;
+	otherClinicId: string;
+	messageId: string;
+}
+
+interface Row {
+	route: string;
+	/** What this row shows, when a route has several rows. */
+	note?: string;
+	path: (f: Fixture) => string;
+	expect: Record<MatrixRole, number>;
+}
+
+const everyone = (status: number): Record<MatrixRole, number> => ({ public: status, patient: status, clinician: status, educator: status, admin: status });
+const onlyPage = (role: Exclude<MatrixRole, 'public'>): Record<MatrixRole, number> => ({
+	...everyone(403),
+	public: 303,
+	[role]: 200
+});
+
+const MATRIX: Row[] = [
+	{ route: '/(public)', path: () => '/', expect: everyone(200) },
+	{ route: '/(public)/signin', note: 'signed-in people go to their home', path: () => '/signin', expect: { ...everyone(303), public: 200 } },
+	{ route: '/(public)/signin/link-sent', path: () => '/signin/link-sent', expect: everyone(200) },
+	{ route: '/(public)/signout', path: () => '/signout', expect: everyone(200) },
+	{ route: '/(public)/invite/[token]', note: 'a token that matches nothing', path: () => '/invite/AAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAA', expect: everyone(404) },
+	{ route: '/(member)/home', note: 'everyone is sent on (to sign in, or home)', path: () => '/home', expect: everyone(303) },
+	{ route: '/(member)/account', path: () => '/account', expect: { ...everyone(200), public: 303 } },
+	{ route: '/(admin)/clinic', path: () => '/clinic', expect: onlyPage('admin') },
+	{ route: '/(admin)/inbox', path: () => '/inbox', expect: onlyPage('admin') },
+	{ route: '/(admin)/inbox/[id]', path: (f) => `/inbox/${f.messageId}`, expect: onlyPage('admin') },
+	{ route: '/(clinician)/patients', path: () => '/patients', expect: onlyPage('clinician') },
+	{ route: '/(clinician)/patients/[id=id]', note: "own clinic's patient", path: (f) => `/patients/${f.patientId}`, expect: onlyPage('clinician') },
+	{ route: '/(clinician)/patients/[id=id]', note: "another clinic's patient", path: (f) => `/patients/${f.otherClinicPatientId}`, expect: { ...onlyPage('clinician'), clinician: 404 } },
+	{ route: '/(patient)/today', path: () => '/today', expect: onlyPage('patient') },
+	{ route: '/(educator)/curate', path: () => '/curate', expect: onlyPage('educator') },
+	{ route: '/api/health', path: () => '/api/health', expect: everyone(200) },
+	{ route: '/api/patients/[id=id]', note: 'the signed-in patient themself', path: (f) => `/api/patients/${f.patientId}`, expect: { public: 401, patient: 200, clinician: 200, educator: 403, admin: 403 } },
+	{ route: '/api/patients/[id=id]', note: 'another patient of the same clinic', path: (f) => `/api/patients/${f.otherPatientId}`, expect: { public: 401, patient: 404, clinician: 200, educator: 403, admin: 403 } },
+	{ route: '/api/patients/[id=id]', note: "another clinic's patient", path: (f) => `/api/patients/${f.otherClinicPatientId}`, expect: { public: 401, patient: 404, clinician: 404, educator: 403, admin: 403 } },
+	{ route: '/api/clinics/[id=id]/members', note: 'own clinic', path: (f) => `/api/clinics/${f.clinicId}/members`, expect: { public: 401, patient: 403, clinician: 403, educator: 403, admin: 200 } },
+	{ route: '/api/clinics/[id=id]/members', note: 'another clinic', path: (f) => `/api/clinics/${f.otherClinicId}/members`, expect: { public: 401, patient: 403, clinician: 403, educator: 403, admin: 404 } }
+];
+
+/** Every route id under src/routes, as SvelteKit names them: a folder with a page or endpoint. */
+function routeIds(): string[] {
+	const root = resolve(import.meta.dirname, '../../src/routes');
+	const ids: string[] = [];
+	const walk = (dir: string) => {
+		const entries = readdirSync(dir);
+		if (entries.some((e) => e === '+page.svelte' || e === '+server.ts')) {
+			const rel = relative(root, dir).split(sep).join('/');
+			ids.push(rel === '' ? '/' : `/${rel}`);
+		}
+		for (const e of entries) if (statSync(join(dir, e)).isDirectory()) walk(join(dir, e));
+	};
+	walk(root);
+	return ids.sort();
+}
+
+test('every route has a row in the role matrix, and every row names a real route', () => {
+	const routes = routeIds();
+	const covered = new Set(MATRIX.map((r) => r.route));
+	expect(routes.filter((r) => !covered.has(r)), 'routes without a row').toEqual([]);
+	expect([...covered].filter((r) => !routes.includes(r)), 'rows without a route').toEqual([]);
+});
+
+test.describe('role matrix', () => {
+	let fixture: Fixture;
+	const contexts = new Map<MatrixRole, APIRequestContext>();
+
+	test.beforeAll(async () => {
+		const messages = (await (await fetch(`${E2E.mailApi}/messages`)).json()) as { id: string }[];
+		fixture = {
+			patientId: idOf('select id from patient where email = ?', ACCOUNTS.patient),
+			otherPatientId: idOf('select id from patient where email = ?', ACCOUNTS.otherPatient),
+			otherClinicPatientId: idOf('select id from patient where email = ?', ACCOUNTS.otherClinicPatient),
+			clinicId: idOf("select id from clinic where name = 'Alder Street Community Clinic'"),
+			otherClinicId: idOf("select id from clinic where name = 'Harbour Lane Physiotherapy'"),
+			messageId: messages[0].id
+		};
+		for (const role of MATRIX_ROLES) contexts.set(role, await contextFor(role));
+	});
+
+	test.afterAll(async () => {
+		for (const context of contexts.values()) await context.dispose();
+	});
+
+	for (const row of MATRIX) {
+		test(`${row.route}${row.note ? ` (${row.note})` : ''}`, async () => {
+			const path = row.path(fixture);
+			const seen: Record<string, number> = {};
+			for (const role of MATRIX_ROLES) {
+				const response = await contexts.get(role)!.get(path, { maxRedirects: 0 });
+				seen[role] = response.status();
+				if (response.status() === 303 && role === 'public' && row.expect.public === 303) {
+					expect(response.headers().location).toMatch(/^\/signin/);
+				}
+			}
+			expect(seen, `GET ${path}`).toEqual(row.expect);
+		});
+	}
+});

@@ -1,0 +1,99 @@
+import { expect, request, type APIRequestContext, type Page } from '@playwright/test';
+import AxeBuilder from '@axe-core/playwright';
+import Database from 'better-sqlite3';
+import { E2E } from './ports';
+import { DEMO_PASSWORD } from '../../src/lib/server/demo/seed';
+
+export { DEMO_PASSWORD };
+
+/** The seeded demo accounts the tests sign in as (all invented; see src/lib/server/demo/seed.ts). */
+export const ACCOUNTS = {
+	admin: 'admin@alder-street.example',
+	clinician: 'clinician@alder-street.example',
+	educator: 'educator@alder-street.example',
+	patient: 'patient@alder-street.example',
+	/** Same clinic, another patient: the one the first patient must never read. */
+	otherPatient: 'edna.marsh@alder-street.example',
+	otherClinicAdmin: 'admin@harbour-lane.example',
+	otherClinicClinician: 'clinician@harbour-lane.example',
+	otherClinicPatient: 'patient@harbour-lane.example'
+} as const;
+
+export type MatrixRole = 'public' | 'patient' | 'clinician' | 'educator' | 'admin';
+export const MATRIX_ROLES: MatrixRole[] = ['public', 'patient', 'clinician', 'educator', 'admin'];
+
+/** Reads the e2e database directly, for ids and for arranging states (an expired link). */
+export function database(): Database.Database {
+	return new Database(E2E.databasePath);
+}
+
+export function idOf(sql: string, ...params: unknown[]): string {
+	const db = database();
+	try {
+		const row = db.prepare(sql).get(...params) as { id: string } | undefined;
+		if (!row) throw new Error(`No row for ${sql} ${JSON.stringify(params)}`);
+		return row.id;
+	} finally {
+		db.close();
+	}
+}
+
+/** A request context signed in with a password through the real sign-in form action. */
+export async function signedInRequest(email: string, password = DEMO_PASSWORD): Promise<APIRequestContext> {
+	const context = await request.newContext({ baseURL: E2E.origin });
+	const response = await context.post('/signin?/password', {
+		form: { providerId: 'credentials', email, password, redirectTo: '/home' },
+		headers: { Origin: E2E.origin },
+		maxRedirects: 0
+	});
+	expect(response.status(), `password sign-in for ${email}`).toBe(303);
+	return context;
+}
+
+export async function contextFor(role: MatrixRole): Promise<APIRequestContext> {
+	if (role === 'public') return request.newContext({ baseURL: E2E.origin });
+	return signedInRequest(ACCOUNTS[role]);
+}
+
+/** Signs in through the page, as a person would. */
+export async function signInWithPassword(page: Page, email: string, password = DEMO_PASSWORD) {
+	await page.goto('/signin');
+	const form = page.locator('form[action="?/password"]');
+	await form.getByLabel('E-mail address').fill(email);
+	await form.getByLabel('Password').fill(password);
+	await form.getByRole('button', { name: 'Sign in' }).click();
+}
+
+interface MessageSummary {
+	id: string;
+	to: string[];
+	subject: string;
+	date: string;
+}
+
+/** Waits for the newest message to `email` that arrived after `since`, and returns its text. */
+export async function waitForMail(email: string, since: number): Promise<{ id: string; subject: string; text: string }> {
+	for (let attempt = 0; attempt < 50; attempt++) {
+		const list = (await (await fetch(`${E2E.mailApi}/messages`)).json()) as MessageSummary[];
+		const found = list.find((m) => m.to.includes(email) && new Date(m.date).getTime() >= since - 1000);
+		if (found) {
+			const full = (await (await fetch(`${E2E.mailApi}/messages/${found.id}`)).json()) as { text: string; subject: string };
+			return { id: found.id, subject: full.subject, text: full.text };
+		}
+		await new Promise((r) => setTimeout(r, 200));
+	}
+	throw new Error(`No e-mail to ${email} arrived`);
+}
+
+export function firstLink(text: string, pathPart: string): string {
+	const link = text.match(/https?:\/\/[^\s<>"]+/g)?.find((url) => url.includes(pathPart));
+	if (!link) throw new Error(`No link containing ${pathPart} in: ${text}`);
+	return link;
+}
+
+/** Runs axe-core on the current page and expects no violations at WCAG 2.x A/AA. */
+export async function expectNoAxeViolations(page: Page) {
+	const results = await new AxeBuilder({ page }).withTags(['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa', 'wcag22aa', 'best-practice']).analyze();
+	const summary = results.violations.map((v) => `${v.id}: ${v.help} (${v.nodes.map((n) => n.target.join(' ')).join(', ')})`);
+	expect(summary, `axe on ${page.url()}`).toEqual([]);
+}
