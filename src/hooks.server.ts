@@ -35,7 +35,9 @@ const authorization: Handle = async ({ event, resolve }) => {
 };
 
 const securityHeaders: Handle = async ({ event, resolve }) => {
-	const response = await resolve(event);
+	let response = await resolve(event);
+	// Responses made by Auth.js (redirects) come with immutable headers; copy them to add ours.
+	if (isImmutable(response)) response = new Response(response.body, response);
 	response.headers.set('X-Content-Type-Options', 'nosniff');
 	response.headers.set('Referrer-Policy', 'strict-origin-when-cross-origin');
 	response.headers.set('X-Frame-Options', 'DENY');
@@ -45,6 +47,15 @@ const securityHeaders: Handle = async ({ event, resolve }) => {
 	}
 	return response;
 };
+
+function isImmutable(response: Response): boolean {
+	try {
+		response.headers.set('X-Content-Type-Options', 'nosniff');
+		return false;
+	} catch {
+		return true;
+	}
+}
 
 export const handle = sequence(securityHeaders, authHandle, authentication, authorization);
 

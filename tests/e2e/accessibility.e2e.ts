@@ -1,5 +1,5 @@
 import { expect, test } from '@playwright/test';
-import { ACCOUNTS, expectNoAxeViolations, idOf, signInWithPassword } from './support';
+import { ACCOUNTS, expectNoAxeViolations, idOf, signInWithPassword, visit } from './support';
 import { E2E } from './ports';
 
 /** Every page each role can reach, scanned with axe-core in chromium. */
@@ -28,7 +28,7 @@ for (const role of ROLE_PAGES) {
 	test(`pages for ${role.email} have no axe violations`, async ({ page }) => {
 		await signInWithPassword(page, role.email);
 		for (const path of role.pages()) {
-			await page.goto(path);
+			await visit(page, path);
 			await expectNoAxeViolations(page);
 		}
 	});
@@ -36,7 +36,7 @@ for (const role of ROLE_PAGES) {
 
 test('the inbox message page and the invitation page have no axe violations', async ({ page, browser }) => {
 	await signInWithPassword(page, ACCOUNTS.admin);
-	await page.goto('/inbox');
+	await visit(page, '/inbox');
 	await page.getByRole('link', { name: /invited to join/ }).first().click();
 	await expect(page.getByTestId('message-body')).toBeVisible();
 	await expectNoAxeViolations(page);

@@ -55,9 +55,9 @@ test('signing in by the e-mailed link works once', async ({ page, browser }) => 
 });
 
 test('an unknown address and a wrong password get the same message', async ({ page }) => {
-	await signInWithPassword(page, 'nobody@nowhere.example', 'whatever-password');
+	await signInWithPassword(page, 'nobody@nowhere.example', 'whatever-password', false);
 	const unknown = await page.getByRole('alert').textContent();
-	await signInWithPassword(page, ACCOUNTS.educator, 'wrong-password-here');
+	await signInWithPassword(page, ACCOUNTS.educator, 'wrong-password-here', false);
 	const wrong = await page.getByRole('alert').textContent();
 	expect(unknown).toContain('do not match an account');
 	expect(wrong).toBe(unknown);
@@ -76,7 +76,7 @@ test('asking a link for an unknown address says the same as for a known one and 
 test('a malformed sign-in form gets a clear message', async ({ request }) => {
 	const response = await request.post('/signin?/password', {
 		form: { providerId: 'credentials', email: 'not-an-address', password: '' },
-		headers: { Origin: E2E.origin },
+		headers: { Origin: E2E.origin, Accept: 'text/html' },
 		maxRedirects: 0
 	});
 	expect(response.status()).toBe(400);
@@ -86,7 +86,7 @@ test('a malformed sign-in form gets a clear message', async ({ request }) => {
 test('a form post from a foreign origin is refused', async ({ request }) => {
 	const response = await request.post('/signin?/password', {
 		form: { providerId: 'credentials', email: ACCOUNTS.admin, password: DEMO_PASSWORD },
-		headers: { Origin: 'https://attacker.example' },
+		headers: { Origin: 'https://attacker.example', Accept: 'text/html' },
 		maxRedirects: 0
 	});
 	expect(response.status()).toBe(403);
@@ -97,7 +97,7 @@ test('six wrong passwords in a row give 429 with Retry-After, and the right one 
 	const attempt = (password: string) =>
 		request.post('/signin?/password', {
 			form: { providerId: 'credentials', email: ACCOUNTS.otherPatient, password },
-			headers: { Origin: E2E.origin },
+			headers: { Origin: E2E.origin, Accept: 'text/html' },
 			maxRedirects: 0
 		});
 	for (let i = 1; i <= 5; i++) expect((await attempt(`wrong-${i}-password`)).status(), `attempt ${i}`).toBe(400);

@@ -43,7 +43,7 @@ export async function signedInRequest(email: string, password = DEMO_PASSWORD): 
 	const context = await request.newContext({ baseURL: E2E.origin });
 	const response = await context.post('/signin?/password', {
 		form: { providerId: 'credentials', email, password, redirectTo: '/home' },
-		headers: { Origin: E2E.origin },
+		headers: { Origin: E2E.origin, Accept: 'text/html' },
 		maxRedirects: 0
 	});
 	expect(response.status(), `password sign-in for ${email}`).toBe(303);
@@ -55,13 +55,24 @@ export async function contextFor(role: MatrixRole): Promise<APIRequestContext> {
 	return signedInRequest(ACCOUNTS[role]);
 }
 
-/** Signs in through the page, as a person would. */
-export async function signInWithPassword(page: Page, email: string, password = DEMO_PASSWORD) {
+/**
+ * Signs in through the page, as a person would, and waits until the app has moved on from the
+ * sign-in page (pass `expectSuccess: false` for attempts that should fail).
+ */
+export async function signInWithPassword(page: Page, email: string, password = DEMO_PASSWORD, expectSuccess = true) {
 	await page.goto('/signin');
 	const form = page.locator('form[action="?/password"]');
 	await form.getByLabel('E-mail address').fill(email);
 	await form.getByLabel('Password').fill(password);
 	await form.getByRole('button', { name: 'Sign in' }).click();
+	if (expectSuccess) await page.waitForURL((url) => !url.pathname.startsWith('/signin'));
+	else await expect(page.getByRole('alert')).toBeVisible();
+}
+
+/** Opens a page and checks the app did not send us elsewhere (e.g. back to sign in). */
+export async function visit(page: Page, path: string) {
+	await page.goto(path);
+	expect(new URL(page.url()).pathname, `visiting ${path}`).toBe(path.split('?')[0]);
 }
 
 interface MessageSummary {
@@ -71,11 +82,20 @@ interface MessageSummary {
 	date: string;
 }
 
-/** Waits for the newest message to `email` that arrived after `since`, and returns its text. */
-export async function waitForMail(email: string, since: number): Promise<{ id: string; subject: string; text: string }> {
+/**
+ * Waits for the newest message to `email` that arrived after `since` (and whose subject
+ * contains `subject`, when given), and returns its text.
+ */
+export async function waitForMail(
+	email: string,
+	since: number,
+	subject = ''
+): Promise<{ id: string; subject: string; text: string }> {
 	for (let attempt = 0; attempt < 50; attempt++) {
 		const list = (await (await fetch(`${E2E.mailApi}/messages`)).json()) as MessageSummary[];
-		const found = list.find((m) => m.to.includes(email) && new Date(m.date).getTime() >= since - 1000);
+		const found = list.find(
+			(m) => m.to.includes(email) && m.subject.includes(subject) && new Date(m.date).getTime() >= since - 1000
+		);
 		if (found) {
 			const full = (await (await fetch(`${E2E.mailApi}/messages/${found.id}`)).json()) as { text: string; subject: string };
 			return { id: found.id, subject: full.subject, text: full.text };

@@ -1,3 +1,4 @@
+import { CredentialsSignin } from '@auth/sveltekit';
 import { fail, isRedirect, redirect } from '@sveltejs/kit';
 import { z } from 'zod';
 import { ROLE_HOME } from '$lib/auth/roles';
@@ -75,12 +76,16 @@ export const actions: Actions = {
 		try {
 			await signIn(event);
 		} catch (thrown) {
-			if (!isRedirect(thrown)) throw thrown;
-			if (redirectFailed(thrown.location, event.url)) {
+			// Called from an action, Auth.js throws CredentialsSignin; through its own routes it
+			// would redirect with ?error=. Both mean the same failed attempt.
+			const failed =
+				thrown instanceof CredentialsSignin || (isRedirect(thrown) && redirectFailed(thrown.location, event.url));
+			if (failed) {
 				recordSignInFailure(email, address);
 				recordAudit({ kind: 'sign-in-failed', subject: email, detail: { method: 'password', address } });
 				return fail(400, { method: 'password', email, message: GENERIC_FAILURE });
 			}
+			if (!isRedirect(thrown)) throw thrown;
 			clearSignInFailures(email);
 			redirect(303, safeNext(parsed.data.redirectTo));
 		}
