@@ -25,12 +25,20 @@ const authentication: Handle = async ({ event, resolve }) => {
  * again through requireRole(), because a guard here alone would not cover every data access.
  */
 const authorization: Handle = async ({ event, resolve }) => {
-	const decision = decide(accessForRoute(event.route.id), event.locals.user?.role ?? null);
+	const access = accessForRoute(event.route.id);
+	const decision = decide(access, event.locals.user?.role ?? null);
 	if (decision === 'sign-in') {
 		const next = event.url.pathname + event.url.search;
 		redirect(303, `/signin?next=${encodeURIComponent(next)}`);
 	}
-	if (decision === 'forbidden') error(403, 'Your role does not give access to this page.');
+	if (decision === 'forbidden') {
+		// A page of a role's group, merely viewed, gets its 403 from that group's layout load
+		// (requireRole), so the error page is drawn in the app's look; an error thrown here could
+		// only use the bare error.html. Anything else — actions, other methods, denied routes —
+		// stops here.
+		const viewingGroupPage = access.kind === 'roles' && (event.request.method === 'GET' || event.request.method === 'HEAD');
+		if (!viewingGroupPage) error(403, 'Your role does not give access to this page.');
+	}
 	return resolve(event);
 };
 
