@@ -2,6 +2,7 @@ import { mkdir } from 'node:fs/promises';
 import { createServer, type IncomingMessage, type ServerResponse } from 'node:http';
 import { createRequire } from 'node:module';
 import type { AddressInfo } from 'node:net';
+import { handleMultipart } from './multipart';
 import { verifySignature } from './sigv4';
 
 // s3rver ships no types; these cover only what the fake uses.
@@ -129,6 +130,14 @@ export async function startStorageFake(opts: StorageFakeOptions): Promise<Storag
 	const handle = s3rver.callback();
 	const credentials = { accessKeyId: opts.accessKeyId, secretAccessKey: opts.secretAccessKey };
 
+	// Without CORS headers a browser hides a refusal behind a generic network error.
+	function allowOrigin(origin: string | undefined, res: ServerResponse) {
+		if (origin && (origins.includes('*') || origins.includes(origin))) {
+			res.setHeader('Access-Control-Allow-Origin', origins.includes('*') ? '*' : origin);
+			res.setHeader('Access-Control-Expose-Headers', 'ETag');
+		}
+	}
+
 	function sendError(
 		req: IncomingMessage,
 		res: ServerResponse,
@@ -137,11 +146,7 @@ export async function startStorageFake(opts: StorageFakeOptions): Promise<Storag
 		message: string
 	) {
 		const origin = req.headers.origin;
-		// Without CORS headers a browser hides the refusal behind a generic network error.
-		if (origin && (origins.includes('*') || origins.includes(origin))) {
-			res.setHeader('Access-Control-Allow-Origin', origins.includes('*') ? '*' : origin);
-			res.setHeader('Access-Control-Expose-Headers', 'ETag');
-		}
+		allowOrigin(origin, res);
 		const body =
 			'<?xml version="1.0" encoding="UTF-8"?>\n' +
 			`<Error><Code>${code}</Code><Message>${escapeXml(message)}</Message></Error>`;
@@ -201,7 +206,12 @@ export async function startStorageFake(opts: StorageFakeOptions): Promise<Storag
 			sendError(req, res, verdict.status, verdict.code, verdict.message);
 			return;
 		}
-		handle(req, res);
+		handleMultipart(req, res, opts.directory, (r, w) => allowOrigin(r.headers.origin, w)).then(
+			(handled) => {
+				if (!handled) handle(req, res);
+			},
+			(error: unknown) => sendError(req, res, 500, 'InternalError', String(error))
+		);
 	});
 
 	try {

@@ -3,3 +3,5 @@ export * from './clinics';
 export * from './patients';
 export * from './invitations';
 export * from './audit';
+export * from './recordings';
+export * from './jobs';

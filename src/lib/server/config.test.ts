@@ -1,0 +1,30 @@
+import { describe, expect, it } from 'vitest';
+import { readConfig } from './config';
+
+describe('readConfig', () => {
+	it('has working one-machine defaults', () => {
+		const config = readConfig({});
+		expect(config.DATABASE_PATH).toBe('.data/kinelume.db');
+		expect(config.S3_ENDPOINT).toBe('http://127.0.0.1:4569');
+		expect(config.S3_FORCE_PATH_STYLE).toBe(true);
+		expect(config.SMTP_PORT).toBe(2525);
+		expect(config.INVITATION_TTL_HOURS).toBe(72);
+	});
+
+	it('reads values and converts types', () => {
+		const config = readConfig({ SMTP_PORT: '587', SMTP_SECURE: 'true', S3_FORCE_PATH_STYLE: 'false' });
+		expect(config.SMTP_PORT).toBe(587);
+		expect(config.SMTP_SECURE).toBe(true);
+		expect(config.S3_FORCE_PATH_STYLE).toBe(false);
+	});
+
+	it('stops with a sentence naming each bad variable', () => {
+		expect(() => readConfig({ SMTP_PORT: 'twenty' })).toThrow(/The environment variable SMTP_PORT is invalid \("twenty"\)/);
+		expect(() => readConfig({ ORIGIN: 'not a url', S3_BUCKET: 'Bad_Bucket' })).toThrow(/ORIGIN.*S3_BUCKET|S3_BUCKET.*ORIGIN/);
+		expect(() => readConfig({ AUTH_SECRET: 'short' })).toThrow(/AUTH_SECRET is invalid.*at least 32 characters/);
+	});
+
+	it('ignores variables it does not own', () => {
+		expect(() => readConfig({ PATH: '/usr/bin', HOME: '/root' })).not.toThrow();
+	});
+});

@@ -1,0 +1,44 @@
+import { index, integer, real, sqliteTable, text } from 'drizzle-orm/sqlite-core';
+import { recordings } from './recordings';
+
+export const JOB_KINDS = ['process-recording'] as const;
+export type JobKind = (typeof JOB_KINDS)[number];
+export const JOB_STATUSES = ['queued', 'running', 'succeeded', 'failed', 'cancelled'] as const;
+export type JobStatus = (typeof JOB_STATUSES)[number];
+
+/**
+ * Durable work: a worker in any process claims a queued row with one UPDATE, keeps `heartbeatAt`
+ * fresh while it runs, and a row whose heartbeat went stale (the process died) is queued again.
+ */
+export const jobs = sqliteTable(
+	'job',
+	{
+		id: text('id')
+			.primaryKey()
+			.$defaultFn(() => crypto.randomUUID()),
+		kind: text('kind', { enum: JOB_KINDS }).notNull(),
+		recordingId: text('recording_id')
+			.notNull()
+			.references(() => recordings.id, { onDelete: 'cascade' }),
+		status: text('status', { enum: JOB_STATUSES }).notNull().default('queued'),
+		attempts: integer('attempts').notNull().default(0),
+		maxAttempts: integer('max_attempts').notNull().default(3),
+		runAfter: integer('run_after', { mode: 'timestamp_ms' })
+			.notNull()
+			.$defaultFn(() => new Date()),
+		progress: real('progress').notNull().default(0),
+		stage: text('stage').notNull().default('waiting'),
+		lastError: text('last_error'),
+		lockedBy: text('locked_by'),
+		heartbeatAt: integer('heartbeat_at', { mode: 'timestamp_ms' }),
+		/** Set by a cancel request; the worker running the job sees it at its next heartbeat. */
+		cancelRequested: integer('cancel_requested', { mode: 'boolean' }).notNull().default(false),
+		createdAt: integer('created_at', { mode: 'timestamp_ms' })
+			.notNull()
+			.$defaultFn(() => new Date()),
+		finishedAt: integer('finished_at', { mode: 'timestamp_ms' })
+	},
+	(j) => [index('job_claim').on(j.status, j.runAfter), index('job_recording').on(j.recordingId)]
+);
+
+export type Job = typeof jobs.$inferSelect;

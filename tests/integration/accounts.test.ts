@@ -1,0 +1,155 @@
+import { testEnv } from './env';
+import { mkdtempSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { eq } from 'drizzle-orm';
+import { beforeAll, describe, expect, it } from 'vitest';
+
+// A database of this file's own, so other files' rows cannot change what is counted here.
+process.env.DATABASE_PATH = join(mkdtempSync(join(tmpdir(), 'kinelume-accounts-')), 'accounts.db');
+
+const { db, schema } = await import('../../src/lib/server/db');
+const { acceptInvitation, findInvitation, InvitationError, sendInvitation } = await import('../../src/lib/server/invitations');
+const { changeRole, MemberError, removeMember } = await import('../../src/lib/server/members');
+const { invitePatient } = await import('../../src/lib/server/patients');
+const { loadPrincipal } = await import('../../src/lib/server/auth/principal');
+const { verifyPassword } = await import('../../src/lib/server/auth/passwords');
+const { clearSignInFailures, recordSignInFailure, signInLockout } = await import('../../src/lib/server/auth/sign-in-limits');
+const { listInbox, readInboxMessage } = await import('../../src/lib/server/mail/inbox');
+
+type Principal = NonNullable<ReturnType<typeof loadPrincipal>>;
+
+function makeClinic(name: string) {
+	return db().insert(schema.clinics).values({ name }).returning().get();
+}
+
+function makeStaff(clinicId: string, email: string, role: 'admin' | 'clinician' | 'educator'): Principal {
+	const user = db().insert(schema.users).values({ email, name: email.split('@')[0] }).returning().get();
+	db().insert(schema.memberships).values({ userId: user.id, clinicId, role }).run();
+	return loadPrincipal(user.id)!;
+}
+
+/** The invitation link's token, read back from the mail fake like a person reading their e-mail. */
+async function tokenMailedTo(email: string): Promise<string> {
+	const summary = (await listInbox()).find((m) => m.to.includes(email));
+	expect(summary, `an e-mail to ${email}`).toBeDefined();
+	const message = await readInboxMessage(summary!.id);
+	const link = message!.text!.match(/https?:\/\/\S+\/invite\/([A-Za-z0-9_-]+)/);
+	expect(link).not.toBeNull();
+	return link![1];
+}
+
+let clinic: { id: string; name: string };
+let admin: Principal;
+
+beforeAll(() => {
+	expect(testEnv.DEV_INBOX_URL).toMatch(/^http/);
+	clinic = makeClinic('Invented Test Clinic');
+	admin = makeStaff(clinic.id, 'boss@test-clinic.example', 'admin');
+});
+
+describe('staff invitations', () => {
+	it('mail a link that works once, creating the account and its role in one step', async () => {
+		const email = 'new.clinician@test-clinic.example';
+		await sendInvitation({ clinicId: clinic.id, email: 'New.Clinician@Test-Clinic.example ', role: 'clinician', invitedBy: admin });
+		const token = await tokenMailedTo(email);
+
+		// Only a hash of the token is stored.
+		const stored = db().query.invitations.findFirst({ where: eq(schema.invitations.email, email) }).sync()!;
+		expect(stored.tokenHash).not.toContain(token);
+		expect(findInvitation(token)?.status).toBe('pending');
+
+		const accepted = await acceptInvitation(token, { name: 'Nell Ortega', password: 'long-enough-secret' });
+		const principal = loadPrincipal(accepted.userId)!;
+		expect(principal).toMatchObject({ role: 'clinician', clinicId: clinic.id, name: 'Nell Ortega', email });
+		const user = db().query.users.findFirst({ where: eq(schema.users.id, accepted.userId) }).sync()!;
+		expect(await verifyPassword(user.passwordHash, 'long-enough-secret')).toBe(true);
+
+		await expect(acceptInvitation(token, { name: 'Again', password: 'long-enough-secret' })).rejects.toThrow(InvitationError);
+		expect(findInvitation(token)?.status).toBe('accepted');
+		const kinds = db().select().from(schema.auditEvents).where(eq(schema.auditEvents.subject, email)).all().map((e) => e.kind);
+		expect(kinds).toEqual(['invitation-sent', 'invitation-accepted']);
+	});
+
+	it('refuse an expired link and create nothing', async () => {
+		const email = 'late@test-clinic.example';
+		await sendInvitation({ clinicId: clinic.id, email, role: 'educator', invitedBy: admin });
+		const token = await tokenMailedTo(email);
+		db().update(schema.invitations).set({ expiresAt: new Date(Date.now() - 1) }).where(eq(schema.invitations.email, email)).run();
+		await expect(acceptInvitation(token, { name: 'Late', password: 'long-enough-secret' })).rejects.toThrow('expired');
+		expect(db().query.users.findFirst({ where: eq(schema.users.email, email) }).sync()).toBeUndefined();
+	});
+
+	it('withdraw the older link when a newer invitation goes to the same address', async () => {
+		const email = 'twice@test-clinic.example';
+		await sendInvitation({ clinicId: clinic.id, email, role: 'clinician', invitedBy: admin });
+		const first = await tokenMailedTo(email);
+		await new Promise((r) => setTimeout(r, 20));
+		await sendInvitation({ clinicId: clinic.id, email, role: 'educator', invitedBy: admin });
+		expect(findInvitation(first)?.status).toBe('revoked');
+		const pending = db().select().from(schema.invitations).where(eq(schema.invitations.email, email)).all().filter((i) => !i.revokedAt);
+		expect(pending).toHaveLength(1);
+		expect(pending[0].role).toBe('educator');
+	});
+});
+
+describe('patient invitations', () => {
+	it('join the patient record to a new account that may have no password', async () => {
+		const clinician = makeStaff(clinic.id, 'physio@test-clinic.example', 'clinician');
+		const patient = await invitePatient(clinician, { fullName: 'Ida Brook', email: 'ida@test-clinic.example', affectedSide: 'left', condition: 'Left knee replacement' });
+		const token = await tokenMailedTo('ida@test-clinic.example');
+		const accepted = await acceptInvitation(token, { name: 'Ida Brook', password: null });
+		expect(loadPrincipal(accepted.userId)).toMatchObject({ role: 'patient', patientId: patient.id, clinicId: clinic.id });
+		const user = db().query.users.findFirst({ where: eq(schema.users.id, accepted.userId) }).sync()!;
+		expect(user.passwordHash).toBeNull();
+		await expect(invitePatient(clinician, { fullName: 'Ida Again', email: 'IDA@test-clinic.example', affectedSide: 'left', condition: '' })).rejects.toThrow('already in your clinic');
+	});
+});
+
+describe('members', () => {
+	it('keep at least one admin, and a change of role is audited', () => {
+		const own = db().query.memberships.findFirst({ where: eq(schema.memberships.userId, admin.id) }).sync()!;
+		expect(() => changeRole(admin, own.id, 'clinician')).toThrow('at least one admin');
+		const second = makeStaff(clinic.id, 'deputy@test-clinic.example', 'educator');
+		const secondMembership = db().query.memberships.findFirst({ where: eq(schema.memberships.userId, second.id) }).sync()!;
+		changeRole(admin, secondMembership.id, 'admin');
+		expect(loadPrincipal(second.id)?.role).toBe('admin');
+		const event = db().select().from(schema.auditEvents).where(eq(schema.auditEvents.subject, second.id)).get();
+		expect(event).toMatchObject({ kind: 'role-changed', detail: { from: 'educator', to: 'admin' } });
+	});
+
+	it('cannot be removed by themselves or by another clinic', () => {
+		const own = db().query.memberships.findFirst({ where: eq(schema.memberships.userId, admin.id) }).sync()!;
+		expect(() => removeMember(admin, own.id)).toThrow('cannot remove yourself');
+		const elsewhere = makeClinic('Another Invented Clinic');
+		const foreignAdmin = makeStaff(elsewhere.id, 'boss@another.example', 'admin');
+		const victim = makeStaff(clinic.id, 'victim@test-clinic.example', 'clinician');
+		const victimMembership = db().query.memberships.findFirst({ where: eq(schema.memberships.userId, victim.id) }).sync()!;
+		expect(() => removeMember(foreignAdmin, victimMembership.id)).toThrow(MemberError);
+		expect(loadPrincipal(victim.id)?.role).toBe('clinician');
+		removeMember(admin, victimMembership.id);
+		// Removed from the clinic means no role: the person is treated as signed out.
+		expect(loadPrincipal(victim.id)).toBeNull();
+	});
+});
+
+describe('sign-in lockout', () => {
+	it('locks an account after five failures in the window and clears on success', () => {
+		const email = 'guessed@test-clinic.example';
+		for (let i = 0; i < 4; i++) recordSignInFailure(email, '203.0.113.7');
+		expect(signInLockout(email, '203.0.113.7').locked).toBe(false);
+		recordSignInFailure(email, '198.51.100.2');
+		const locked = signInLockout(email, '192.0.2.1');
+		expect(locked.locked).toBe(true);
+		expect(locked.retryAfterSeconds).toBeGreaterThan(14 * 60);
+		expect(locked.retryAfterSeconds).toBeLessThanOrEqual(15 * 60);
+		clearSignInFailures(email);
+		expect(signInLockout(email, '192.0.2.1').locked).toBe(false);
+	});
+
+	it('also slows one address walking through many accounts', () => {
+		for (let i = 0; i < 25; i++) recordSignInFailure(`walker${i}@test-clinic.example`, '203.0.113.99');
+		expect(signInLockout('fresh@test-clinic.example', '203.0.113.99').locked).toBe(true);
+		expect(signInLockout('fresh@test-clinic.example', '203.0.113.100').locked).toBe(false);
+	});
+});
