@@ -10,7 +10,7 @@ import { recordAudit } from '$lib/server/audit';
 import { authSecret } from '$lib/server/auth/secret';
 import { verifyPassword } from '$lib/server/auth/passwords';
 import { loadPrincipal } from '$lib/server/auth/principal';
-import { sendMail } from '$lib/server/mail';
+import { sendMail, smtpOptions } from '$lib/server/mail';
 import { signInLinkMail } from '$lib/server/mail/templates';
 import { normaliseEmail } from '$lib/server/invitations';
 
@@ -20,7 +20,9 @@ const credentialsSchema = z.object({
 });
 
 function userByEmail(email: string) {
-	return db().query.users.findFirst({ where: eq(schema.users.email, normaliseEmail(email)) }).sync();
+	return db()
+		.query.users.findFirst({ where: eq(schema.users.email, normaliseEmail(email)) })
+		.sync();
 }
 
 /**
@@ -28,7 +30,11 @@ function userByEmail(email: string) {
  * the credentials provider); each request re-reads the person's role and clinic from the database
  * (hooks.server.ts), so the token carries only the user id.
  */
-export const { handle: authHandle, signIn, signOut } = SvelteKitAuth(async () => ({
+export const {
+	handle: authHandle,
+	signIn,
+	signOut
+} = SvelteKitAuth(async () => ({
 	adapter: DrizzleAdapter(db(), {
 		usersTable: schema.users,
 		accountsTable: schema.accounts,
@@ -53,11 +59,9 @@ export const { handle: authHandle, signIn, signOut } = SvelteKitAuth(async () =>
 			}
 		}),
 		Nodemailer({
-			server: {
-				host: config().SMTP_HOST,
-				port: config().SMTP_PORT,
-				secure: config().SMTP_SECURE
-			},
+			// Our sendVerificationRequest sends through the app's own transport; the provider
+			// still requires its settings.
+			server: smtpOptions(),
 			from: config().MAIL_FROM,
 			maxAge: 30 * 60,
 			async sendVerificationRequest({ identifier, url, expires }) {

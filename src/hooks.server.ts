@@ -4,12 +4,15 @@ import { accessForRoute, decide } from '$lib/auth/access';
 import { loadPrincipal } from '$lib/server/auth/principal';
 import { config } from '$lib/server/config';
 import { db } from '$lib/server/db';
+import { startBackgroundWork } from '$lib/server/jobs';
+import { storageOrigin } from '$lib/server/storage/multipart';
 import { authHandle } from './auth';
 
 /** Fails start-up early with a sentence when configuration or the database is wrong. */
 export function init() {
 	config();
 	db();
+	if (config().WORKER_IN_APP) startBackgroundWork();
 }
 
 /** Who is asking: fills `locals.user` from the Auth.js session and the database. */
@@ -36,7 +39,9 @@ const authorization: Handle = async ({ event, resolve }) => {
 		// (requireRole), so the error page is drawn in the app's look; an error thrown here could
 		// only use the bare error.html. Anything else — actions, other methods, denied routes —
 		// stops here.
-		const viewingGroupPage = access.kind === 'roles' && (event.request.method === 'GET' || event.request.method === 'HEAD');
+		const viewingGroupPage =
+			access.kind === 'roles' &&
+			(event.request.method === 'GET' || event.request.method === 'HEAD');
 		if (!viewingGroupPage) error(403, 'Your role does not give access to this page.');
 	}
 	return resolve(event);
@@ -47,6 +52,14 @@ const securityHeaders: Handle = async ({ event, resolve }) => {
 	// Responses made by Auth.js (redirects) come with immutable headers; copy them to add ours.
 	if (isImmutable(response)) response = new Response(response.body, response);
 	response.headers.set('X-Content-Type-Options', 'nosniff');
+	// Recordings go from the browser straight to storage, so pages may connect to its origin.
+	const csp = response.headers.get('Content-Security-Policy');
+	if (csp?.includes("connect-src 'self'")) {
+		response.headers.set(
+			'Content-Security-Policy',
+			csp.replace("connect-src 'self'", `connect-src 'self' ${storageOrigin()}`)
+		);
+	}
 	response.headers.set('Referrer-Policy', 'strict-origin-when-cross-origin');
 	response.headers.set('X-Frame-Options', 'DENY');
 	response.headers.set('Permissions-Policy', 'camera=(), microphone=(), geolocation=()');
@@ -69,5 +82,7 @@ export const handle = sequence(securityHeaders, authHandle, authentication, auth
 
 export const handleError: HandleServerError = ({ error: err, event, status }) => {
 	if (status !== 404) console.error(`[${event.request.method} ${event.url.pathname}]`, err);
-	return { message: status === 404 ? 'Not found.' : 'Something went wrong on our side. Please try again.' };
+	return {
+		message: status === 404 ? 'Not found.' : 'Something went wrong on our side. Please try again.'
+	};
 };

@@ -23,9 +23,10 @@ if (reset) {
 }
 
 console.log('Building Kinelume…');
-const build = spawnSync('npx', ['vite', 'build'], { stdio: ['ignore', 'ignore', 'inherit'] });
+const build = spawnSync(resolve('node_modules/.bin/vite'), ['build'], { encoding: 'utf8' });
 if (build.status !== 0) {
-	console.error('The build failed; see the messages above.');
+	// Only a failed build's output is worth reading; a good one is just noise here.
+	console.error(build.stdout, build.stderr, '\nThe build failed; see the messages above.');
 	process.exit(1);
 }
 
@@ -72,14 +73,20 @@ async function waitForHealth(): Promise<boolean> {
 	return false;
 }
 
-if (!(await waitForHealth())) console.error('The app did not report healthy; see the messages above.');
+if (!(await waitForHealth()))
+	console.error('The app did not report healthy; see the messages above.');
 
 const width = Math.max(...accounts.map((a) => a.email.length));
 console.log(`\nKinelume demo is running at ${origin}\n`);
 console.log(`Every demo account's password: ${DEMO_PASSWORD}\n`);
-for (const a of accounts) console.log(`  ${a.email.padEnd(width)}  ${a.role.padEnd(9)}  ${a.name}, ${a.clinic}`);
-console.log(`\nE-mails (invitations, sign-in links) land in the development inbox: sign in as an admin and open ${origin}/inbox`);
-console.log(`Storage fake: ${storage.url}   Mail fake: SMTP 127.0.0.1:${mail.smtpPort}, messages ${mail.apiUrl}/messages`);
+for (const a of accounts)
+	console.log(`  ${a.email.padEnd(width)}  ${a.role.padEnd(9)}  ${a.name}, ${a.clinic}`);
+console.log(
+	`\nE-mails (invitations, sign-in links) land in the development inbox: sign in as an admin and open ${origin}/inbox`
+);
+console.log(
+	`Storage fake: ${storage.url}   Mail fake: SMTP 127.0.0.1:${mail.smtpPort}, messages ${mail.apiUrl}/messages`
+);
 console.log('Press Ctrl+C to stop.\n');
 
 let stopping = false;

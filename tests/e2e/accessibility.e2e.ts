@@ -19,7 +19,14 @@ test('public pages have no axe violations', async ({ page }) => {
 
 const ROLE_PAGES = [
 	{ email: ACCOUNTS.admin, pages: () => ['/clinic', '/inbox', '/account'] },
-	{ email: ACCOUNTS.clinician, pages: () => ['/patients', `/patients/${idOf('select id from patient where email = ?', ACCOUNTS.patient)}`, '/account'] },
+	{
+		email: ACCOUNTS.clinician,
+		pages: () => [
+			'/patients',
+			`/patients/${idOf('select id from patient where email = ?', ACCOUNTS.patient)}`,
+			'/account'
+		]
+	},
 	{ email: ACCOUNTS.educator, pages: () => ['/curate', '/account'] },
 	{ email: ACCOUNTS.patient, pages: () => ['/today', '/account', '/clinic'] }
 ];
@@ -34,13 +41,23 @@ for (const role of ROLE_PAGES) {
 	});
 }
 
-test('the inbox message page and the invitation page have no axe violations', async ({ page, browser }) => {
+test('the inbox message page and the invitation page have no axe violations', async ({
+	page,
+	browser
+}) => {
 	await signInWithPassword(page, ACCOUNTS.admin);
 	await visit(page, '/inbox');
-	await page.getByRole('link', { name: /invited to join/ }).first().click();
+	await page
+		.getByRole('link', { name: /invited to join/ })
+		.first()
+		.click();
 	await expect(page.getByTestId('message-body')).toBeVisible();
 	await expectNoAxeViolations(page);
-	const link = await page.getByTestId('message-body').getByRole('link').first().getAttribute('href');
+	const link = await page
+		.getByTestId('message-body')
+		.getByRole('link')
+		.first()
+		.getAttribute('href');
 	const guest = await browser.newContext({ baseURL: E2E.origin });
 	const visitor = await guest.newPage();
 	await visitor.goto(link!);

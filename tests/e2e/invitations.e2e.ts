@@ -2,7 +2,10 @@ import { expect, test } from '@playwright/test';
 import { ACCOUNTS, database, firstLink, signInWithPassword, waitForMail } from './support';
 import { E2E } from './ports';
 
-test('an admin invites a clinician, who accepts and signs in; the link then is spent', async ({ page, browser }) => {
+test('an admin invites a clinician, who accepts and signs in; the link then is spent', async ({
+	page,
+	browser
+}) => {
 	const email = `new.physio.${Date.now()}@alder-street.example`;
 	await signInWithPassword(page, ACCOUNTS.admin);
 	await expect(page).toHaveURL(/\/clinic$/);
@@ -11,8 +14,14 @@ test('an admin invites a clinician, who accepts and signs in; the link then is s
 	await invite.getByLabel('E-mail address').fill(email);
 	await invite.getByLabel('Role').selectOption('clinician');
 	await invite.getByRole('button', { name: 'Send invitation' }).click();
-	await expect(page.getByRole('status').filter({ hasText: `Invitation sent to ${email}` })).toBeVisible();
-	await expect(page.getByRole('region', { name: /Pending invitations/ }).getByRole('cell', { name: email, exact: true })).toBeVisible();
+	await expect(
+		page.getByRole('status').filter({ hasText: `Invitation sent to ${email}` })
+	).toBeVisible();
+	await expect(
+		page
+			.getByRole('region', { name: /Pending invitations/ })
+			.getByRole('cell', { name: email, exact: true })
+	).toBeVisible();
 
 	const mail = await waitForMail(email, since);
 	expect(mail.subject).toContain('Alder Street Community Clinic');
@@ -21,7 +30,9 @@ test('an admin invites a clinician, who accepts and signs in; the link then is s
 	const guest = await browser.newContext({ baseURL: E2E.origin });
 	const newcomer = await guest.newPage();
 	await newcomer.goto(link);
-	await expect(newcomer.getByRole('heading', { level: 1 })).toHaveText('Join Alder Street Community Clinic');
+	await expect(newcomer.getByRole('heading', { level: 1 })).toHaveText(
+		'Join Alder Street Community Clinic'
+	);
 	await newcomer.getByLabel('Your name').fill('Noor Ashby');
 	await newcomer.getByLabel('Choose a password').fill('a-long-enough-secret');
 	await newcomer.getByLabel('Type the password again').fill('a-long-enough-secret');
@@ -39,7 +50,9 @@ test('an admin invites a clinician, who accepts and signs in; the link then is s
 	await expect(page.getByRole('cell', { name: 'Noor Ashby', exact: true })).toBeVisible();
 });
 
-test('an expired invitation link is refused with a clear message and changes nothing', async ({ page }) => {
+test('an expired invitation link is refused with a clear message and changes nothing', async ({
+	page
+}) => {
 	const email = `late.${Date.now()}@alder-street.example`;
 	await signInWithPassword(page, ACCOUNTS.admin);
 	const since = Date.now();
@@ -56,18 +69,27 @@ test('an expired invitation link is refused with a clear message and changes not
 	expect(response.status()).toBe(410);
 	expect(await response.text()).toContain('has expired');
 	const accepted = await page.request.post(new URL(link).pathname, {
-		form: { name: 'Late Person', password: 'a-long-enough-secret', confirm: 'a-long-enough-secret' },
+		form: {
+			name: 'Late Person',
+			password: 'a-long-enough-secret',
+			confirm: 'a-long-enough-secret'
+		},
 		headers: { Origin: E2E.origin, Accept: 'text/html' },
 		maxRedirects: 0
 	});
 	expect(accepted.status()).toBe(410);
 	const check = database();
-	const users = check.prepare('select count(*) as n from user where email = ?').get(email) as { n: number };
+	const users = check.prepare('select count(*) as n from user where email = ?').get(email) as {
+		n: number;
+	};
 	check.close();
 	expect(users.n).toBe(0);
 });
 
-test('a clinician invites a patient, who joins without a password and signs in by link', async ({ page, browser }) => {
+test('a clinician invites a patient, who joins without a password and signs in by link', async ({
+	page,
+	browser
+}) => {
 	const email = `new.patient.${Date.now()}@alder-street.example`;
 	await signInWithPassword(page, ACCOUNTS.clinician);
 	const since = Date.now();
@@ -92,17 +114,24 @@ test('a clinician invites a patient, who joins without a password and signs in b
 	const linkForm = patient.locator('form[action="?/link"]');
 	await expect(linkForm.getByLabel('E-mail address')).toHaveValue(email);
 	await linkForm.getByRole('button', { name: 'Send me a sign-in link' }).click();
-	const signInLink = firstLink((await waitForMail(email, linkSince, 'sign-in link')).text, '/auth/callback/nodemailer');
+	const signInLink = firstLink(
+		(await waitForMail(email, linkSince, 'sign-in link')).text,
+		'/auth/callback/nodemailer'
+	);
 	await patient.goto(signInLink);
 	await expect(patient).toHaveURL(/\/today$/);
 	await expect(patient.getByRole('heading', { level: 1 })).toContainText('Hattie');
 	await guest.close();
 
 	await page.reload();
-	await expect(page.getByRole('row').filter({ hasText: 'Hattie Groves' }).getByText('Signed up')).toBeVisible();
+	await expect(
+		page.getByRole('row').filter({ hasText: 'Hattie Groves' }).getByText('Signed up')
+	).toBeVisible();
 });
 
-test('a malformed invitation form keeps what was typed and says what is wrong', async ({ page }) => {
+test('a malformed invitation form keeps what was typed and says what is wrong', async ({
+	page
+}) => {
 	await signInWithPassword(page, ACCOUNTS.clinician);
 	const response = await page.request.post('/patients?/invite', {
 		form: { fullName: 'Someone', email: 'not-an-address', affectedSide: 'left', condition: '' },

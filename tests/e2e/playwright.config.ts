@@ -34,7 +34,7 @@ export default defineConfig({
 		screenshot: 'only-on-failure'
 	},
 	webServer: {
-		command: "node_modules/.bin/tsx tests/e2e/stack.ts",
+		command: 'node_modules/.bin/tsx tests/e2e/stack.ts',
 		cwd: '../..',
 		url: `${E2E.origin}/api/health`,
 		timeout: 120_000,

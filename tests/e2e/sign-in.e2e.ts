@@ -3,10 +3,20 @@ import { ACCOUNTS, DEMO_PASSWORD, firstLink, signInWithPassword, waitForMail } f
 import { E2E } from './ports';
 
 const HOMES = [
-	{ role: 'admin', email: ACCOUNTS.admin, path: '/clinic', heading: 'Alder Street Community Clinic' },
+	{
+		role: 'admin',
+		email: ACCOUNTS.admin,
+		path: '/clinic',
+		heading: 'Alder Street Community Clinic'
+	},
 	{ role: 'clinician', email: ACCOUNTS.clinician, path: '/patients', heading: 'Patients' },
 	{ role: 'educator', email: ACCOUNTS.educator, path: '/curate', heading: 'Library desk' },
-	{ role: 'patient', email: ACCOUNTS.patient, path: '/today', heading: /Good (morning|afternoon|evening), Walter/ }
+	{
+		role: 'patient',
+		email: ACCOUNTS.patient,
+		path: '/today',
+		heading: /Good (morning|afternoon|evening), Walter/
+	}
 ] as const;
 
 for (const home of HOMES) {
@@ -28,7 +38,9 @@ for (const home of HOMES) {
 
 test('the patient home carries the standing caution', async ({ page }) => {
 	await signInWithPassword(page, ACCOUNTS.patient);
-	await expect(page.getByRole('complementary', { name: 'Stop if it hurts' })).toContainText('sharp or getting worse');
+	await expect(page.getByRole('complementary', { name: 'Stop if it hurts' })).toContainText(
+		'sharp or getting worse'
+	);
 });
 
 test('signing in by the e-mailed link works once', async ({ page, browser }) => {
@@ -63,7 +75,9 @@ test('an unknown address and a wrong password get the same message', async ({ pa
 	expect(wrong).toBe(unknown);
 });
 
-test('asking a link for an unknown address says the same as for a known one and sends nothing', async ({ page }) => {
+test('asking a link for an unknown address says the same as for a known one and sends nothing', async ({
+	page
+}) => {
 	const since = Date.now();
 	await page.goto('/signin');
 	const form = page.locator('form[action="?/link"]');
@@ -93,14 +107,17 @@ test('a form post from a foreign origin is refused', async ({ request }) => {
 	expect(response.headers()['set-cookie'] ?? '').not.toContain('session-token');
 });
 
-test('six wrong passwords in a row give 429 with Retry-After, and the right one waits too', async ({ request }) => {
+test('six wrong passwords in a row give 429 with Retry-After, and the right one waits too', async ({
+	request
+}) => {
 	const attempt = (password: string) =>
 		request.post('/signin?/password', {
 			form: { providerId: 'credentials', email: ACCOUNTS.otherPatient, password },
 			headers: { Origin: E2E.origin, Accept: 'text/html' },
 			maxRedirects: 0
 		});
-	for (let i = 1; i <= 5; i++) expect((await attempt(`wrong-${i}-password`)).status(), `attempt ${i}`).toBe(400);
+	for (let i = 1; i <= 5; i++)
+		expect((await attempt(`wrong-${i}-password`)).status(), `attempt ${i}`).toBe(400);
 	const sixth = await attempt('wrong-6-password');
 	expect(sixth.status()).toBe(429);
 	const retryAfter = Number(sixth.headers()['retry-after']);

@@ -1,6 +1,7 @@
 import { expect, request, type APIRequestContext, type Page } from '@playwright/test';
 import AxeBuilder from '@axe-core/playwright';
 import Database from 'better-sqlite3';
+import { PutObjectCommand, S3Client } from '@aws-sdk/client-s3';
 import { E2E } from './ports';
 import { DEMO_PASSWORD } from '../../src/lib/server/demo/seed';
 
@@ -39,7 +40,10 @@ export function idOf(sql: string, ...params: unknown[]): string {
 }
 
 /** A request context signed in with a password through the real sign-in form action. */
-export async function signedInRequest(email: string, password = DEMO_PASSWORD): Promise<APIRequestContext> {
+export async function signedInRequest(
+	email: string,
+	password = DEMO_PASSWORD
+): Promise<APIRequestContext> {
 	const context = await request.newContext({ baseURL: E2E.origin });
 	const response = await context.post('/signin?/password', {
 		form: { providerId: 'credentials', email, password, redirectTo: '/home' },
@@ -59,7 +63,12 @@ export async function contextFor(role: MatrixRole): Promise<APIRequestContext> {
  * Signs in through the page, as a person would, and waits until the app has moved on from the
  * sign-in page (pass `expectSuccess: false` for attempts that should fail).
  */
-export async function signInWithPassword(page: Page, email: string, password = DEMO_PASSWORD, expectSuccess = true) {
+export async function signInWithPassword(
+	page: Page,
+	email: string,
+	password = DEMO_PASSWORD,
+	expectSuccess = true
+) {
 	await page.goto('/signin');
 	const form = page.locator('form[action="?/password"]');
 	await form.getByLabel('E-mail address').fill(email);
@@ -94,10 +103,16 @@ export async function waitForMail(
 	for (let attempt = 0; attempt < 50; attempt++) {
 		const list = (await (await fetch(`${E2E.mailApi}/messages`)).json()) as MessageSummary[];
 		const found = list.find(
-			(m) => m.to.includes(email) && m.subject.includes(subject) && new Date(m.date).getTime() >= since - 1000
+			(m) =>
+				m.to.includes(email) &&
+				m.subject.includes(subject) &&
+				new Date(m.date).getTime() >= since - 1000
 		);
 		if (found) {
-			const full = (await (await fetch(`${E2E.mailApi}/messages/${found.id}`)).json()) as { text: string; subject: string };
+			const full = (await (await fetch(`${E2E.mailApi}/messages/${found.id}`)).json()) as {
+				text: string;
+				subject: string;
+			};
 			return { id: found.id, subject: full.subject, text: full.text };
 		}
 		await new Promise((r) => setTimeout(r, 200));
@@ -113,7 +128,51 @@ export function firstLink(text: string, pathPart: string): string {
 
 /** Runs axe-core on the current page and expects no violations at WCAG 2.x A/AA. */
 export async function expectNoAxeViolations(page: Page) {
-	const results = await new AxeBuilder({ page }).withTags(['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa', 'wcag22aa', 'best-practice']).analyze();
-	const summary = results.violations.map((v) => `${v.id}: ${v.help} (${v.nodes.map((n) => n.target.join(' ')).join(', ')})`);
+	const results = await new AxeBuilder({ page })
+		.withTags(['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa', 'wcag22aa', 'best-practice'])
+		.analyze();
+	const summary = results.violations.map(
+		(v) => `${v.id}: ${v.help} (${v.nodes.map((n) => n.target.join(' ')).join(', ')})`
+	);
 	expect(summary, `axe on ${page.url()}`).toEqual([]);
+}
+
+/**
+ * Puts a ready recording straight into the e2e database and storage for `clinicianEmail`'s
+ * clinic (a few bytes stand in for the rendition and the poster), and returns its id.
+ */
+export async function seedReadyRecording(clinicianEmail: string): Promise<string> {
+	const db = database();
+	const id = crypto.randomUUID();
+	let clinicId: string;
+	try {
+		const member = db
+			.prepare('select m.clinic_id as clinicId, u.id as userId from membership m join user u on u.id = m.user_id where u.email = ?')
+			.get(clinicianEmail) as { clinicId: string; userId: string };
+		clinicId = member.clinicId;
+		db.prepare(
+			`insert into recording (id, clinic_id, uploaded_by, title, original_filename, content_type, size_bytes, status,
+			 duration_seconds, width, height, video_codec, poster_count, created_at, ready_at)
+			 values (?, ?, ?, 'Seeded recording', 'seeded.mp4', 'video/mp4', 16, 'ready', 1, 320, 240, 'h264', 1, ?, ?)`
+		).run(id, clinicId, member.userId, Date.now(), Date.now());
+	} finally {
+		db.close();
+	}
+	const s3 = new S3Client({
+		region: 'us-east-1',
+		endpoint: `http://127.0.0.1:${E2E.storagePort}`,
+		forcePathStyle: true,
+		credentials: { accessKeyId: 'S3RVER', secretAccessKey: 'S3RVER' },
+		requestChecksumCalculation: 'WHEN_REQUIRED',
+		responseChecksumValidation: 'WHEN_REQUIRED'
+	});
+	const prefix = `clinics/${clinicId}/recordings/${id}/`;
+	for (const [key, type] of [
+		['rendition.mp4', 'video/mp4'],
+		['posters/0.jpg', 'image/jpeg']
+	]) {
+		await s3.send(new PutObjectCommand({ Bucket: 'kinelume', Key: prefix + key, Body: 'seeded bytes', ContentType: type }));
+	}
+	s3.destroy();
+	return id;
 }

@@ -9,12 +9,16 @@ import { beforeAll, describe, expect, it } from 'vitest';
 process.env.DATABASE_PATH = join(mkdtempSync(join(tmpdir(), 'kinelume-accounts-')), 'accounts.db');
 
 const { db, schema } = await import('../../src/lib/server/db');
-const { acceptInvitation, findInvitation, InvitationError, sendInvitation } = await import('../../src/lib/server/invitations');
+const { acceptInvitation, findInvitation, InvitationError, sendInvitation } = await import(
+	'../../src/lib/server/invitations'
+);
 const { changeRole, MemberError, removeMember } = await import('../../src/lib/server/members');
 const { invitePatient } = await import('../../src/lib/server/patients');
 const { loadPrincipal } = await import('../../src/lib/server/auth/principal');
 const { verifyPassword } = await import('../../src/lib/server/auth/passwords');
-const { clearSignInFailures, recordSignInFailure, signInLockout } = await import('../../src/lib/server/auth/sign-in-limits');
+const { clearSignInFailures, recordSignInFailure, signInLockout } = await import(
+	'../../src/lib/server/auth/sign-in-limits'
+);
 const { listInbox, readInboxMessage } = await import('../../src/lib/server/mail/inbox');
 
 type Principal = NonNullable<ReturnType<typeof loadPrincipal>>;
@@ -23,8 +27,16 @@ function makeClinic(name: string) {
 	return db().insert(schema.clinics).values({ name }).returning().get();
 }
 
-function makeStaff(clinicId: string, email: string, role: 'admin' | 'clinician' | 'educator'): Principal {
-	const user = db().insert(schema.users).values({ email, name: email.split('@')[0] }).returning().get();
+function makeStaff(
+	clinicId: string,
+	email: string,
+	role: 'admin' | 'clinician' | 'educator'
+): Principal {
+	const user = db()
+		.insert(schema.users)
+		.values({ email, name: email.split('@')[0] })
+		.returning()
+		.get();
 	db().insert(schema.memberships).values({ userId: user.id, clinicId, role }).run();
 	return loadPrincipal(user.id)!;
 }
@@ -51,23 +63,47 @@ beforeAll(() => {
 describe('staff invitations', () => {
 	it('mail a link that works once, creating the account and its role in one step', async () => {
 		const email = 'new.clinician@test-clinic.example';
-		await sendInvitation({ clinicId: clinic.id, email: 'New.Clinician@Test-Clinic.example ', role: 'clinician', invitedBy: admin });
+		await sendInvitation({
+			clinicId: clinic.id,
+			email: 'New.Clinician@Test-Clinic.example ',
+			role: 'clinician',
+			invitedBy: admin
+		});
 		const token = await tokenMailedTo(email);
 
 		// Only a hash of the token is stored.
-		const stored = db().query.invitations.findFirst({ where: eq(schema.invitations.email, email) }).sync()!;
+		const stored = db()
+			.query.invitations.findFirst({ where: eq(schema.invitations.email, email) })
+			.sync()!;
 		expect(stored.tokenHash).not.toContain(token);
 		expect(findInvitation(token)?.status).toBe('pending');
 
-		const accepted = await acceptInvitation(token, { name: 'Nell Ortega', password: 'long-enough-secret' });
+		const accepted = await acceptInvitation(token, {
+			name: 'Nell Ortega',
+			password: 'long-enough-secret'
+		});
 		const principal = loadPrincipal(accepted.userId)!;
-		expect(principal).toMatchObject({ role: 'clinician', clinicId: clinic.id, name: 'Nell Ortega', email });
-		const user = db().query.users.findFirst({ where: eq(schema.users.id, accepted.userId) }).sync()!;
+		expect(principal).toMatchObject({
+			role: 'clinician',
+			clinicId: clinic.id,
+			name: 'Nell Ortega',
+			email
+		});
+		const user = db()
+			.query.users.findFirst({ where: eq(schema.users.id, accepted.userId) })
+			.sync()!;
 		expect(await verifyPassword(user.passwordHash, 'long-enough-secret')).toBe(true);
 
-		await expect(acceptInvitation(token, { name: 'Again', password: 'long-enough-secret' })).rejects.toThrow(InvitationError);
+		await expect(
+			acceptInvitation(token, { name: 'Again', password: 'long-enough-secret' })
+		).rejects.toThrow(InvitationError);
 		expect(findInvitation(token)?.status).toBe('accepted');
-		const kinds = db().select().from(schema.auditEvents).where(eq(schema.auditEvents.subject, email)).all().map((e) => e.kind);
+		const kinds = db()
+			.select()
+			.from(schema.auditEvents)
+			.where(eq(schema.auditEvents.subject, email))
+			.all()
+			.map((e) => e.kind);
 		expect(kinds).toEqual(['invitation-sent', 'invitation-accepted']);
 	});
 
@@ -75,9 +111,19 @@ describe('staff invitations', () => {
 		const email = 'late@test-clinic.example';
 		await sendInvitation({ clinicId: clinic.id, email, role: 'educator', invitedBy: admin });
 		const token = await tokenMailedTo(email);
-		db().update(schema.invitations).set({ expiresAt: new Date(Date.now() - 1) }).where(eq(schema.invitations.email, email)).run();
-		await expect(acceptInvitation(token, { name: 'Late', password: 'long-enough-secret' })).rejects.toThrow('expired');
-		expect(db().query.users.findFirst({ where: eq(schema.users.email, email) }).sync()).toBeUndefined();
+		db()
+			.update(schema.invitations)
+			.set({ expiresAt: new Date(Date.now() - 1) })
+			.where(eq(schema.invitations.email, email))
+			.run();
+		await expect(
+			acceptInvitation(token, { name: 'Late', password: 'long-enough-secret' })
+		).rejects.toThrow('expired');
+		expect(
+			db()
+				.query.users.findFirst({ where: eq(schema.users.email, email) })
+				.sync()
+		).toBeUndefined();
 	});
 
 	it('withdraw the older link when a newer invitation goes to the same address', async () => {
@@ -87,7 +133,12 @@ describe('staff invitations', () => {
 		await new Promise((r) => setTimeout(r, 20));
 		await sendInvitation({ clinicId: clinic.id, email, role: 'educator', invitedBy: admin });
 		expect(findInvitation(first)?.status).toBe('revoked');
-		const pending = db().select().from(schema.invitations).where(eq(schema.invitations.email, email)).all().filter((i) => !i.revokedAt);
+		const pending = db()
+			.select()
+			.from(schema.invitations)
+			.where(eq(schema.invitations.email, email))
+			.all()
+			.filter((i) => !i.revokedAt);
 		expect(pending).toHaveLength(1);
 		expect(pending[0].role).toBe('educator');
 	});
@@ -96,35 +147,68 @@ describe('staff invitations', () => {
 describe('patient invitations', () => {
 	it('join the patient record to a new account that may have no password', async () => {
 		const clinician = makeStaff(clinic.id, 'physio@test-clinic.example', 'clinician');
-		const patient = await invitePatient(clinician, { fullName: 'Ida Brook', email: 'ida@test-clinic.example', affectedSide: 'left', condition: 'Left knee replacement' });
+		const patient = await invitePatient(clinician, {
+			fullName: 'Ida Brook',
+			email: 'ida@test-clinic.example',
+			affectedSide: 'left',
+			condition: 'Left knee replacement'
+		});
 		const token = await tokenMailedTo('ida@test-clinic.example');
 		const accepted = await acceptInvitation(token, { name: 'Ida Brook', password: null });
-		expect(loadPrincipal(accepted.userId)).toMatchObject({ role: 'patient', patientId: patient.id, clinicId: clinic.id });
-		const user = db().query.users.findFirst({ where: eq(schema.users.id, accepted.userId) }).sync()!;
+		expect(loadPrincipal(accepted.userId)).toMatchObject({
+			role: 'patient',
+			patientId: patient.id,
+			clinicId: clinic.id
+		});
+		const user = db()
+			.query.users.findFirst({ where: eq(schema.users.id, accepted.userId) })
+			.sync()!;
 		expect(user.passwordHash).toBeNull();
-		await expect(invitePatient(clinician, { fullName: 'Ida Again', email: 'IDA@test-clinic.example', affectedSide: 'left', condition: '' })).rejects.toThrow('already in your clinic');
+		await expect(
+			invitePatient(clinician, {
+				fullName: 'Ida Again',
+				email: 'IDA@test-clinic.example',
+				affectedSide: 'left',
+				condition: ''
+			})
+		).rejects.toThrow('already in your clinic');
 	});
 });
 
 describe('members', () => {
 	it('keep at least one admin, and a change of role is audited', () => {
-		const own = db().query.memberships.findFirst({ where: eq(schema.memberships.userId, admin.id) }).sync()!;
+		const own = db()
+			.query.memberships.findFirst({ where: eq(schema.memberships.userId, admin.id) })
+			.sync()!;
 		expect(() => changeRole(admin, own.id, 'clinician')).toThrow('at least one admin');
 		const second = makeStaff(clinic.id, 'deputy@test-clinic.example', 'educator');
-		const secondMembership = db().query.memberships.findFirst({ where: eq(schema.memberships.userId, second.id) }).sync()!;
+		const secondMembership = db()
+			.query.memberships.findFirst({ where: eq(schema.memberships.userId, second.id) })
+			.sync()!;
 		changeRole(admin, secondMembership.id, 'admin');
 		expect(loadPrincipal(second.id)?.role).toBe('admin');
-		const event = db().select().from(schema.auditEvents).where(eq(schema.auditEvents.subject, second.id)).get();
-		expect(event).toMatchObject({ kind: 'role-changed', detail: { from: 'educator', to: 'admin' } });
+		const event = db()
+			.select()
+			.from(schema.auditEvents)
+			.where(eq(schema.auditEvents.subject, second.id))
+			.get();
+		expect(event).toMatchObject({
+			kind: 'role-changed',
+			detail: { from: 'educator', to: 'admin' }
+		});
 	});
 
 	it('cannot be removed by themselves or by another clinic', () => {
-		const own = db().query.memberships.findFirst({ where: eq(schema.memberships.userId, admin.id) }).sync()!;
+		const own = db()
+			.query.memberships.findFirst({ where: eq(schema.memberships.userId, admin.id) })
+			.sync()!;
 		expect(() => removeMember(admin, own.id)).toThrow('cannot remove yourself');
 		const elsewhere = makeClinic('Another Invented Clinic');
 		const foreignAdmin = makeStaff(elsewhere.id, 'boss@another.example', 'admin');
 		const victim = makeStaff(clinic.id, 'victim@test-clinic.example', 'clinician');
-		const victimMembership = db().query.memberships.findFirst({ where: eq(schema.memberships.userId, victim.id) }).sync()!;
+		const victimMembership = db()
+			.query.memberships.findFirst({ where: eq(schema.memberships.userId, victim.id) })
+			.sync()!;
 		expect(() => removeMember(foreignAdmin, victimMembership.id)).toThrow(MemberError);
 		expect(loadPrincipal(victim.id)?.role).toBe('clinician');
 		removeMember(admin, victimMembership.id);
@@ -148,7 +232,8 @@ describe('sign-in lockout', () => {
 	});
 
 	it('also slows one address walking through many accounts', () => {
-		for (let i = 0; i < 25; i++) recordSignInFailure(`walker${i}@test-clinic.example`, '203.0.113.99');
+		for (let i = 0; i < 25; i++)
+			recordSignInFailure(`walker${i}@test-clinic.example`, '203.0.113.99');
 		expect(signInLockout('fresh@test-clinic.example', '203.0.113.99').locked).toBe(true);
 		expect(signInLockout('fresh@test-clinic.example', '203.0.113.100').locked).toBe(false);
 	});

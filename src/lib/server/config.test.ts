@@ -12,16 +12,26 @@ describe('readConfig', () => {
 	});
 
 	it('reads values and converts types', () => {
-		const config = readConfig({ SMTP_PORT: '587', SMTP_SECURE: 'true', S3_FORCE_PATH_STYLE: 'false' });
+		const config = readConfig({
+			SMTP_PORT: '587',
+			SMTP_SECURE: 'true',
+			S3_FORCE_PATH_STYLE: 'false'
+		});
 		expect(config.SMTP_PORT).toBe(587);
 		expect(config.SMTP_SECURE).toBe(true);
 		expect(config.S3_FORCE_PATH_STYLE).toBe(false);
 	});
 
 	it('stops with a sentence naming each bad variable', () => {
-		expect(() => readConfig({ SMTP_PORT: 'twenty' })).toThrow(/The environment variable SMTP_PORT is invalid \("twenty"\)/);
-		expect(() => readConfig({ ORIGIN: 'not a url', S3_BUCKET: 'Bad_Bucket' })).toThrow(/ORIGIN.*S3_BUCKET|S3_BUCKET.*ORIGIN/);
-		expect(() => readConfig({ AUTH_SECRET: 'short' })).toThrow(/AUTH_SECRET is invalid.*at least 32 characters/);
+		expect(() => readConfig({ SMTP_PORT: 'twenty' })).toThrow(
+			/The environment variable SMTP_PORT is invalid \("twenty"\)/
+		);
+		expect(() => readConfig({ ORIGIN: 'not a url', S3_BUCKET: 'Bad_Bucket' })).toThrow(
+			/ORIGIN.*S3_BUCKET|S3_BUCKET.*ORIGIN/
+		);
+		expect(() => readConfig({ AUTH_SECRET: 'short' })).toThrow(
+			/AUTH_SECRET is invalid.*at least 32 characters/
+		);
 	});
 
 	it('ignores variables it does not own', () => {

@@ -40,7 +40,9 @@ export async function sendInvitation(input: {
 	const token = randomBytes(32).toString('base64url');
 	const expiresAt = new Date(Date.now() + config().INVITATION_TTL_HOURS * 3_600_000);
 	const store = db();
-	const clinic = store.query.clinics.findFirst({ where: eq(schema.clinics.id, input.clinicId) }).sync();
+	const clinic = store.query.clinics
+		.findFirst({ where: eq(schema.clinics.id, input.clinicId) })
+		.sync();
 	if (!clinic) throw new Error(`No clinic ${input.clinicId}`);
 
 	const invitation = store.transaction((tx) => {
@@ -77,8 +79,9 @@ export async function sendInvitation(input: {
 					clinicName: clinic.name,
 					patientName:
 						(input.patientId &&
-							store.query.patients.findFirst({ where: eq(schema.patients.id, input.patientId) }).sync()
-								?.fullName) ||
+							store.query.patients
+								.findFirst({ where: eq(schema.patients.id, input.patientId) })
+								.sync()?.fullName) ||
 						email,
 					clinicianName: input.invitedBy.name,
 					url,
@@ -121,7 +124,9 @@ export function findInvitation(token: string): InvitationView | null {
 		.where(eq(schema.invitations.tokenHash, tokenHash(token)))
 		.get();
 	if (!row) return null;
-	const account = store.query.users.findFirst({ where: eq(schema.users.email, row.invitation.email) }).sync();
+	const account = store.query.users
+		.findFirst({ where: eq(schema.users.email, row.invitation.email) })
+		.sync();
 	return { ...row, status: invitationStatus(row.invitation), accountExists: Boolean(account) };
 }
 
@@ -144,42 +149,67 @@ export async function acceptInvitation(
 
 	return db().transaction((tx) => {
 		// Re-read inside the transaction: a parallel acceptance may have won.
-		const fresh = tx.query.invitations.findFirst({ where: eq(schema.invitations.id, invitation.id) }).sync();
-		if (!fresh || invitationStatus(fresh) !== 'pending') throw new InvitationError(statusSentence('accepted'));
+		const fresh = tx.query.invitations
+			.findFirst({ where: eq(schema.invitations.id, invitation.id) })
+			.sync();
+		if (!fresh || invitationStatus(fresh) !== 'pending')
+			throw new InvitationError(statusSentence('accepted'));
 
 		let user = tx.query.users.findFirst({ where: eq(schema.users.email, invitation.email) }).sync();
 		if (user) {
-			const hasMembership = tx.query.memberships.findFirst({ where: eq(schema.memberships.userId, user.id) }).sync();
-			const hasPatient = tx.query.patients.findFirst({ where: eq(schema.patients.userId, user.id) }).sync();
+			const hasMembership = tx.query.memberships
+				.findFirst({ where: eq(schema.memberships.userId, user.id) })
+				.sync();
+			const hasPatient = tx.query.patients
+				.findFirst({ where: eq(schema.patients.userId, user.id) })
+				.sync();
 			if (hasMembership || hasPatient) {
 				throw new InvitationError(
 					'This e-mail address already belongs to a Kinelume account in a clinic. Ask the clinic to invite another address.'
 				);
 			}
 			tx.update(schema.users)
-				.set({ name: input.name, emailVerified: new Date(), ...(passwordHash ? { passwordHash } : {}) })
+				.set({
+					name: input.name,
+					emailVerified: new Date(),
+					...(passwordHash ? { passwordHash } : {})
+				})
 				.where(eq(schema.users.id, user.id))
 				.run();
 		} else {
 			user = tx
 				.insert(schema.users)
-				.values({ email: invitation.email, name: input.name, passwordHash, emailVerified: new Date() })
+				.values({
+					email: invitation.email,
+					name: input.name,
+					passwordHash,
+					emailVerified: new Date()
+				})
 				.returning()
 				.get();
 		}
 
 		if (invitation.role === 'patient') {
-			if (!invitation.patientId) throw new InvitationError('This invitation is missing its patient record.');
+			if (!invitation.patientId)
+				throw new InvitationError('This invitation is missing its patient record.');
 			tx.update(schema.patients)
 				.set({ userId: user.id })
-				.where(and(eq(schema.patients.id, invitation.patientId), eq(schema.patients.clinicId, invitation.clinicId)))
+				.where(
+					and(
+						eq(schema.patients.id, invitation.patientId),
+						eq(schema.patients.clinicId, invitation.clinicId)
+					)
+				)
 				.run();
 		} else {
 			tx.insert(schema.memberships)
 				.values({ userId: user.id, clinicId: invitation.clinicId, role: invitation.role })
 				.run();
 		}
-		tx.update(schema.invitations).set({ acceptedAt: new Date() }).where(eq(schema.invitations.id, invitation.id)).run();
+		tx.update(schema.invitations)
+			.set({ acceptedAt: new Date() })
+			.where(eq(schema.invitations.id, invitation.id))
+			.run();
 		tx.insert(schema.auditEvents)
 			.values({
 				kind: 'invitation-accepted',

@@ -46,7 +46,10 @@ export function listStaffInvitations(clinicId: string) {
 function membershipInClinic(actor: Principal, membershipId: string) {
 	const membership = db()
 		.query.memberships.findFirst({
-			where: and(eq(schema.memberships.id, membershipId), eq(schema.memberships.clinicId, actor.clinicId))
+			where: and(
+				eq(schema.memberships.id, membershipId),
+				eq(schema.memberships.clinicId, actor.clinicId)
+			)
 		})
 		.sync();
 	if (!membership) throw new MemberError('That member is not in your clinic.');
@@ -68,7 +71,11 @@ export function changeRole(actor: Principal, membershipId: string, role: StaffRo
 	if (membership.role === 'admin' && adminCount(actor.clinicId) <= 1) {
 		throw new MemberError('A clinic needs at least one admin. Make someone else admin first.');
 	}
-	db().update(schema.memberships).set({ role }).where(eq(schema.memberships.id, membershipId)).run();
+	db()
+		.update(schema.memberships)
+		.set({ role })
+		.where(eq(schema.memberships.id, membershipId))
+		.run();
 	recordAudit({
 		kind: 'role-changed',
 		clinicId: actor.clinicId,
@@ -109,14 +116,25 @@ export function revokeInvitation(actor: Principal, invitationId: string): void {
 		)
 		.run();
 	if (result.changes === 0) throw new MemberError('That invitation is not pending in your clinic.');
-	recordAudit({ kind: 'invitation-revoked', clinicId: actor.clinicId, actorUserId: actor.id, subject: invitationId });
+	recordAudit({
+		kind: 'invitation-revoked',
+		clinicId: actor.clinicId,
+		actorUserId: actor.id,
+		subject: invitationId
+	});
 }
 
 /** Whether an address already has a role somewhere (a person belongs to one clinic). */
 export function emailHasRole(email: string): boolean {
-	const user = db().query.users.findFirst({ where: eq(schema.users.email, email) }).sync();
+	const user = db()
+		.query.users.findFirst({ where: eq(schema.users.email, email) })
+		.sync();
 	if (!user) return false;
-	const m = db().query.memberships.findFirst({ where: eq(schema.memberships.userId, user.id) }).sync();
-	const p = db().query.patients.findFirst({ where: eq(schema.patients.userId, user.id) }).sync();
+	const m = db()
+		.query.memberships.findFirst({ where: eq(schema.memberships.userId, user.id) })
+		.sync();
+	const p = db()
+		.query.patients.findFirst({ where: eq(schema.patients.userId, user.id) })
+		.sync();
 	return Boolean(m || p);
 }

@@ -1,7 +1,12 @@
 import { and, desc, eq } from 'drizzle-orm';
 import { db, schema } from './db';
 import type { Patient } from './db/schema/patients';
-import { invitationStatus, normaliseEmail, sendInvitation, type InvitationStatus } from './invitations';
+import {
+	invitationStatus,
+	normaliseEmail,
+	sendInvitation,
+	type InvitationStatus
+} from './invitations';
 import type { Principal } from './auth/principal';
 
 export type PatientAccess = 'active' | InvitationStatus | 'not invited';
@@ -61,7 +66,12 @@ export class PatientError extends Error {}
  */
 export async function invitePatient(
 	clinician: Principal,
-	input: { fullName: string; email: string; affectedSide: Patient['affectedSide']; condition: string }
+	input: {
+		fullName: string;
+		email: string;
+		affectedSide: Patient['affectedSide'];
+		condition: string;
+	}
 ): Promise<Patient> {
 	const email = normaliseEmail(input.email);
 	const existing = db()
@@ -69,24 +79,48 @@ export async function invitePatient(
 			where: and(eq(schema.patients.clinicId, clinician.clinicId), eq(schema.patients.email, email))
 		})
 		.sync();
-	if (existing) throw new PatientError('A patient with that e-mail address is already in your clinic.');
+	if (existing)
+		throw new PatientError('A patient with that e-mail address is already in your clinic.');
 	const patient = db().transaction((tx) => {
 		const created = tx
 			.insert(schema.patients)
-			.values({ clinicId: clinician.clinicId, fullName: input.fullName, email, affectedSide: input.affectedSide, condition: input.condition })
+			.values({
+				clinicId: clinician.clinicId,
+				fullName: input.fullName,
+				email,
+				affectedSide: input.affectedSide,
+				condition: input.condition
+			})
 			.returning()
 			.get();
-		tx.insert(schema.patientClinicians).values({ patientId: created.id, clinicianUserId: clinician.id }).run();
+		tx.insert(schema.patientClinicians)
+			.values({ patientId: created.id, clinicianUserId: clinician.id })
+			.run();
 		return created;
 	});
-	await sendInvitation({ clinicId: clinician.clinicId, email, role: 'patient', patientId: patient.id, invitedBy: clinician });
+	await sendInvitation({
+		clinicId: clinician.clinicId,
+		email,
+		role: 'patient',
+		patientId: patient.id,
+		invitedBy: clinician
+	});
 	return patient;
 }
 
 /** Sends a fresh invitation to a patient who has not signed in yet. */
-export async function resendPatientInvitation(clinician: Principal, patientId: string): Promise<void> {
+export async function resendPatientInvitation(
+	clinician: Principal,
+	patientId: string
+): Promise<void> {
 	const patient = findPatientInClinic(clinician.clinicId, patientId);
 	if (!patient) throw new PatientError('That patient is not in your clinic.');
 	if (patient.userId) throw new PatientError('This patient already has an account.');
-	await sendInvitation({ clinicId: clinician.clinicId, email: patient.email, role: 'patient', patientId, invitedBy: clinician });
+	await sendInvitation({
+		clinicId: clinician.clinicId,
+		email: patient.email,
+		role: 'patient',
+		patientId,
+		invitedBy: clinician
+	});
 }

@@ -10,7 +10,10 @@ export async function hashPassword(password: string): Promise<string> {
 let decoyHash: Promise<string> | undefined;
 
 /** True when `password` matches `passwordHash`; spends the same effort when there is no hash. */
-export async function verifyPassword(passwordHash: string | null, password: string): Promise<boolean> {
+export async function verifyPassword(
+	passwordHash: string | null,
+	password: string
+): Promise<boolean> {
 	if (!passwordHash) {
 		decoyHash ??= hash('not-a-real-password-decoy');
 		await verify(await decoyHash, password);

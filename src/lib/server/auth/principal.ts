@@ -20,19 +20,36 @@ export interface Principal {
  * membership and no patient record has no principal and is treated as signed out.
  */
 export function loadPrincipal(userId: string): Principal | null {
-	const user = db().query.users.findFirst({ where: eq(schema.users.id, userId) }).sync();
+	const user = db()
+		.query.users.findFirst({ where: eq(schema.users.id, userId) })
+		.sync();
 	if (!user) return null;
 	const staff = db()
-		.select({ role: schema.memberships.role, clinicId: schema.clinics.id, clinicName: schema.clinics.name })
+		.select({
+			role: schema.memberships.role,
+			clinicId: schema.clinics.id,
+			clinicName: schema.clinics.name
+		})
 		.from(schema.memberships)
 		.innerJoin(schema.clinics, eq(schema.clinics.id, schema.memberships.clinicId))
 		.where(eq(schema.memberships.userId, userId))
 		.get();
 	if (staff) {
-		return { id: user.id, email: user.email, name: user.name ?? user.email, ...staff, patientId: null };
+		return {
+			id: user.id,
+			email: user.email,
+			name: user.name ?? user.email,
+			...staff,
+			patientId: null
+		};
 	}
 	const patient = db()
-		.select({ patientId: schema.patients.id, clinicId: schema.clinics.id, clinicName: schema.clinics.name, fullName: schema.patients.fullName })
+		.select({
+			patientId: schema.patients.id,
+			clinicId: schema.clinics.id,
+			clinicName: schema.clinics.name,
+			fullName: schema.patients.fullName
+		})
 		.from(schema.patients)
 		.innerJoin(schema.clinics, eq(schema.clinics.id, schema.patients.clinicId))
 		.where(eq(schema.patients.userId, userId))

@@ -15,7 +15,9 @@ export function authSecret(): string {
 	const { AUTH_SECRET, DATABASE_PATH } = config();
 	if (AUTH_SECRET) return (cached = AUTH_SECRET);
 	if (process.env.NODE_ENV === 'production') {
-		throw new Error('The environment variable AUTH_SECRET must be set in production (32 or more random characters).');
+		throw new Error(
+			'The environment variable AUTH_SECRET must be set in production (32 or more random characters).'
+		);
 	}
 	const file = join(dirname(resolve(DATABASE_PATH)), 'auth-secret');
 	if (!existsSync(file)) {

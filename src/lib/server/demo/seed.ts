@@ -37,10 +37,20 @@ interface PatientSeed {
 
 export const DEMO_STAFF: StaffSeed[] = [
 	{ clinic: 'alder', name: 'Rowan Hale', email: 'admin@alder-street.example', role: 'admin' },
-	{ clinic: 'alder', name: 'Imogen Fenwick', email: 'clinician@alder-street.example', role: 'clinician' },
+	{
+		clinic: 'alder',
+		name: 'Imogen Fenwick',
+		email: 'clinician@alder-street.example',
+		role: 'clinician'
+	},
 	{ clinic: 'alder', name: 'Dario Lusk', email: 'educator@alder-street.example', role: 'educator' },
 	{ clinic: 'harbour', name: 'Signe Talbot', email: 'admin@harbour-lane.example', role: 'admin' },
-	{ clinic: 'harbour', name: 'Kofi Brandt', email: 'clinician@harbour-lane.example', role: 'clinician' }
+	{
+		clinic: 'harbour',
+		name: 'Kofi Brandt',
+		email: 'clinician@harbour-lane.example',
+		role: 'clinician'
+	}
 ];
 
 export const DEMO_PATIENTS: PatientSeed[] = [
@@ -99,10 +109,18 @@ function ensureUser(email: string, name: string, passwordHash: string): string {
 	const store = db();
 	const found = store.query.users.findFirst({ where: eq(schema.users.email, email) }).sync();
 	if (found) {
-		store.update(schema.users).set({ name, passwordHash }).where(eq(schema.users.id, found.id)).run();
+		store
+			.update(schema.users)
+			.set({ name, passwordHash })
+			.where(eq(schema.users.id, found.id))
+			.run();
 		return found.id;
 	}
-	return store.insert(schema.users).values({ email, name, passwordHash, emailVerified: new Date() }).returning().get().id;
+	return store
+		.insert(schema.users)
+		.values({ email, name, passwordHash, emailVerified: new Date() })
+		.returning()
+		.get().id;
 }
 
 /**
@@ -120,44 +138,97 @@ export async function seedDemo(): Promise<DemoAccount[]> {
 
 	for (const staff of DEMO_STAFF) {
 		const userId = ensureUser(staff.email, staff.name, passwordHash);
-		const membership = store.query.memberships.findFirst({ where: eq(schema.memberships.userId, userId) }).sync();
+		const membership = store.query.memberships
+			.findFirst({ where: eq(schema.memberships.userId, userId) })
+			.sync();
 		if (membership) {
-			store.update(schema.memberships).set({ role: staff.role, clinicId: clinicIds[staff.clinic] }).where(eq(schema.memberships.id, membership.id)).run();
+			store
+				.update(schema.memberships)
+				.set({ role: staff.role, clinicId: clinicIds[staff.clinic] })
+				.where(eq(schema.memberships.id, membership.id))
+				.run();
 		} else {
-			store.insert(schema.memberships).values({ userId, clinicId: clinicIds[staff.clinic], role: staff.role }).run();
+			store
+				.insert(schema.memberships)
+				.values({ userId, clinicId: clinicIds[staff.clinic], role: staff.role })
+				.run();
 		}
-		accounts.push({ role: staff.role, name: staff.name, email: staff.email, clinic: DEMO_CLINICS[staff.clinic] });
+		accounts.push({
+			role: staff.role,
+			name: staff.name,
+			email: staff.email,
+			clinic: DEMO_CLINICS[staff.clinic]
+		});
 	}
 
 	for (const seed of DEMO_PATIENTS) {
 		const clinicId = clinicIds[seed.clinic];
-		let patient = store.query.patients.findFirst({ where: and(eq(schema.patients.clinicId, clinicId), eq(schema.patients.email, seed.email)) }).sync();
+		let patient = store.query.patients
+			.findFirst({
+				where: and(eq(schema.patients.clinicId, clinicId), eq(schema.patients.email, seed.email))
+			})
+			.sync();
 		patient ??= store
 			.insert(schema.patients)
-			.values({ clinicId, fullName: seed.name, email: seed.email, affectedSide: seed.side, condition: seed.condition })
+			.values({
+				clinicId,
+				fullName: seed.name,
+				email: seed.email,
+				affectedSide: seed.side,
+				condition: seed.condition
+			})
 			.returning()
 			.get();
-		const clinician = store.query.users.findFirst({ where: eq(schema.users.email, seed.clinicianEmail) }).sync();
+		const clinician = store.query.users
+			.findFirst({ where: eq(schema.users.email, seed.clinicianEmail) })
+			.sync();
 		if (clinician) {
-			store.insert(schema.patientClinicians).values({ patientId: patient.id, clinicianUserId: clinician.id }).onConflictDoNothing().run();
+			store
+				.insert(schema.patientClinicians)
+				.values({ patientId: patient.id, clinicianUserId: clinician.id })
+				.onConflictDoNothing()
+				.run();
 		}
 		if (seed.active) {
 			const userId = ensureUser(seed.email, seed.name, passwordHash);
 			store.update(schema.patients).set({ userId }).where(eq(schema.patients.id, patient.id)).run();
-			accounts.push({ role: 'patient', name: seed.name, email: seed.email, clinic: DEMO_CLINICS[seed.clinic] });
+			accounts.push({
+				role: 'patient',
+				name: seed.name,
+				email: seed.email,
+				clinic: DEMO_CLINICS[seed.clinic]
+			});
 		} else if (clinician) {
-			const invited = store.query.invitations.findFirst({ where: eq(schema.invitations.patientId, patient.id) }).sync();
+			const invited = store.query.invitations
+				.findFirst({ where: eq(schema.invitations.patientId, patient.id) })
+				.sync();
 			if (!invited) {
-				await sendInvitation({ clinicId, email: seed.email, role: 'patient', patientId: patient.id, invitedBy: { id: clinician.id, name: clinician.name ?? clinician.email } });
+				await sendInvitation({
+					clinicId,
+					email: seed.email,
+					role: 'patient',
+					patientId: patient.id,
+					invitedBy: { id: clinician.id, name: clinician.name ?? clinician.email }
+				});
 			}
 		}
 	}
 
 	// One staff invitation waiting, so the admin's table shows how invitations look.
-	const alderAdmin = store.query.users.findFirst({ where: eq(schema.users.email, 'admin@alder-street.example') }).sync();
+	const alderAdmin = store.query.users
+		.findFirst({ where: eq(schema.users.email, 'admin@alder-street.example') })
+		.sync();
 	const pendingEmail = 'new.clinician@alder-street.example';
-	if (alderAdmin && !store.query.invitations.findFirst({ where: eq(schema.invitations.email, pendingEmail) }).sync()) {
-		await sendInvitation({ clinicId: clinicIds.alder, email: pendingEmail, role: 'clinician', invitedBy: { id: alderAdmin.id, name: alderAdmin.name ?? 'Admin' } });
+	if (
+		alderAdmin &&
+		!store.query.invitations.findFirst({ where: eq(schema.invitations.email, pendingEmail) }).sync()
+	) {
+		await sendInvitation({
+			clinicId: clinicIds.alder,
+			email: pendingEmail,
+			role: 'clinician',
+			invitedBy: { id: alderAdmin.id, name: alderAdmin.name ?? 'Admin' }
+		});
 	}
 	return accounts;
 }

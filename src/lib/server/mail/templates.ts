@@ -17,7 +17,11 @@ function escapeHtml(value: string): string {
 		.replaceAll("'", '&#39;');
 }
 
-function layout(heading: string, paragraphs: string[], link: { url: string; label: string }): string {
+function layout(
+	heading: string,
+	paragraphs: string[],
+	link: { url: string; label: string }
+): string {
 	const body = paragraphs.map((p) => `<p style="margin:0 0 16px">${escapeHtml(p)}</p>`).join('');
 	return `<!doctype html><html lang="en"><body style="margin:0;padding:24px;background:#faf8f4;color:#1c2230;font-family:Arial,sans-serif;font-size:18px;line-height:1.5">
 <div style="max-width:560px;margin:0 auto">

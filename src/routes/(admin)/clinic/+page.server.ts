@@ -37,7 +37,12 @@ const inviteForm = z.object({
 const roleForm = z.object({ membershipId: z.uuid(), role: z.enum(STAFF_ROLES) });
 const idForm = z.object({ id: z.uuid() });
 
-function failed(action: string, message: string, status = 400, extra: Record<string, unknown> = {}) {
+function failed(
+	action: string,
+	message: string,
+	status = 400,
+	extra: Record<string, unknown> = {}
+) {
 	return fail(status, { action, message, ...extra });
 }
 
@@ -47,7 +52,10 @@ export const actions: Actions = {
 		const raw = Object.fromEntries(await request.formData());
 		const parsed = inviteForm.safeParse(raw);
 		if (!parsed.success) {
-			return failed('invite', parsed.error.issues[0].message, 400, { email: String(raw.email ?? ''), role: String(raw.role ?? '') });
+			return failed('invite', parsed.error.issues[0].message, 400, {
+				email: String(raw.email ?? ''),
+				role: String(raw.role ?? '')
+			});
 		}
 		if (emailHasRole(parsed.data.email)) {
 			return failed('invite', 'That address already has an account in a clinic.', 409, parsed.data);

@@ -4,7 +4,12 @@ import { SIDES } from '$lib/server/db/schema/patients';
 import { requireRole } from '$lib/server/auth/guard';
 import { emailHasRole } from '$lib/server/members';
 import { normaliseEmail } from '$lib/server/invitations';
-import { invitePatient, listPatients, PatientError, resendPatientInvitation } from '$lib/server/patients';
+import {
+	invitePatient,
+	listPatients,
+	PatientError,
+	resendPatientInvitation
+} from '$lib/server/patients';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = () => {
@@ -42,21 +47,29 @@ export const actions: Actions = {
 			condition: String(raw.condition ?? '')
 		};
 		const parsed = inviteForm.safeParse(values);
-		if (!parsed.success) return fail(400, { action: 'invite', message: parsed.error.issues[0].message, values });
+		if (!parsed.success)
+			return fail(400, { action: 'invite', message: parsed.error.issues[0].message, values });
 		if (emailHasRole(parsed.data.email)) {
-			return fail(409, { action: 'invite', message: 'That address already has an account in a clinic.', values });
+			return fail(409, {
+				action: 'invite',
+				message: 'That address already has an account in a clinic.',
+				values
+			});
 		}
 		try {
 			await invitePatient(clinician, parsed.data);
 		} catch (e) {
-			if (e instanceof PatientError) return fail(409, { action: 'invite', message: e.message, values });
+			if (e instanceof PatientError)
+				return fail(409, { action: 'invite', message: e.message, values });
 			throw e;
 		}
 		return { action: 'invite', sent: parsed.data.email };
 	},
 	resend: async ({ request }) => {
 		const clinician = requireRole('clinician');
-		const parsed = z.object({ id: z.uuid() }).safeParse(Object.fromEntries(await request.formData()));
+		const parsed = z
+			.object({ id: z.uuid() })
+			.safeParse(Object.fromEntries(await request.formData()));
 		if (!parsed.success) return fail(400, { action: 'resend', message: 'Choose a patient.' });
 		try {
 			await resendPatientInvitation(clinician, parsed.data.id);

@@ -9,7 +9,9 @@ import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = () => {
 	const user = requireUser();
-	const row = db().query.users.findFirst({ where: eq(schema.users.id, user.id) }).sync();
+	const row = db()
+		.query.users.findFirst({ where: eq(schema.users.id, user.id) })
+		.sync();
 	return {
 		name: user.name,
 		email: user.email,
@@ -23,7 +25,10 @@ export const load: PageServerLoad = () => {
 const passwordForm = z
 	.object({
 		current: z.string().max(1024),
-		password: z.string().min(PASSWORD_MIN_LENGTH, `Choose a password of at least ${PASSWORD_MIN_LENGTH} characters.`).max(1024),
+		password: z
+			.string()
+			.min(PASSWORD_MIN_LENGTH, `Choose a password of at least ${PASSWORD_MIN_LENGTH} characters.`)
+			.max(1024),
 		confirm: z.string()
 	})
 	.refine((f) => f.password === f.confirm, { message: 'The two new passwords differ.' });
@@ -38,7 +43,9 @@ export const actions: Actions = {
 			confirm: raw.confirm ?? ''
 		});
 		if (!parsed.success) return fail(400, { message: parsed.error.issues[0].message });
-		const row = db().query.users.findFirst({ where: eq(schema.users.id, user.id) }).sync();
+		const row = db()
+			.query.users.findFirst({ where: eq(schema.users.id, user.id) })
+			.sync();
 		if (row?.passwordHash && !(await verifyPassword(row.passwordHash, parsed.data.current))) {
 			return fail(400, { message: 'Your current password is not right.' });
 		}

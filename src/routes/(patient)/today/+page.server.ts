@@ -6,7 +6,9 @@ import type { PageServerLoad } from './$types';
 export const load: PageServerLoad = () => {
 	const patient = requireRole('patient');
 	// A patient only ever reads their own record: the id comes from the session, never the URL.
-	const record = patient.patientId ? findPatientInClinic(patient.clinicId, patient.patientId) : undefined;
+	const record = patient.patientId
+		? findPatientInClinic(patient.clinicId, patient.patientId)
+		: undefined;
 	if (!record) error(404, 'Your patient record was not found. Please contact your clinic.');
 	return {
 		firstName: record.fullName.split(/\s+/)[0],

@@ -13,7 +13,8 @@ import { normaliseEmail } from '$lib/server/invitations';
 import { signIn } from '../../../auth';
 import type { Actions, PageServerLoad } from './$types';
 
-const GENERIC_FAILURE = 'That e-mail address and password do not match an account. Check both and try again.';
+const GENERIC_FAILURE =
+	'That e-mail address and password do not match an account. Check both and try again.';
 
 const AUTH_ERRORS: Record<string, string> = {
 	Verification:
@@ -23,7 +24,8 @@ const AUTH_ERRORS: Record<string, string> = {
 };
 
 export const load: PageServerLoad = ({ locals, url }) => {
-	if (locals.user) redirect(303, safeNext(url.searchParams.get('next'), ROLE_HOME[locals.user.role]));
+	if (locals.user)
+		redirect(303, safeNext(url.searchParams.get('next'), ROLE_HOME[locals.user.role]));
 	const code = url.searchParams.get('error');
 	return {
 		next: safeNext(url.searchParams.get('next')),
@@ -79,17 +81,26 @@ export const actions: Actions = {
 			// Called from an action, Auth.js throws CredentialsSignin; through its own routes it
 			// would redirect with ?error=. Both mean the same failed attempt.
 			const failed =
-				thrown instanceof CredentialsSignin || (isRedirect(thrown) && redirectFailed(thrown.location, event.url));
+				thrown instanceof CredentialsSignin ||
+				(isRedirect(thrown) && redirectFailed(thrown.location, event.url));
 			if (failed) {
 				recordSignInFailure(email, address);
-				recordAudit({ kind: 'sign-in-failed', subject: email, detail: { method: 'password', address } });
+				recordAudit({
+					kind: 'sign-in-failed',
+					subject: email,
+					detail: { method: 'password', address }
+				});
 				return fail(400, { method: 'password', email, message: GENERIC_FAILURE });
 			}
 			if (!isRedirect(thrown)) throw thrown;
 			clearSignInFailures(email);
 			redirect(303, safeNext(parsed.data.redirectTo));
 		}
-		return fail(500, { method: 'password', email, message: 'Signing in did not finish. Please try again.' });
+		return fail(500, {
+			method: 'password',
+			email,
+			message: 'Signing in did not finish. Please try again.'
+		});
 	},
 
 	link: async (event) => {

@@ -9,6 +9,13 @@ export const load: PageServerLoad = async ({ params }) => {
 	const message = await readInboxMessage(params.id);
 	if (!message) error(404, 'That message is not in the inbox.');
 	return {
-		message: { id: message.id, from: message.from, to: message.to, subject: message.subject, date: message.date, text: message.text ?? '' }
+		message: {
+			id: message.id,
+			from: message.from,
+			to: message.to,
+			subject: message.subject,
+			date: message.date,
+			text: message.text ?? ''
+		}
 	};
 };

@@ -32,11 +32,18 @@ export const load: PageServerLoad = ({ params }) => {
 
 const acceptForm = z
 	.object({
-		name: z.string().trim().min(1, 'Enter your name.').max(120, 'Keep your name under 120 characters.'),
+		name: z
+			.string()
+			.trim()
+			.min(1, 'Enter your name.')
+			.max(120, 'Keep your name under 120 characters.'),
 		password: z.string().max(1024),
 		confirm: z.string().max(1024)
 	})
-	.refine((f) => f.password === f.confirm, { message: 'The two passwords differ.', path: ['confirm'] });
+	.refine((f) => f.password === f.confirm, {
+		message: 'The two passwords differ.',
+		path: ['confirm']
+	});
 
 export const actions: Actions = {
 	default: async ({ params, request }) => {
@@ -52,10 +59,16 @@ export const actions: Actions = {
 		const { password } = parsed.data;
 		const required = found.invitation.role !== 'patient';
 		if ((required || password) && password.length < PASSWORD_MIN_LENGTH) {
-			return fail(400, { name, message: `Choose a password of at least ${PASSWORD_MIN_LENGTH} characters.` });
+			return fail(400, {
+				name,
+				message: `Choose a password of at least ${PASSWORD_MIN_LENGTH} characters.`
+			});
 		}
 		try {
-			const accepted = await acceptInvitation(params.token, { name: parsed.data.name, password: password || null });
+			const accepted = await acceptInvitation(params.token, {
+				name: parsed.data.name,
+				password: password || null
+			});
 			redirect(303, `/signin?welcome=1&email=${encodeURIComponent(accepted.email)}`);
 		} catch (thrown) {
 			if (thrown instanceof InvitationError) return fail(409, { name, message: thrown.message });

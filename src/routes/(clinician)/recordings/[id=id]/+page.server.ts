@@ -1,0 +1,70 @@
+import { error, fail, redirect } from '@sveltejs/kit';
+import { requireRole, requireSameClinic } from '$lib/server/auth/guard';
+import { nudgeWorker } from '$lib/server/jobs';
+import {
+	cancelProcessing,
+	deleteRecording,
+	findRecording,
+	retryProcessing,
+	statusView
+} from '$lib/server/recordings';
+import type { Actions, PageServerLoad } from './$types';
+
+function ownRecording(id: string) {
+	const clinician = requireRole('clinician');
+	const recording = findRecording(clinician.clinicId, id);
+	if (!recording) error(404, 'Not found.');
+	requireSameClinic(clinician, recording.clinicId);
+	return recording;
+}
+
+export const load: PageServerLoad = ({ params }) => {
+	const r = ownRecording(params.id);
+	return {
+		recording: {
+			id: r.id,
+			title: r.title,
+			originalFilename: r.originalFilename,
+			contentType: r.contentType,
+			sizeBytes: r.sizeBytes,
+			durationSeconds: r.durationSeconds,
+			width: r.width,
+			height: r.height,
+			videoCodec: r.videoCodec,
+			audioCodec: r.audioCodec,
+			frameRate: r.frameRate,
+			rotation: r.rotation,
+			renditionSize: r.renditionSize,
+			posterCount: r.posterCount,
+			hasSprite: r.sprite !== null,
+			createdAt: r.createdAt.toISOString(),
+			readyAt: r.readyAt?.toISOString() ?? null
+		},
+		status: statusView(r)
+	};
+};
+
+export const actions: Actions = {
+	retry: ({ params }) => {
+		const recording = ownRecording(params.id);
+		if (!retryProcessing(recording)) {
+			return fail(409, {
+				message: 'Only a recording whose processing failed can be processed again.'
+			});
+		}
+		nudgeWorker();
+		return { retried: true };
+	},
+	cancel: ({ params }) => {
+		const recording = ownRecording(params.id);
+		if (!cancelProcessing(recording)) {
+			return fail(409, { message: 'There is no processing to cancel.' });
+		}
+		return { cancelled: true };
+	},
+	delete: async ({ params }) => {
+		const recording = ownRecording(params.id);
+		await deleteRecording(recording);
+		redirect(303, '/recordings?deleted=1');
+	}
+};
