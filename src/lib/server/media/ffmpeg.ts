@@ -1,0 +1,311 @@
+import { spawn } from 'node:child_process';
+import { accessSync, constants } from 'node:fs';
+import { createRequire } from 'node:module';
+import { setPriority } from 'node:os';
+import { config } from '../config';
+
+/*
+ * Every ffmpeg and ffprobe run goes through `runMedia` here. It spawns the binaries itself rather
+ * than through fluent-ffmpeg: fluent-ffmpeg 2.1.3 cannot hand ffmpeg an extra pipe for progress
+ * (we use fd 3 so stdout stays free for PCM), takes no AbortSignal, reports progress by parsing
+ * stderr after an extra ffprobe run of its own, stops a timed-out process without waiting for it
+ * to exit, and its ffprobe wrapper parses the INI-style output, which drops the display-matrix
+ * side data that carries a phone's rotation. The argument lists are short and are written out
+ * in outputs.ts and probe.ts instead.
+ */
+
+/** A media failure with a message fit to show a clinician; `detail` holds ffmpeg's own words. */
+export class MediaError extends Error {
+	constructor(
+		message: string,
+		readonly kind: 'unreadable' | 'failed' | 'timeout' | 'aborted' | 'unavailable' = 'failed',
+		readonly detail = ''
+	) {
+		super(message);
+		this.name = 'MediaError';
+	}
+}
+
+const require = createRequire(import.meta.url);
+
+function executable(path: string, variable: string): string {
+	try {
+		accessSync(path, constants.X_OK);
+	} catch {
+		// @ffprobe-installer installs its binary as mode 744, so only the installing user may run it.
+		throw new MediaError(
+			`The media tool at ${path} cannot be run by this user. Make it executable (chmod 755) or set ${variable} to another copy.`,
+			'unavailable'
+		);
+	}
+	return path;
+}
+
+let ffmpegBinary: string | undefined;
+let ffprobeBinary: string | undefined;
+
+/** The ffmpeg executable: FFMPEG_PATH, or the one inside @ffmpeg-installer/ffmpeg. */
+export function ffmpegPath(): string {
+	ffmpegBinary ??= executable(
+		config().FFMPEG_PATH || (require('@ffmpeg-installer/ffmpeg') as { path: string }).path,
+		'FFMPEG_PATH'
+	);
+	return ffmpegBinary;
+}
+
+/** The ffprobe executable: FFPROBE_PATH, or the one inside @ffprobe-installer/ffprobe. */
+export function ffprobePath(): string {
+	ffprobeBinary ??= executable(
+		config().FFPROBE_PATH || (require('@ffprobe-installer/ffprobe') as { path: string }).path,
+		'FFPROBE_PATH'
+	);
+	return ffprobeBinary;
+}
+
+const NICE_CANDIDATES = ['/usr/bin/nice', '/bin/nice'];
+let niceBinary: string | null | undefined;
+
+function findNice(): string | null {
+	if (niceBinary !== undefined) return niceBinary;
+	niceBinary = null;
+	if (process.platform !== 'win32') {
+		for (const candidate of NICE_CANDIDATES) {
+			try {
+				accessSync(candidate, constants.X_OK);
+				niceBinary = candidate;
+				break;
+			} catch {
+				// not here; try the next place
+			}
+		}
+	}
+	return niceBinary;
+}
+
+/** Below-normal priority, so a rendition never slows page responses on a shared machine. */
+const NICENESS = 10;
+
+/** Local files in, local files or pipes out: never the network, whatever a file refers to. */
+export const PROTOCOL_WHITELIST = 'file,pipe';
+
+export interface MediaProgress {
+	/** Seconds of output written so far. */
+	outTimeSeconds: number;
+	/** Encoding speed as a multiple of real time, when ffmpeg reports it. */
+	speed: number | null;
+}
+
+export interface RunOptions {
+	/** Wall-clock limit; the process is killed when it passes. Default MEDIA_JOB_TIMEOUT_SECONDS. */
+	timeoutSeconds?: number;
+	signal?: AbortSignal;
+	/** ffmpeg only: called as `-progress` reports arrive. */
+	onProgress?: (progress: MediaProgress) => void;
+	/** Receives stdout as it arrives; without it stdout is collected and returned. */
+	onStdout?: (chunk: Buffer) => void;
+}
+
+export interface RunResult {
+	stdout: string;
+	stderr: string;
+}
+
+// Enough of stderr to explain a failure without holding a whole verbose log in memory.
+const STDERR_KEEP = 16 * 1024;
+const STDOUT_LIMIT = 64 * 1024 * 1024;
+
+/**
+ * Runs ffmpeg with the constraints every media job needs: protocol whitelist on each input,
+ * lowered priority, a wall-clock timeout, cancellation through `signal`, and progress read from
+ * `-progress pipe:3`. `args` are what follows `ffmpeg -hide_banner -nostdin`; `-i` inputs get the
+ * whitelist added in front of them. Resolves when ffmpeg exits 0; rejects with MediaError only
+ * once the process has exited, so nothing keeps running after a rejection.
+ */
+export function runFfmpeg(args: string[], options: RunOptions = {}): Promise<RunResult> {
+	const withProgress = options.onProgress ? ['-progress', 'pipe:3', '-nostats'] : [];
+	return runMedia(
+		ffmpegPath(),
+		['-hide_banner', '-nostdin', '-loglevel', 'error', ...withProgress, ...whitelistInputs(args)],
+		options
+	);
+}
+
+/** Runs ffprobe under the same constraints; `args` should name the input with `-i`. */
+export function runFfprobe(args: string[], options: RunOptions = {}): Promise<RunResult> {
+	return runMedia(ffprobePath(), ['-hide_banner', '-v', 'error', ...whitelistInputs(args)], {
+		...options,
+		onProgress: undefined
+	});
+}
+
+function whitelistInputs(args: string[]): string[] {
+	const out: string[] = [];
+	for (let i = 0; i < args.length; i++) {
+		if (args[i] === '-i' && args[i - 1] !== PROTOCOL_WHITELIST) {
+			out.push('-protocol_whitelist', PROTOCOL_WHITELIST);
+		}
+		out.push(args[i]);
+	}
+	return out;
+}
+
+function runMedia(binary: string, args: string[], options: RunOptions): Promise<RunResult> {
+	const { signal, onProgress, onStdout } = options;
+	const timeoutSeconds = options.timeoutSeconds ?? config().MEDIA_JOB_TIMEOUT_SECONDS;
+	if (signal?.aborted) {
+		return Promise.reject(new MediaError('Processing was cancelled.', 'aborted'));
+	}
+
+	const nice = findNice();
+	const [command, commandArgs] = nice
+		? [nice, ['-n', String(NICENESS), binary, ...args]]
+		: [binary, args];
+
+	return new Promise<RunResult>((resolve, reject) => {
+		const child = spawn(command, commandArgs, {
+			stdio: ['ignore', 'pipe', 'pipe', onProgress ? 'pipe' : 'ignore'],
+			windowsHide: true
+		});
+		if (!nice && child.pid !== undefined) {
+			try {
+				setPriority(child.pid, NICENESS);
+			} catch {
+				// The job still runs at normal priority; not worth failing it for.
+			}
+		}
+
+		let stopped: Error | null = null;
+		const stop = (reason: Error) => {
+			if (stopped) return;
+			stopped = reason;
+			// SIGKILL: the output is thrown away anyway, and a graceful SIGTERM lets ffmpeg spend
+			// seconds finishing a long encode's trailer.
+			child.kill('SIGKILL');
+		};
+
+		// A caller's callback that throws ends the run with its error instead of crashing the process.
+		const guarded =
+			<T>(callback: (value: T) => void) =>
+			(value: T) => {
+				if (stopped) return;
+				try {
+					callback(value);
+				} catch (error) {
+					stop(error instanceof Error ? error : new Error(String(error)));
+				}
+			};
+
+		const timer = setTimeout(
+			() =>
+				stop(
+					new MediaError(
+						`Processing took longer than ${describeSeconds(timeoutSeconds)} and was stopped.`,
+						'timeout'
+					)
+				),
+			// setTimeout cannot wait longer than about 24 days.
+			Math.min(timeoutSeconds * 1000, 2 ** 31 - 1)
+		);
+		const onAbort = () => stop(new MediaError('Processing was cancelled.', 'aborted'));
+		signal?.addEventListener('abort', onAbort, { once: true });
+
+		const stdoutChunks: Buffer[] = [];
+		let stdoutBytes = 0;
+		const toCaller = onStdout ? guarded(onStdout) : null;
+		child.stdout!.on('data', (chunk: Buffer) => {
+			if (toCaller) toCaller(chunk);
+			else if (stdoutBytes < STDOUT_LIMIT) {
+				stdoutChunks.push(chunk);
+				stdoutBytes += chunk.length;
+			}
+		});
+		let stderr = '';
+		child.stderr!.on('data', (chunk: Buffer) => {
+			stderr = (stderr + chunk.toString('utf8')).slice(-STDERR_KEEP);
+		});
+		const progressPipe = child.stdio[3];
+		if (onProgress && progressPipe && 'on' in progressPipe) {
+			readProgress(progressPipe as NodeJS.ReadableStream, guarded(onProgress));
+		}
+
+		const finish = () => {
+			clearTimeout(timer);
+			signal?.removeEventListener('abort', onAbort);
+		};
+		child.on('error', (error) => {
+			// Only a failed spawn leaves no pid; then no 'close' is promised either.
+			if (child.pid !== undefined) return;
+			finish();
+			reject(
+				new MediaError(
+					'The media tools could not be started.',
+					'unavailable',
+					`${binary}: ${error.message}`
+				)
+			);
+		});
+		child.on('close', (code, exitSignal) => {
+			finish();
+			if (child.pid === undefined) return;
+			if (stopped) return reject(stopped);
+			if (code !== 0) {
+				return reject(
+					new MediaError(
+						'The video could not be processed.',
+						'failed',
+						`${stderr.trim()} (exit ${code ?? exitSignal})`
+					)
+				);
+			}
+			resolve({ stdout: Buffer.concat(stdoutChunks).toString('utf8'), stderr });
+		});
+	});
+}
+
+function describeSeconds(seconds: number): string {
+	if (seconds % 60 === 0 && seconds >= 60) {
+		const minutes = seconds / 60;
+		return minutes === 1 ? '1 minute' : `${minutes} minutes`;
+	}
+	return seconds === 1 ? '1 second' : `${seconds} seconds`;
+}
+
+/** Reads ffmpeg's `-progress` key=value blocks; each block ends with a `progress=` line. */
+function readProgress(
+	stream: NodeJS.ReadableStream,
+	onProgress: (progress: MediaProgress) => void
+): void {
+	let buffered = '';
+	let outTimeSeconds = 0;
+	let speed: number | null = null;
+	stream.on('data', (chunk: Buffer | string) => {
+		buffered += chunk.toString();
+		const lines = buffered.split('\n');
+		buffered = lines.pop() ?? '';
+		for (const line of lines) {
+			const equals = line.indexOf('=');
+			if (equals < 0) continue;
+			const key = line.slice(0, equals).trim();
+			const value = line.slice(equals + 1).trim();
+			if (key === 'out_time') {
+				const seconds = parseClock(value);
+				if (seconds !== null) outTimeSeconds = seconds;
+			} else if (key === 'speed') {
+				const parsed = Number.parseFloat(value);
+				speed = Number.isFinite(parsed) ? parsed : null;
+			} else if (key === 'progress') {
+				onProgress({ outTimeSeconds, speed });
+			}
+		}
+	});
+	// A broken progress pipe does not fail the job: the exit code decides that.
+	stream.on('error', () => {});
+}
+
+/** Seconds from ffmpeg's `HH:MM:SS.micro` (`out_time`); the `_ms`/`_us` keys differ by version. */
+function parseClock(value: string): number | null {
+	const match = /^(-?)(\d+):(\d{2}):(\d{2}(?:\.\d+)?)$/.exec(value);
+	if (!match) return null;
+	const seconds = Number(match[2]) * 3600 + Number(match[3]) * 60 + Number(match[4]);
+	return match[1] ? 0 : seconds;
+}
