@@ -1,0 +1,354 @@
+/**
+ * Suggests where one exercise ends and the next begins in a narrated demonstration, from three
+ * kinds of evidence: what the narrator says (cue text), quiet (caption gaps and audio silence) and
+ * the picture (scene changes). Nearby signals are merged into one suggestion that lists them all.
+ */
+import { plainText } from './text';
+import type { Cue } from './types';
+
+export type SignalKind =
+	| 'announcing-phrase'
+	| 'ordinal'
+	| 'exercise-name-change'
+	| 'long-gap'
+	| 'silence'
+	| 'scene-change';
+
+export interface Signal {
+	kind: SignalKind;
+	detail: string;
+}
+
+export interface Suggestion {
+	time: number;
+	score: number;
+	signals: Signal[];
+}
+
+export interface WordLists {
+	/** Phrases that announce the next exercise, lower case. */
+	announcing: string[];
+	/** Ordinal and number words that count exercises, lower case. */
+	ordinals: string[];
+	/** Words skipped when reading an exercise name after an announcing phrase. */
+	filler: string[];
+}
+
+export interface SuggestInput {
+	cues: readonly Cue[];
+	silences: readonly { start: number; end: number }[];
+	sceneChanges: readonly number[];
+	durationSeconds: number;
+}
+
+export interface SuggestOptions {
+	language: 'en';
+	wordLists?: Partial<WordLists>;
+	/** No boundary closer than this to another or to either end of the recording. Default 5 s. */
+	minSegmentSeconds?: number;
+	/** Signals this close together support one boundary. Default 1.5 s. */
+	mergeWindowSeconds?: number;
+	/** A caption gap at least this long is a signal. Default 2.5 s. */
+	minGapSeconds?: number;
+	/** An audio silence at least this long is a signal. Default 1.5 s. */
+	minSilenceSeconds?: number;
+	/** Suggestions scoring below this are left out. Default 0.5. */
+	minScore?: number;
+}
+
+export const englishWordLists: WordLists = {
+	announcing: [
+		'next exercise',
+		'the next one',
+		"now we'll",
+		'now we will',
+		"let's move on",
+		'let us move on',
+		'moving on',
+		'next up',
+		"now let's",
+		'our next'
+	],
+	ordinals: [
+		'first',
+		'second',
+		'third',
+		'fourth',
+		'fifth',
+		'sixth',
+		'seventh',
+		'eighth',
+		'ninth',
+		'tenth',
+		'exercise one',
+		'exercise two',
+		'exercise three',
+		'exercise four',
+		'exercise five',
+		'exercise six',
+		'exercise seven',
+		'exercise eight',
+		'exercise nine',
+		'exercise ten',
+		'number one',
+		'number two',
+		'number three',
+		'number four',
+		'number five'
+	],
+	filler: [
+		'is',
+		'are',
+		'do',
+		'does',
+		'try',
+		'called',
+		'the',
+		'a',
+		'an',
+		'some',
+		'to',
+		'on',
+		'onto',
+		'with',
+		'exercise',
+		'one',
+		'up',
+		"we'll",
+		'we',
+		'will',
+		'be',
+		'doing',
+		'going',
+		"it's",
+		'this'
+	]
+};
+
+// Evidence weights (our own calibration, common practice: text is the strongest evidence, quiet
+// alone is weak because narrators also pause during holds and rests).
+const WEIGHT: Record<SignalKind, number> = {
+	'announcing-phrase': 0.6,
+	ordinal: 0.4,
+	'exercise-name-change': 0.5,
+	'long-gap': 0.3,
+	silence: 0.3,
+	'scene-change': 0.35
+};
+
+interface Candidate {
+	kind: SignalKind;
+	detail: string;
+	/** Where the boundary may fall for this signal. */
+	from: number;
+	to: number;
+	/** The preferred instant inside [from, to]. */
+	at: number;
+}
+
+const secs = (s: number) => `${Math.round(s * 10) / 10} s`;
+const quote = (text: string) => (text.length > 60 ? `"${text.slice(0, 57)}…"` : `"${text}"`);
+const escape = (s: string) => s.replace(/[.*+?^${}()|[\]\\]/g, '\\$&');
+const normalise = (s: string) => s.toLowerCase().replace(/[’‘]/g, "'").replace(/\s+/g, ' ');
+
+interface Phrase {
+	words: string;
+	pattern: RegExp;
+}
+
+function phrases(list: readonly string[]): Phrase[] {
+	return list.map(normalise).map((words) => ({
+		words,
+		pattern: new RegExp(`(^|[^\\p{L}'])${escape(words)}(?![\\p{L}])`, 'u')
+	}));
+}
+
+/** Where a whole-word phrase starts in the text, or -1. */
+function phraseIndex(text: string, phrase: Phrase): number {
+	const m = phrase.pattern.exec(text);
+	return m ? m.index + m[1].length : -1;
+}
+
+/** A short title-like name after `at` in the sentence, or null (e.g. "heel slides"). */
+function exerciseName(text: string, at: number, filler: Set<string>): string | null {
+	const sentence = text.slice(at).split(/[.!?;]/)[0];
+	const words = sentence.split(/[\s:,–—]+/).filter((w) => /[\p{L}]/u.test(w));
+	let k = 0;
+	while (k < words.length && filler.has(words[k])) k++;
+	const name = words.slice(k);
+	// An instruction ("lie on your back with both legs straight") runs long; a name does not.
+	if (name.length === 0 || name.length > 4 || !name.every((w) => /^[\p{L}'-]+$/u.test(w)))
+		return null;
+	return name.join(' ');
+}
+
+function textCandidates(cues: readonly Cue[], lists: WordLists): Candidate[] {
+	const out: Candidate[] = [];
+	const filler = new Set(lists.filler.map(normalise));
+	const announcing = phrases(lists.announcing);
+	const ordinals = phrases(lists.ordinals);
+	let lastName: string | null = null;
+	cues.forEach((cue, i) => {
+		const text = normalise(plainText(cue.text));
+		const from = i > 0 ? Math.min(cues[i - 1].end, cue.start) : cue.start;
+		const base = { from, to: cue.start, at: cue.start };
+		let nameAt = -1;
+		for (const phrase of announcing) {
+			const k = phraseIndex(text, phrase);
+			if (k < 0) continue;
+			const detail = `"${phrase.words}" in ${quote(plainText(cue.text))}`;
+			out.push({ ...base, kind: 'announcing-phrase', detail });
+			nameAt = k + phrase.words.length;
+			break;
+		}
+		for (const word of ordinals) {
+			const k = phraseIndex(text, word);
+			if (k < 0) continue;
+			out.push({
+				...base,
+				kind: 'ordinal',
+				detail: `"${word.words}" in ${quote(plainText(cue.text))}`
+			});
+			if (nameAt < 0) nameAt = k + word.words.length;
+			break;
+		}
+		if (nameAt < 0) return;
+		const name = exerciseName(text, nameAt, filler);
+		if (name && name !== lastName) {
+			const detail = lastName
+				? `"${name}" after "${lastName}"`
+				: `"${name}", the first exercise named`;
+			out.push({ ...base, kind: 'exercise-name-change', detail });
+			lastName = name;
+		}
+	});
+	return out;
+}
+
+function quietCandidates(input: SuggestInput, minGap: number, minSilence: number): Candidate[] {
+	const out: Candidate[] = [];
+	const cues = [...input.cues].sort((a, b) => a.start - b.start);
+	let from = cues.length > 0 ? cues[0].end : 0;
+	for (let i = 1; i < cues.length; i++) {
+		const to = cues[i].start;
+		if (to - from >= minGap) {
+			const detail = `${secs(to - from)} without captions, ${secs(from)} to ${secs(to)}`;
+			out.push({ kind: 'long-gap', detail, from, to, at: (from + to) / 2 });
+		}
+		// A long cue can cover later, shorter ones: the quiet starts after the latest end so far.
+		from = Math.max(from, cues[i].end);
+	}
+	for (const s of input.silences) {
+		if (s.end - s.start < minSilence) continue;
+		const detail = `${secs(s.end - s.start)} of silence, ${secs(s.start)} to ${secs(s.end)}`;
+		out.push({ kind: 'silence', detail, from: s.start, to: s.end, at: (s.start + s.end) / 2 });
+	}
+	for (const t of input.sceneChanges) {
+		out.push({
+			kind: 'scene-change',
+			detail: `picture changes at ${secs(t)}`,
+			from: t,
+			to: t,
+			at: t
+		});
+	}
+	return out;
+}
+
+/** Noisy-or across independent kinds of evidence; gap and silence are one kind (both are quiet). */
+function scoreOf(kinds: Set<SignalKind>): number {
+	const textMiss = [...TEXT_KINDS].reduce((p, k) => p * (kinds.has(k) ? 1 - WEIGHT[k] : 1), 1);
+	const quiet =
+		kinds.has('long-gap') && kinds.has('silence')
+			? Math.max(WEIGHT['long-gap'], WEIGHT.silence) + 0.1
+			: kinds.has('long-gap')
+				? WEIGHT['long-gap']
+				: kinds.has('silence')
+					? WEIGHT.silence
+					: 0;
+	const picture = kinds.has('scene-change') ? WEIGHT['scene-change'] : 0;
+	return Math.round((1 - textMiss * (1 - quiet) * (1 - picture)) * 1000) / 1000;
+}
+
+const TEXT_KINDS: ReadonlySet<SignalKind> = new Set([
+	'announcing-phrase',
+	'ordinal',
+	'exercise-name-change'
+]);
+
+type Span = { from: number; to: number };
+
+const longest = (list: Span[]): Span | null =>
+	list.reduce<Span | null>((a, b) => (!a || b.to - b.from > a.to - a.from ? b : a), null);
+
+/**
+ * Picks the instant: a scene change inside the quiet stretch, else the middle of it. The quiet
+ * stretch is the silence within the caption gap (nobody speaks and no caption is cut), else the
+ * silence, else the caption gap before the announcing cue.
+ */
+function placeOf(group: Candidate[]): number {
+	const of = (kind: SignalKind) => group.filter((c) => c.kind === kind);
+	const silence = longest(of('silence'));
+	const gap = longest([
+		...of('long-gap'),
+		...group.filter((c) => TEXT_KINDS.has(c.kind) && c.from < c.to)
+	]);
+	let quiet: Span | null = silence ?? gap;
+	if (silence && gap && Math.max(silence.from, gap.from) < Math.min(silence.to, gap.to)) {
+		quiet = { from: Math.max(silence.from, gap.from), to: Math.min(silence.to, gap.to) };
+	}
+	const scenes = of('scene-change');
+	if (!quiet) return scenes[0]?.at ?? group[0].at;
+	const inside = scenes.find((c) => c.at >= quiet.from && c.at <= quiet.to);
+	return inside ? inside.at : (quiet.from + quiet.to) / 2;
+}
+
+/** Suggested boundaries in time order, each with the signals that support it. */
+export function suggestBoundaries(input: SuggestInput, options: SuggestOptions): Suggestion[] {
+	const lists: WordLists = { ...englishWordLists, ...options.wordLists };
+	const minSegment = options.minSegmentSeconds ?? 5;
+	const window = options.mergeWindowSeconds ?? 1.5;
+	const minScore = options.minScore ?? 0.5;
+	const cues = [...input.cues].sort((a, b) => a.start - b.start);
+	const candidates = [
+		...textCandidates(cues, lists),
+		...quietCandidates(input, options.minGapSeconds ?? 2.5, options.minSilenceSeconds ?? 1.5)
+	].sort((a, b) => a.from - b.from || a.to - b.to);
+
+	const groups: Candidate[][] = [];
+	let reach = -Infinity;
+	for (const c of candidates) {
+		const last = groups.at(-1);
+		if (last && c.from <= reach + window) {
+			last.push(c);
+			reach = Math.max(reach, c.to);
+		} else {
+			groups.push([c]);
+			reach = c.to;
+		}
+	}
+
+	const suggestions = groups
+		.map((group) => {
+			const time = Math.round(placeOf(group) * 1000) / 1000;
+			const seen = new Set<string>();
+			const signals = group
+				.filter((c) => {
+					const key = `${c.kind}|${c.detail}`;
+					return !seen.has(key) && (seen.add(key), true);
+				})
+				.map(({ kind, detail }) => ({ kind, detail }));
+			return { time, score: scoreOf(new Set(group.map((c) => c.kind))), signals };
+		})
+		.filter(
+			(s) =>
+				s.score >= minScore && s.time >= minSegment && s.time <= input.durationSeconds - minSegment
+		);
+
+	// Of two suggestions closer than a segment can be, the better supported one stays.
+	const kept: Suggestion[] = [];
+	for (const s of [...suggestions].sort((a, b) => b.score - a.score || a.time - b.time)) {
+		if (kept.every((k) => Math.abs(k.time - s.time) >= minSegment)) kept.push(s);
+	}
+	return kept.sort((a, b) => a.time - b.time);
+}
