@@ -4,7 +4,7 @@ import { accessForRoute, decide } from '$lib/auth/access';
 import { loadPrincipal } from '$lib/server/auth/principal';
 import { config } from '$lib/server/config';
 import { db } from '$lib/server/db';
-import { startBackgroundWork } from '$lib/server/jobs';
+import { startBackgroundWork, stopBackgroundWork } from '$lib/server/jobs';
 import { storageOrigin } from '$lib/server/storage/multipart';
 import { authHandle } from './auth';
 
@@ -12,7 +12,12 @@ import { authHandle } from './auth';
 export function init() {
 	config();
 	db();
-	if (config().WORKER_IN_APP) startBackgroundWork();
+	if (config().WORKER_IN_APP) {
+		startBackgroundWork();
+		// adapter-node emits this on SIGTERM/SIGINT: running jobs go back to the queue at once
+		// instead of waiting for their heartbeat to go stale.
+		process.once('sveltekit:shutdown', () => void stopBackgroundWork());
+	}
 }
 
 /** Who is asking: fills `locals.user` from the Auth.js session and the database. */

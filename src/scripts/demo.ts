@@ -50,8 +50,15 @@ const mail = await startMailFake({
 });
 
 const { seedDemo, DEMO_PASSWORD } = await import('../lib/server/demo/seed');
+const { seedDemoRecordings } = await import('../lib/server/demo/recordings');
 const { closeDatabase } = await import('../lib/server/db');
 const accounts = await seedDemo();
+console.log('Preparing the demonstration recordings (drawn once, then kept in .data/demo-clips)…');
+const added = await seedDemoRecordings(
+	resolve(dataDir, 'demo-clips'),
+	'clinician@alder-street.example',
+	(line) => console.log(line)
+);
 closeDatabase();
 
 const app = spawn(process.execPath, ['build'], {
@@ -81,6 +88,11 @@ console.log(`\nKinelume demo is running at ${origin}\n`);
 console.log(`Every demo account's password: ${DEMO_PASSWORD}\n`);
 for (const a of accounts)
 	console.log(`  ${a.email.padEnd(width)}  ${a.role.padEnd(9)}  ${a.name}, ${a.clinic}`);
+if (added) {
+	console.log(
+		`\n${added} demonstration recording(s) uploaded; the app is making their web renditions now (Recordings page).`
+	);
+}
 console.log(
 	`\nE-mails (invitations, sign-in links) land in the development inbox: sign in as an admin and open ${origin}/inbox`
 );

@@ -1,7 +1,14 @@
 import { expect, test, type APIRequestContext } from '@playwright/test';
 import { readdirSync, statSync } from 'node:fs';
 import { join, relative, resolve, sep } from 'node:path';
-import { ACCOUNTS, contextFor, idOf, MATRIX_ROLES, type MatrixRole } from './support';
+import {
+	ACCOUNTS,
+	contextFor,
+	idOf,
+	MATRIX_ROLES,
+	seedReadyRecording,
+	type MatrixRole
+} from './support';
 import { E2E } from './ports';
 
 /**
@@ -21,6 +28,8 @@ interface Fixture {
 	clinicId: string;
 	otherClinicId: string;
 	messageId: string;
+	recordingId: string;
+	otherClinicRecordingId: string;
 }
 
 interface Row {
@@ -31,7 +40,20 @@ interface Row {
 	expect: Record<MatrixRole, number>;
 }
 
-const everyone = (status: number): Record<MatrixRole, number> => ({ public: status, patient: status, clinician: status, educator: status, admin: status });
+const everyone = (status: number): Record<MatrixRole, number> => ({
+	public: status,
+	patient: status,
+	clinician: status,
+	educator: status,
+	admin: status
+});
+const clinicianApi = (clinician: number): Record<MatrixRole, number> => ({
+	public: 401,
+	patient: 403,
+	clinician,
+	educator: 403,
+	admin: 403
+});
 const onlyPage = (role: Exclude<MatrixRole, 'public'>): Record<MatrixRole, number> => ({
 	...everyone(403),
 	public: 303,
@@ -40,27 +62,164 @@ const onlyPage = (role: Exclude<MatrixRole, 'public'>): Record<MatrixRole, numbe
 
 const MATRIX: Row[] = [
 	{ route: '/(public)', path: () => '/', expect: everyone(200) },
-	{ route: '/(public)/signin', note: 'signed-in people go to their home', path: () => '/signin', expect: { ...everyone(303), public: 200 } },
+	{
+		route: '/(public)/signin',
+		note: 'signed-in people go to their home',
+		path: () => '/signin',
+		expect: { ...everyone(303), public: 200 }
+	},
 	{ route: '/(public)/signin/link-sent', path: () => '/signin/link-sent', expect: everyone(200) },
 	{ route: '/(public)/signout', path: () => '/signout', expect: everyone(200) },
-	{ route: '/(public)/invite/[token]', note: 'a token that matches nothing', path: () => '/invite/AAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAA', expect: everyone(404) },
-	{ route: '/(member)/home', note: 'everyone is sent on (to sign in, or home)', path: () => '/home', expect: everyone(303) },
+	{
+		route: '/(public)/invite/[token]',
+		note: 'a token that matches nothing',
+		path: () => '/invite/AAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAAA',
+		expect: everyone(404)
+	},
+	{
+		route: '/(member)/home',
+		note: 'everyone is sent on (to sign in, or home)',
+		path: () => '/home',
+		expect: everyone(303)
+	},
 	{ route: '/(member)/account', path: () => '/account', expect: { ...everyone(200), public: 303 } },
 	{ route: '/(admin)/clinic', path: () => '/clinic', expect: onlyPage('admin') },
 	{ route: '/(admin)/inbox', path: () => '/inbox', expect: onlyPage('admin') },
 	{ route: '/(admin)/inbox/[id]', path: (f) => `/inbox/${f.messageId}`, expect: onlyPage('admin') },
 	{ route: '/(clinician)/patients', path: () => '/patients', expect: onlyPage('clinician') },
-	{ route: '/(clinician)/patients/[id=id]', note: "own clinic's patient", path: (f) => `/patients/${f.patientId}`, expect: onlyPage('clinician') },
-	{ route: '/(clinician)/patients/[id=id]', note: "another clinic's patient", path: (f) => `/patients/${f.otherClinicPatientId}`, expect: { ...onlyPage('clinician'), clinician: 404 } },
+	{
+		route: '/(clinician)/patients/[id=id]',
+		note: "own clinic's patient",
+		path: (f) => `/patients/${f.patientId}`,
+		expect: onlyPage('clinician')
+	},
+	{
+		route: '/(clinician)/patients/[id=id]',
+		note: "another clinic's patient",
+		path: (f) => `/patients/${f.otherClinicPatientId}`,
+		expect: { ...onlyPage('clinician'), clinician: 404 }
+	},
+	{ route: '/(clinician)/recordings', path: () => '/recordings', expect: onlyPage('clinician') },
+	{
+		route: '/(clinician)/recordings',
+		note: 'sorted, filtered, paged',
+		path: () => '/recordings?sort=length&dir=asc&status=ready&q=knee&page=2',
+		expect: onlyPage('clinician')
+	},
+	{
+		route: '/(clinician)/recordings/[id=id]',
+		note: "own clinic's recording",
+		path: (f) => `/recordings/${f.recordingId}`,
+		expect: onlyPage('clinician')
+	},
+	{
+		route: '/(clinician)/recordings/[id=id]',
+		note: "another clinic's recording",
+		path: (f) => `/recordings/${f.otherClinicRecordingId}`,
+		expect: { ...onlyPage('clinician'), clinician: 404 }
+	},
+	{
+		route: '/api/uploads',
+		note: "the caller's unfinished uploads",
+		path: () => '/api/uploads',
+		expect: clinicianApi(200)
+	},
+	{
+		route: '/api/uploads/[id=id]',
+		note: "an upload that is not in the caller's clinic",
+		path: () => `/api/uploads/${crypto.randomUUID()}`,
+		expect: clinicianApi(404)
+	},
+	{
+		route: '/api/uploads/[id=id]/parts',
+		note: 'POST only (its roles are checked in recordings.e2e.ts)',
+		path: () => `/api/uploads/${crypto.randomUUID()}/parts`,
+		expect: everyone(405)
+	},
+	{
+		route: '/api/uploads/[id=id]/complete',
+		note: 'POST only (its roles are checked in recordings.e2e.ts)',
+		path: () => `/api/uploads/${crypto.randomUUID()}/complete`,
+		expect: everyone(405)
+	},
+	{
+		route: '/api/recordings/[id=id]',
+		note: "own clinic's recording",
+		path: (f) => `/api/recordings/${f.recordingId}`,
+		expect: clinicianApi(200)
+	},
+	{
+		route: '/api/recordings/[id=id]',
+		note: "another clinic's recording",
+		path: (f) => `/api/recordings/${f.otherClinicRecordingId}`,
+		expect: clinicianApi(404)
+	},
+	{
+		route: '/api/recordings/[id=id]/media/[asset]',
+		note: "own clinic's rendition",
+		path: (f) => `/api/recordings/${f.recordingId}/media/rendition.mp4`,
+		expect: clinicianApi(200)
+	},
+	{
+		route: '/api/recordings/[id=id]/media/[asset]',
+		note: "own clinic's poster",
+		path: (f) => `/api/recordings/${f.recordingId}/media/poster-0.jpg`,
+		expect: clinicianApi(200)
+	},
+	{
+		route: '/api/recordings/[id=id]/media/[asset]',
+		note: "another clinic's rendition",
+		path: (f) => `/api/recordings/${f.otherClinicRecordingId}/media/rendition.mp4`,
+		expect: clinicianApi(404)
+	},
+	{
+		route: '/api/recordings/[id=id]/media/[asset]',
+		note: 'a name that is no asset',
+		path: (f) => `/api/recordings/${f.recordingId}/media/original`,
+		expect: clinicianApi(404)
+	},
 	{ route: '/(patient)/today', path: () => '/today', expect: onlyPage('patient') },
 	{ route: '/(educator)/curate', path: () => '/curate', expect: onlyPage('educator') },
 	{ route: '/api/health', path: () => '/api/health', expect: everyone(200) },
-	{ route: '/api/patients/[id=id]', note: 'the signed-in patient themself', path: (f) => `/api/patients/${f.patientId}`, expect: { public: 401, patient: 200, clinician: 200, educator: 403, admin: 403 } },
-	{ route: '/api/patients/[id=id]', note: 'another patient of the same clinic', path: (f) => `/api/patients/${f.otherPatientId}`, expect: { public: 401, patient: 404, clinician: 200, educator: 403, admin: 403 } },
-	{ route: '/api/patients/[id=id]', note: "another clinic's patient", path: (f) => `/api/patients/${f.otherClinicPatientId}`, expect: { public: 401, patient: 404, clinician: 404, educator: 403, admin: 403 } },
-	{ route: '/api/clinics/[id=id]/members', note: 'own clinic', path: (f) => `/api/clinics/${f.clinicId}/members`, expect: { public: 401, patient: 403, clinician: 403, educator: 403, admin: 200 } },
-	{ route: '/api/clinics/[id=id]/members', note: 'another clinic', path: (f) => `/api/clinics/${f.otherClinicId}/members`, expect: { public: 401, patient: 403, clinician: 403, educator: 403, admin: 404 } }
+	{
+		route: '/api/patients/[id=id]',
+		note: 'the signed-in patient themself',
+		path: (f) => `/api/patients/${f.patientId}`,
+		expect: { public: 401, patient: 200, clinician: 200, educator: 403, admin: 403 }
+	},
+	{
+		route: '/api/patients/[id=id]',
+		note: 'another patient of the same clinic',
+		path: (f) => `/api/patients/${f.otherPatientId}`,
+		expect: { public: 401, patient: 404, clinician: 200, educator: 403, admin: 403 }
+	},
+	{
+		route: '/api/patients/[id=id]',
+		note: "another clinic's patient",
+		path: (f) => `/api/patients/${f.otherClinicPatientId}`,
+		expect: { public: 401, patient: 404, clinician: 404, educator: 403, admin: 403 }
+	},
+	{
+		route: '/api/clinics/[id=id]/members',
+		note: 'own clinic',
+		path: (f) => `/api/clinics/${f.clinicId}/members`,
+		expect: { public: 401, patient: 403, clinician: 403, educator: 403, admin: 200 }
+	},
+	{
+		route: '/api/clinics/[id=id]/members',
+		note: 'another clinic',
+		path: (f) => `/api/clinics/${f.otherClinicId}/members`,
+		expect: { public: 401, patient: 403, clinician: 403, educator: 403, admin: 404 }
+	}
 ];
+
+/** A ready recording in each clinic, with a tiny rendition and poster in storage. */
+async function seedRecordings(): Promise<Pick<Fixture, 'recordingId' | 'otherClinicRecordingId'>> {
+	return {
+		recordingId: await seedReadyRecording(ACCOUNTS.clinician),
+		otherClinicRecordingId: await seedReadyRecording(ACCOUNTS.otherClinicClinician)
+	};
+}
 
 /** Every route id under src/routes, as SvelteKit names them: a folder with a page or endpoint. */
 function routeIds(): string[] {
@@ -81,8 +240,14 @@ function routeIds(): string[] {
 test('every route has a row in the role matrix, and every row names a real route', () => {
 	const routes = routeIds();
 	const covered = new Set(MATRIX.map((r) => r.route));
-	expect(routes.filter((r) => !covered.has(r)), 'routes without a row').toEqual([]);
-	expect([...covered].filter((r) => !routes.includes(r)), 'rows without a route').toEqual([]);
+	expect(
+		routes.filter((r) => !covered.has(r)),
+		'routes without a row'
+	).toEqual([]);
+	expect(
+		[...covered].filter((r) => !routes.includes(r)),
+		'rows without a route'
+	).toEqual([]);
 });
 
 test.describe('role matrix', () => {
@@ -94,10 +259,14 @@ test.describe('role matrix', () => {
 		fixture = {
 			patientId: idOf('select id from patient where email = ?', ACCOUNTS.patient),
 			otherPatientId: idOf('select id from patient where email = ?', ACCOUNTS.otherPatient),
-			otherClinicPatientId: idOf('select id from patient where email = ?', ACCOUNTS.otherClinicPatient),
+			otherClinicPatientId: idOf(
+				'select id from patient where email = ?',
+				ACCOUNTS.otherClinicPatient
+			),
 			clinicId: idOf("select id from clinic where name = 'Alder Street Community Clinic'"),
 			otherClinicId: idOf("select id from clinic where name = 'Harbour Lane Physiotherapy'"),
-			messageId: messages[0].id
+			messageId: messages[0].id,
+			...(await seedRecordings())
 		};
 		for (const role of MATRIX_ROLES) contexts.set(role, await contextFor(role));
 	});

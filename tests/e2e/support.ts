@@ -147,7 +147,9 @@ export async function seedReadyRecording(clinicianEmail: string): Promise<string
 	let clinicId: string;
 	try {
 		const member = db
-			.prepare('select m.clinic_id as clinicId, u.id as userId from membership m join user u on u.id = m.user_id where u.email = ?')
+			.prepare(
+				'select m.clinic_id as clinicId, u.id as userId from membership m join user u on u.id = m.user_id where u.email = ?'
+			)
 			.get(clinicianEmail) as { clinicId: string; userId: string };
 		clinicId = member.clinicId;
 		db.prepare(
@@ -171,7 +173,14 @@ export async function seedReadyRecording(clinicianEmail: string): Promise<string
 		['rendition.mp4', 'video/mp4'],
 		['posters/0.jpg', 'image/jpeg']
 	]) {
-		await s3.send(new PutObjectCommand({ Bucket: 'kinelume', Key: prefix + key, Body: 'seeded bytes', ContentType: type }));
+		await s3.send(
+			new PutObjectCommand({
+				Bucket: 'kinelume',
+				Key: prefix + key,
+				Body: 'seeded bytes',
+				ContentType: type
+			})
+		);
 	}
 	s3.destroy();
 	return id;

@@ -34,18 +34,46 @@ const schema = z.object({
 	DEV_INBOX_URL: z
 		.union([z.url(), z.literal('')])
 		.default(isProduction ? '' : 'http://127.0.0.1:2526'),
-	INVITATION_TTL_HOURS: z.coerce.number().int().min(1).max(24 * 30).default(72),
+	INVITATION_TTL_HOURS: z.coerce
+		.number()
+		.int()
+		.min(1)
+		.max(24 * 30)
+		.default(72),
 	SIGN_IN_MAX_FAILURES: z.coerce.number().int().min(1).max(100).default(5),
-	SIGN_IN_WINDOW_MINUTES: z.coerce.number().int().min(1).max(24 * 60).default(15),
+	SIGN_IN_WINDOW_MINUTES: z.coerce
+		.number()
+		.int()
+		.min(1)
+		.max(24 * 60)
+		.default(15),
 	// Recordings: uploads, their sweep, and the media job worker.
-	UPLOAD_SWEEP_MINUTES: z.coerce.number().int().min(1).max(24 * 60).default(5),
-	UPLOAD_IDLE_HOURS: z.coerce.number().min(0.01).max(24 * 30).default(24),
+	UPLOAD_SWEEP_MINUTES: z.coerce
+		.number()
+		.int()
+		.min(1)
+		.max(24 * 60)
+		.default(5),
+	UPLOAD_IDLE_HOURS: z.coerce
+		.number()
+		.min(0.01)
+		.max(24 * 30)
+		.default(24),
 	MEDIA_JOB_CONCURRENCY: z.coerce.number().int().min(1).max(16).default(1),
 	WORKER_IN_APP: bool.default(true),
 	JOB_HEARTBEAT_SECONDS: z.coerce.number().min(0.2).max(300).default(5),
 	JOB_STALE_SECONDS: z.coerce.number().min(1).max(3600).default(60),
 	JOB_RETRY_BASE_SECONDS: z.coerce.number().min(0).max(3600).default(10),
-	MEDIA_WORK_DIR: z.string().default('')
+	MEDIA_WORK_DIR: z.string().default(''),
+	// ffmpeg and ffprobe executables; empty means the binaries inside the npm installer packages.
+	FFMPEG_PATH: z.string().default(''),
+	FFPROBE_PATH: z.string().default(''),
+	MEDIA_JOB_TIMEOUT_SECONDS: z.coerce
+		.number()
+		.int()
+		.min(1)
+		.max(24 * 60 * 60)
+		.default(1800)
 });
 
 export type Config = z.infer<typeof schema>;

@@ -5,6 +5,7 @@
  *   clinics/<clinic>/recordings/<recording>/original
  *   clinics/<clinic>/recordings/<recording>/rendition.mp4
  *   clinics/<clinic>/recordings/<recording>/posters/<n>.jpg
+ *   clinics/<clinic>/recordings/<recording>/sprite.jpg, waveform.json   (the studio's timeline)
  *   clinics/<clinic>/recordings/<recording>/segments/<segment>.mp4
  *   library/<published-version>/rendition.mp4, posters/<n>.jpg, segments/<segment>.mp4
  */
@@ -25,6 +26,8 @@ export interface MediaKeys {
 	/** Ends with `/`: pass it to `deletePrefix` to remove everything below. */
 	prefix: string;
 	rendition: string;
+	sprite: string;
+	waveform: string;
 	poster(index: number): string;
 	segment(segmentId: string): string;
 }
@@ -37,6 +40,8 @@ function mediaKeys(prefix: string): MediaKeys {
 	return {
 		prefix,
 		rendition: `${prefix}rendition.mp4`,
+		sprite: `${prefix}sprite.jpg`,
+		waveform: `${prefix}waveform.json`,
 		poster(index) {
 			if (!Number.isSafeInteger(index) || index < 0) {
 				throw new Error(`Invalid poster index for a storage key: ${index}.`);

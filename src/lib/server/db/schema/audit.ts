@@ -44,5 +44,8 @@ export const signInFailures = sqliteTable(
 			.notNull()
 			.$defaultFn(() => new Date())
 	},
-	(f) => [index('sign_in_failure_email_time').on(f.email, f.createdAt), index('sign_in_failure_address_time').on(f.address, f.createdAt)]
+	(f) => [
+		index('sign_in_failure_email_time').on(f.email, f.createdAt),
+		index('sign_in_failure_address_time').on(f.address, f.createdAt)
+	]
 );

@@ -35,7 +35,10 @@ export const memberships = sqliteTable(
 			.notNull()
 			.$defaultFn(() => new Date())
 	},
-	(m) => [uniqueIndex('membership_user_unique').on(m.userId), index('membership_clinic').on(m.clinicId)]
+	(m) => [
+		uniqueIndex('membership_user_unique').on(m.userId),
+		index('membership_clinic').on(m.clinicId)
+	]
 );
 
 export type Clinic = typeof clinics.$inferSelect;

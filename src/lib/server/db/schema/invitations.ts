@@ -35,7 +35,10 @@ export const invitations = sqliteTable(
 			.notNull()
 			.$defaultFn(() => new Date())
 	},
-	(i) => [uniqueIndex('invitation_token_unique').on(i.tokenHash), index('invitation_clinic').on(i.clinicId)]
+	(i) => [
+		uniqueIndex('invitation_token_unique').on(i.tokenHash),
+		index('invitation_clinic').on(i.clinicId)
+	]
 );
 
 export type Invitation = typeof invitations.$inferSelect;

@@ -1,0 +1,64 @@
+import { ALLOWED_EXTENSIONS, declaredUploadProblem } from '../media/validate';
+
+/** The content type each accepted extension is stored under when the browser names none. */
+const TYPE_BY_EXTENSION: Record<string, string> = {
+	'.mp4': 'video/mp4',
+	'.m4v': 'video/x-m4v',
+	'.mov': 'video/quicktime',
+	'.webm': 'video/webm'
+};
+
+export const ACCEPT_ATTRIBUTE = [
+	...Object.keys(ALLOWED_EXTENSIONS),
+	...new Set(Object.values(TYPE_BY_EXTENSION))
+].join(',');
+
+/**
+ * The content type to store a file under, or a sentence saying why it is not accepted. Browsers
+ * often report an empty or generic type for .mov and .m4v, so the extension decides then.
+ */
+export function uploadType(
+	filename: string,
+	declaredType: string,
+	sizeBytes: number
+): { contentType: string } | { refusal: string } {
+	const dot = filename.lastIndexOf('.');
+	const ext = dot < 0 ? '' : filename.slice(dot).toLowerCase();
+	const type = declaredType.split(';')[0].trim().toLowerCase();
+	const contentType =
+		type === '' || type === 'application/octet-stream' ? (TYPE_BY_EXTENSION[ext] ?? type) : type;
+	const refusal = declaredUploadProblem({ filename, contentType, sizeBytes });
+	return refusal ? { refusal } : { contentType };
+}
+
+/** A title from a file name: without its extension, underscores and dashes read as spaces. */
+export function titleFromFilename(filename: string): string {
+	const base = filename
+		.replace(/\.[^.]+$/, '')
+		.replace(/[_-]+/g, ' ')
+		.trim();
+	return (base || 'Untitled recording').slice(0, 120);
+}
+
+/** "1:05" or "1:02:03" from seconds. */
+export function formatDuration(seconds: number | null | undefined): string {
+	if (seconds === null || seconds === undefined || !Number.isFinite(seconds)) return '—';
+	const s = Math.round(seconds);
+	const h = Math.floor(s / 3600);
+	const m = Math.floor((s % 3600) / 60);
+	const rest = String(s % 60).padStart(2, '0');
+	return h > 0 ? `${h}:${String(m).padStart(2, '0')}:${rest}` : `${m}:${rest}`;
+}
+
+/** "12.3 MB" style sizes (decimal units, as file managers show). */
+export function formatBytes(bytes: number | null | undefined): string {
+	if (bytes === null || bytes === undefined || !Number.isFinite(bytes)) return '—';
+	const units = ['bytes', 'kB', 'MB', 'GB'];
+	let value = bytes;
+	let unit = 0;
+	while (value >= 1000 && unit < units.length - 1) {
+		value /= 1000;
+		unit++;
+	}
+	return unit === 0 ? `${value} bytes` : `${value.toFixed(value < 10 ? 1 : 0)} ${units[unit]}`;
+}

@@ -1,0 +1,70 @@
+import { open, stat } from 'node:fs/promises';
+import { and, eq } from 'drizzle-orm';
+import { db, schema } from '../db';
+import { completeUpload, createUpload, presignParts } from '../recordings/uploads';
+import { ensureDemoClips } from './clips';
+
+/**
+ * Brings the generated demo clips into the demo clinic exactly as a clinician's browser would:
+ * a multipart upload through presigned part URLs, then completion, which probes, validates and
+ * queues the processing job that the app's worker runs. Clips already present are skipped.
+ */
+export async function seedDemoRecordings(
+	clipsDir: string,
+	clinicianEmail: string,
+	log: (line: string) => void = console.log
+): Promise<number> {
+	const store = db();
+	const clinician = store.query.users
+		.findFirst({ where: eq(schema.users.email, clinicianEmail) })
+		.sync();
+	const membership = clinician
+		? store.query.memberships
+				.findFirst({ where: eq(schema.memberships.userId, clinician.id) })
+				.sync()
+		: undefined;
+	if (!clinician || !membership) throw new Error(`No demo clinician ${clinicianEmail}`);
+	const owner = { id: clinician.id, clinicId: membership.clinicId };
+
+	const clips = await ensureDemoClips(clipsDir);
+	let added = 0;
+	for (const { clip, path, rendered, seconds } of clips) {
+		if (rendered) log(`  drew "${clip.title}" in ${seconds.toFixed(1)} s`);
+		const filename = `${clip.title}.mp4`;
+		const present = store
+			.select({ id: schema.recordings.id })
+			.from(schema.recordings)
+			.where(
+				and(
+					eq(schema.recordings.clinicId, owner.clinicId),
+					eq(schema.recordings.originalFilename, filename)
+				)
+			)
+			.get();
+		if (present) continue;
+		const { size } = await stat(path);
+		const session = await createUpload(owner, {
+			filename,
+			contentType: 'video/mp4',
+			sizeBytes: size
+		});
+		const numbers = Array.from({ length: session.partCount }, (_, i) => i + 1);
+		const urls = await presignParts(owner, session.id, numbers);
+		const file = await open(path);
+		try {
+			for (const { partNumber, url } of urls) {
+				const start = (partNumber - 1) * session.partSize;
+				const length = Math.min(session.partSize, size - start);
+				const buffer = Buffer.alloc(length);
+				await file.read(buffer, 0, length, start);
+				const response = await fetch(url, { method: 'PUT', body: buffer });
+				if (!response.ok) throw new Error(`Storage refused part ${partNumber}: ${response.status}`);
+			}
+		} finally {
+			await file.close();
+		}
+		await completeUpload(owner, session.id);
+		added++;
+	}
+	return added;
+}

@@ -1,0 +1,40 @@
+import { config } from '../config';
+import { processRecordingHandler } from '../recordings/process';
+import { startUploadSweep } from '../recordings/uploads';
+import { startWorker, type Worker, type WorkerOptions } from './worker';
+
+let running: { worker: Worker; stopSweep: () => void } | undefined;
+
+/** Every kind of job this codebase knows how to run. */
+export const HANDLERS: WorkerOptions['handlers'] = {
+	'process-recording': processRecordingHandler
+};
+
+/**
+ * Starts this process's media worker and the abandoned-upload sweep, once. The app calls it from
+ * its `init` hook unless WORKER_IN_APP=false; `npm run worker` calls it on its own.
+ */
+export function startBackgroundWork(options: Partial<WorkerOptions> = {}): Worker {
+	if (running) return running.worker;
+	const worker = startWorker({ handlers: HANDLERS, ...options });
+	const stopSweep = startUploadSweep();
+	running = { worker, stopSweep };
+	return worker;
+}
+
+/** Wakes this process's worker, if it runs one, so a new job starts without waiting for a poll. */
+export function nudgeWorker(): void {
+	running?.worker.nudge();
+}
+
+export async function stopBackgroundWork(): Promise<void> {
+	if (!running) return;
+	const { worker, stopSweep } = running;
+	running = undefined;
+	stopSweep();
+	await worker.stop();
+}
+
+export function workerInApp(): boolean {
+	return config().WORKER_IN_APP;
+}

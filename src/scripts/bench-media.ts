@@ -1,0 +1,827 @@
+/**
+ * `npm run bench:media`: measures the media path against references taken in the same run.
+ *
+ *   (a) byte-range throughput through the app's media endpoint vs a ranged GetObject straight
+ *       from storage, at 1 and 32 concurrent clients (goal: ratio ≥ 0.8);
+ *   (b) web rendition encoding speed of a generated 720p clip as a multiple of its own
+ *       duration (goal ≥ 3×);
+ *   (c) upload throughput through presigned multipart parts vs one PutObject of the same bytes
+ *       (goal: ratio ≥ 0.8);
+ *   (d) the app's peak resident memory while serving (a) (goal < 200 MB).
+ *
+ * It runs its own storage and mail fakes, database and production server on ports of its own in
+ * a temporary folder, and removes all of it afterwards (Ctrl+C included). It is a measurement,
+ * not a test: it exits 0 when a goal is missed and non-zero only when it could not measure.
+ *
+ *   npm run bench:media -- [--seconds=8] [--range-mib=8] [--build]
+ *
+ * `--seconds` is the time per way and client count in (a); `--range-mib` the size of each range
+ * (a player asks for far smaller ones; large ones measure streaming rather than request cost).
+ * `--build` rebuilds the app first; without it an existing build/ is used as it is.
+ */
+import { spawn, type ChildProcess } from 'node:child_process';
+import { createHash, randomFillSync } from 'node:crypto';
+import {
+	cpSync,
+	createReadStream,
+	createWriteStream,
+	existsSync,
+	readFileSync,
+	symlinkSync
+} from 'node:fs';
+import { mkdtemp, rm } from 'node:fs/promises';
+import { Agent, request as httpRequest } from 'node:http';
+import { loadavg, tmpdir } from 'node:os';
+import { join, resolve } from 'node:path';
+import { createInterface } from 'node:readline';
+import type { Readable } from 'node:stream';
+
+const ROOT = resolve(import.meta.dirname, '../..');
+const PORTS = { app: 4273, storage: 4769, smtp: 2725, mailApi: 2726 } as const;
+const ORIGIN = `http://localhost:${PORTS.app}`;
+const APP_URL = `http://127.0.0.1:${PORTS.app}`;
+const STORAGE_URL = `http://127.0.0.1:${PORTS.storage}`;
+const BUCKET = 'kinelume';
+const KEY_ID = 'S3RVER';
+const MB = 1_000_000;
+const MIB = 1024 * 1024;
+
+const OBJECT_BYTES = 100 * MIB;
+const RANGE_BYTES = Math.floor(Number(argValue('range-mib') ?? 8) * MIB);
+const CONCURRENCIES = [1, 32];
+const UPLOAD_BYTES = 64 * MIB;
+const UPLOAD_ROUNDS = 3;
+const UPLOAD_PARALLEL = 3;
+const CLIP_SECONDS = 20;
+
+function argValue(name: string): string | undefined {
+	const prefix = `--${name}=`;
+	return process.argv.find((a) => a.startsWith(prefix))?.slice(prefix.length);
+}
+
+async function runFakes(dataDir: string): Promise<void> {
+	const { startStorageFake } = await import('../../fakes/storage/server');
+	const { startMailFake } = await import('../../fakes/mail/server');
+	const storage = await startStorageFake({
+		port: PORTS.storage,
+		directory: join(dataDir, 'storage'),
+		bucket: BUCKET,
+		accessKeyId: KEY_ID,
+		secretAccessKey: KEY_ID,
+		allowedOrigins: [ORIGIN]
+	});
+	const mail = await startMailFake({
+		smtpPort: PORTS.smtp,
+		apiPort: PORTS.mailApi,
+		directory: join(dataDir, 'mail')
+	});
+	let closing = false;
+	const close = () => {
+		if (closing) return;
+		closing = true;
+		void Promise.allSettled([storage.close(), mail.close()]).then(() => process.exit(0));
+	};
+	process.on('SIGTERM', close);
+	// Ctrl+C reaches the whole process group; the parent decides when the fakes go.
+	process.on('SIGINT', () => {});
+	// The parent holds our stdin open: when it goes, however it went, so do we.
+	process.stdin.on('end', close);
+	process.stdin.resume();
+	process.stdout.write('fakes-ready\n');
+}
+
+interface Row {
+	figure: string;
+	measured: string;
+	reference: string;
+	result: string;
+	goal: string;
+	pass: boolean | null;
+}
+
+async function main(): Promise<void> {
+	process.chdir(ROOT);
+	const seconds = Number(argValue('seconds') ?? 8);
+	if (!(seconds > 0)) throw new Error('--seconds must be a positive number.');
+	if (!(RANGE_BYTES >= 1 && RANGE_BYTES <= OBJECT_BYTES / 2)) {
+		throw new Error('--range-mib must be more than 0 and at most half the 100 MiB object.');
+	}
+
+	const dataDir = await mkdtemp(join(tmpdir(), 'kinelume-bench-'));
+	Object.assign(process.env, {
+		DATABASE_PATH: join(dataDir, 'kinelume.db'),
+		ORIGIN,
+		S3_ENDPOINT: STORAGE_URL,
+		S3_BUCKET: BUCKET,
+		S3_ACCESS_KEY_ID: KEY_ID,
+		S3_SECRET_ACCESS_KEY: KEY_ID,
+		SMTP_PORT: String(PORTS.smtp),
+		DEV_INBOX_URL: `http://127.0.0.1:${PORTS.mailApi}`,
+		MEDIA_WORK_DIR: join(dataDir, 'work'),
+		AUTH_SECRET: 'bench-only-secret-that-is-long-enough-0123456789'
+	});
+
+	let fakes: ChildProcess | undefined;
+	let app: ChildProcess | undefined;
+	const abort = new AbortController();
+	let cleaning: Promise<void> | undefined;
+	const cleanUp = () =>
+		(cleaning ??= (async () => {
+			abort.abort();
+			await Promise.all([stopChild(app), stopChild(fakes)]);
+			await rm(dataDir, { recursive: true, force: true });
+		})());
+	for (const signal of ['SIGINT', 'SIGTERM'] as const) {
+		process.on(signal, () => {
+			// tsx passes the signal on as well, so it can arrive twice.
+			if (abort.signal.aborted) return;
+			console.error(`\n${signal}: stopping and removing ${dataDir}`);
+			void cleanUp().then(() => process.exit(130));
+		});
+	}
+
+	const loadStart = loadavg()[0];
+	try {
+		if (process.argv.includes('--build') || !existsSync(join(ROOT, 'build/index.js'))) {
+			console.log('Building the app (vite build)…');
+			await runCommand(resolve(ROOT, 'node_modules/.bin/vite'), ['build'], abort.signal);
+		}
+
+		console.log(`Data in ${dataDir}; starting the storage and mail fakes…`);
+		fakes = await startFakes(dataDir);
+
+		const rows: Row[] = [];
+		const storageModule = await import('../lib/server/storage');
+		console.log('Seeding the demo clinic and storing a 100 MiB object…');
+		const { clinicId, recordingId } = await seedRecording();
+		const s3 = await prepareRangeObject(storageModule, clinicId, recordingId);
+		console.log('Starting the app (node build)…');
+		// A copy of the build: another session's `vite build` replaces build/ while it runs.
+		// Its imports find the packages through a node_modules link next to it.
+		cpSync(join(ROOT, 'build'), join(dataDir, 'build'), { recursive: true });
+		symlinkSync(join(ROOT, 'node_modules'), join(dataDir, 'node_modules'), 'dir');
+		app = spawn(process.execPath, [join(dataDir, 'build')], {
+			stdio: ['ignore', 'inherit', 'inherit'],
+			env: { ...process.env, PORT: String(PORTS.app), HOST: '127.0.0.1' }
+		});
+		const appExited = new Promise<never>((_, reject) =>
+			app!.once('exit', (code, signal) =>
+				reject(new Error(`the app (node build) exited early: ${code ?? signal}`))
+			)
+		);
+		appExited.catch(() => {});
+		await Promise.race([waitForHealth(), appExited]);
+		const idleRss = readStatus(app.pid!).rss;
+		const cookie = await signIn();
+
+		rows.push(
+			...(await Promise.race([
+				benchRanges({
+					key: s3.key,
+					recordingId,
+					cookie,
+					appPid: app.pid!,
+					fakesPid: fakes.pid!,
+					idleRss,
+					seconds,
+					sha256First: s3.sha256First
+				}),
+				appExited
+			]))
+		);
+		// (b) and (c) do not involve the app; stopping it gives them the whole machine.
+		await stopChild(app);
+		app = undefined;
+
+		rows.push(await benchRendition(dataDir, abort.signal));
+		rows.push(...(await benchUpload(storageModule)));
+
+		printTable(rows, loadStart);
+	} catch (error) {
+		// After Ctrl+C the failures are only those of processes being stopped.
+		if (!abort.signal.aborted) {
+			console.error(`\nThe benchmark could not finish: ${(error as Error).stack ?? String(error)}`);
+		}
+		process.exitCode = 1;
+	} finally {
+		await cleanUp();
+	}
+}
+
+/**
+ * Runs a command to its end, keeping its output only to explain a failure. Not spawnSync: with the
+ * event loop blocked, Ctrl+C would end this process before it could clean up.
+ */
+function runCommand(command: string, args: string[], signal: AbortSignal): Promise<void> {
+	return new Promise<void>((done, failed) => {
+		const child = spawn(command, args, { stdio: ['ignore', 'pipe', 'pipe'], signal, cwd: ROOT });
+		let output = '';
+		const keep = (chunk: Buffer) => (output = (output + chunk.toString()).slice(-8000));
+		child.stdout!.on('data', keep);
+		child.stderr!.on('data', keep);
+		child.once('error', failed);
+		child.once('close', (code) =>
+			code === 0 ? done() : failed(new Error(`${command} exited with ${code}:\n${output}`))
+		);
+	});
+}
+
+/** SIGTERM, then SIGKILL if the process is still there after 5 s; resolves once it has exited. */
+async function stopChild(child: ChildProcess | undefined): Promise<void> {
+	if (!child || child.exitCode !== null || child.signalCode !== null) return;
+	const exited = new Promise<void>((done) => child.once('exit', () => done()));
+	child.kill('SIGTERM');
+	const timer = setTimeout(() => child.kill('SIGKILL'), 5000);
+	await exited;
+	clearTimeout(timer);
+}
+
+async function startFakes(dataDir: string): Promise<ChildProcess> {
+	// Node itself with tsx's loader, not the tsx command, which would put a process in between
+	// and leave the CPU and memory readings below to the wrong one.
+	const child = spawn(
+		process.execPath,
+		['--import', 'tsx', import.meta.filename, '--fakes', dataDir],
+		{ stdio: ['pipe', 'pipe', 'inherit'], env: process.env, cwd: ROOT }
+	);
+	await new Promise<void>((ready, failed) => {
+		const lines = createInterface({ input: child.stdout! });
+		lines.on('line', (line) => {
+			if (line === 'fakes-ready') ready();
+			else console.log(`[fakes] ${line}`);
+		});
+		child.once('exit', (code) => failed(new Error(`the fakes exited at start (${code})`)));
+	});
+	return child;
+}
+
+type StorageModule = typeof import('../lib/server/storage');
+
+/** A ~100 MB object at the recording's rendition key, written from a file so nothing is buffered. */
+async function prepareRangeObject(
+	storageModule: StorageModule,
+	clinicId: string,
+	recordingId: string
+): Promise<{ key: string; sha256First: string }> {
+	const { recordingKeys } = await import('../lib/server/storage/keys');
+	const key = recordingKeys(clinicId, recordingId).rendition;
+	const path = join(process.env.MEDIA_WORK_DIR!, '..', 'range-object.bin');
+	await writeRandomFile(path, OBJECT_BYTES);
+	await storageModule.putObject(key, createReadStream(path), 'video/mp4', OBJECT_BYTES);
+	const hash = createHash('sha256');
+	await drain(createReadStream(path, { end: RANGE_BYTES - 1 }), hash);
+	await rm(path);
+	return { key, sha256First: hash.digest('hex') };
+}
+
+async function writeRandomFile(path: string, size: number): Promise<void> {
+	const out = createWriteStream(path);
+	const chunk = Buffer.alloc(MIB);
+	for (let written = 0; written < size; written += chunk.length) {
+		// Random bytes: nothing on the way can make the transfer cheaper by compressing it. Each
+		// write gets a copy, as the chunk is refilled while earlier writes may still be queued.
+		randomFillSync(chunk);
+		if (!out.write(Buffer.from(chunk.subarray(0, Math.min(chunk.length, size - written))))) {
+			await new Promise<void>((r) => out.once('drain', () => r()));
+		}
+	}
+	await new Promise<void>((done, failed) => {
+		out.once('error', failed);
+		out.end(() => done());
+	});
+}
+
+/** Seeds the demo scenario and adds a ready recording to the demo clinician's clinic. */
+async function seedRecording(): Promise<{ clinicId: string; recordingId: string }> {
+	const { seedDemo } = await import('../lib/server/demo/seed');
+	const { db, schema, closeDatabase } = await import('../lib/server/db');
+	const { eq } = await import('drizzle-orm');
+	await seedDemo();
+	const store = db();
+	const clinician = store.query.users
+		.findFirst({ where: eq(schema.users.email, BENCH_CLINICIAN) })
+		.sync();
+	const membership =
+		clinician &&
+		store.query.memberships
+			.findFirst({ where: eq(schema.memberships.userId, clinician.id) })
+			.sync();
+	if (!clinician || !membership) throw new Error(`The seed has no clinician ${BENCH_CLINICIAN}.`);
+	const recording = store
+		.insert(schema.recordings)
+		.values({
+			clinicId: membership.clinicId,
+			uploadedBy: clinician.id,
+			title: 'Benchmark object',
+			originalFilename: 'bench.mp4',
+			contentType: 'video/mp4',
+			sizeBytes: OBJECT_BYTES,
+			status: 'ready',
+			durationSeconds: 600,
+			width: 1280,
+			height: 720,
+			videoCodec: 'h264',
+			audioCodec: 'aac',
+			frameRate: 30,
+			hasAudio: true,
+			renditionSize: OBJECT_BYTES,
+			readyAt: new Date()
+		})
+		.returning()
+		.get();
+	// The app opens the file itself; two writers are not wanted while it starts.
+	closeDatabase();
+	return { clinicId: membership.clinicId, recordingId: recording.id };
+}
+
+const BENCH_CLINICIAN = 'clinician@alder-street.example';
+
+async function waitForHealth(): Promise<void> {
+	for (let i = 0; i < 150; i++) {
+		try {
+			const res = await fetch(`${APP_URL}/api/health`);
+			if (res.ok) return;
+		} catch {
+			// not listening yet
+		}
+		await new Promise((r) => setTimeout(r, 200));
+	}
+	throw new Error('the app did not report healthy within 30 s');
+}
+
+/** Signs in through the real password form action and returns the cookies it set. */
+async function signIn(): Promise<string> {
+	const { DEMO_PASSWORD } = await import('../lib/server/demo/seed');
+	const res = await fetch(`${APP_URL}/signin?/password`, {
+		method: 'POST',
+		redirect: 'manual',
+		headers: {
+			Origin: ORIGIN,
+			Accept: 'text/html',
+			'Content-Type': 'application/x-www-form-urlencoded'
+		},
+		body: new URLSearchParams({
+			providerId: 'credentials',
+			email: BENCH_CLINICIAN,
+			password: DEMO_PASSWORD,
+			redirectTo: '/home'
+		})
+	});
+	const cookies = res.headers.getSetCookie().map((c) => c.split(';')[0]);
+	if (res.status !== 303 || !cookies.some((c) => c.includes('session-token'))) {
+		throw new Error(`sign-in answered ${res.status} without a session cookie`);
+	}
+	return cookies.join('; ');
+}
+
+interface RunResult {
+	bytes: number;
+	seconds: number;
+	requests: number;
+}
+
+/**
+ * `clients` loops, each taking the next of a fixed set of ranges spread over the object, until
+ * `seconds` have passed; requests under way then finish, and the elapsed time runs until the
+ * last has. Every response must be a 206 of exactly the range's length.
+ */
+async function runClients(
+	clients: number,
+	seconds: number,
+	objectBytes: number,
+	fetchRange: (start: number, end: number) => Promise<number>
+): Promise<RunResult> {
+	const slots = 16;
+	const stride = Math.floor((objectBytes - RANGE_BYTES) / (slots - 1));
+	let next = 0;
+	let bytes = 0;
+	let requests = 0;
+	const started = performance.now();
+	const deadline = started + seconds * 1000;
+	await Promise.all(
+		Array.from({ length: clients }, async () => {
+			while (performance.now() < deadline) {
+				const start = (next++ % slots) * stride;
+				const end = start + RANGE_BYTES - 1;
+				const got = await fetchRange(start, end);
+				if (got !== RANGE_BYTES) throw new Error(`range ${start}-${end} gave ${got} bytes`);
+				bytes += got;
+				requests++;
+			}
+		})
+	);
+	return { bytes, requests, seconds: (performance.now() - started) / 1000 };
+}
+
+async function drain(body: Readable, hash?: ReturnType<typeof createHash>): Promise<number> {
+	let n = 0;
+	for await (const chunk of body as AsyncIterable<Buffer>) {
+		n += chunk.length;
+		hash?.update(chunk);
+	}
+	return n;
+}
+
+function readStatus(pid: number): { rss: number; hwm: number } {
+	const text = readFileSync(`/proc/${pid}/status`, 'utf8');
+	const kb = (field: string) => Number(new RegExp(`^${field}:\\s+(\\d+) kB`, 'm').exec(text)?.[1]);
+	return { rss: kb('VmRSS') * 1024, hwm: kb('VmHWM') * 1024 };
+}
+
+/** CPU seconds (user + system) a process has used so far. */
+function cpuSeconds(pid: number): number {
+	const fields = readFileSync(`/proc/${pid}/stat`, 'utf8').split(') ')[1].split(' ');
+	// utime and stime are fields 14 and 15 of stat(5), counted here from field 3, in 1/100 s.
+	return (Number(fields[11]) + Number(fields[12])) / 100;
+}
+
+interface CpuUse {
+	app: number;
+	storage: number;
+	clients: number;
+}
+
+/** Runs `work` and reports the CPU seconds each process spent on it. */
+async function measureCpu<T>(
+	pids: { app: number; fakes: number },
+	work: () => Promise<T>
+): Promise<[T, CpuUse]> {
+	const self = () => {
+		const u = process.cpuUsage();
+		return (u.user + u.system) / 1e6;
+	};
+	const before = { app: cpuSeconds(pids.app), storage: cpuSeconds(pids.fakes), clients: self() };
+	const result = await work();
+	return [
+		result,
+		{
+			app: cpuSeconds(pids.app) - before.app,
+			storage: cpuSeconds(pids.fakes) - before.storage,
+			clients: self() - before.clients
+		}
+	];
+}
+
+const notes: string[] = [];
+
+function combine(runs: [RunResult, CpuUse][]): [RunResult, CpuUse] {
+	const sum = (pick: (r: [RunResult, CpuUse]) => number) => runs.reduce((t, r) => t + pick(r), 0);
+	return [
+		{
+			bytes: sum(([r]) => r.bytes),
+			seconds: sum(([r]) => r.seconds),
+			requests: sum(([r]) => r.requests)
+		},
+		{
+			app: sum(([, c]) => c.app),
+			storage: sum(([, c]) => c.storage),
+			clients: sum(([, c]) => c.clients)
+		}
+	];
+}
+
+async function benchRanges({
+	key,
+	recordingId,
+	cookie,
+	appPid,
+	fakesPid,
+	idleRss,
+	seconds,
+	sha256First
+}: {
+	key: string;
+	recordingId: string;
+	cookie: string;
+	appPid: number;
+	fakesPid: number;
+	idleRss: number;
+	seconds: number;
+	sha256First: string;
+}): Promise<Row[]> {
+	const { S3Client, GetObjectCommand } = await import('@aws-sdk/client-s3');
+	// Both paths use Node's own HTTP client with keep-alive and room for every client, so the
+	// comparison is between servers, not between client libraries or connection limits.
+	const agent = () => new Agent({ keepAlive: true, maxSockets: 64 });
+	const s3 = new S3Client({
+		region: 'us-east-1',
+		endpoint: STORAGE_URL,
+		forcePathStyle: true,
+		credentials: { accessKeyId: KEY_ID, secretAccessKey: KEY_ID },
+		requestChecksumCalculation: 'WHEN_REQUIRED',
+		responseChecksumValidation: 'WHEN_REQUIRED',
+		requestHandler: { httpAgent: agent() }
+	});
+	const appAgent = agent();
+	const path = `/api/recordings/${recordingId}/media/rendition.mp4`;
+
+	const direct = async (start: number, end: number, hash?: ReturnType<typeof createHash>) => {
+		const out = await s3.send(
+			new GetObjectCommand({ Bucket: BUCKET, Key: key, Range: `bytes=${start}-${end}` })
+		);
+		return drain(out.Body as Readable, hash);
+	};
+	const viaApp = (start: number, end: number, hash?: ReturnType<typeof createHash>) =>
+		new Promise<number>((done, failed) => {
+			const req = httpRequest(
+				`${APP_URL}${path}`,
+				{ agent: appAgent, headers: { Cookie: cookie, Range: `bytes=${start}-${end}` } },
+				(res) => {
+					if (res.statusCode !== 206) {
+						res.resume();
+						failed(new Error(`the media endpoint answered ${res.statusCode}, not 206`));
+						return;
+					}
+					drain(res, hash).then(done, failed);
+				}
+			);
+			req.on('error', failed);
+			req.end();
+		});
+
+	// Both paths must hand back the stored bytes before their speed means anything.
+	for (const [name, read] of [
+		['storage', direct],
+		['app', viaApp]
+	] as const) {
+		const hash = createHash('sha256');
+		await read(0, RANGE_BYTES - 1, hash);
+		if (hash.digest('hex') !== sha256First) {
+			throw new Error(
+				`the first ${RANGE_BYTES} bytes read through ${name} differ from the stored ones`
+			);
+		}
+	}
+	// Warm-up: first requests pay for connections, JIT and the page cache.
+	await runClients(4, 1, OBJECT_BYTES, direct);
+	await runClients(4, 1, OBJECT_BYTES, viaApp);
+
+	let peakRss = readStatus(appPid).rss;
+	const sampler = setInterval(() => {
+		try {
+			peakRss = Math.max(peakRss, readStatus(appPid).rss);
+		} catch {
+			// the process is gone; its exit is reported elsewhere
+		}
+	}, 50);
+
+	const rows: Row[] = [];
+	try {
+		for (const clients of CONCURRENCIES) {
+			console.log(`(a) ${RANGE_BYTES / MIB} MiB ranges, ${clients} client(s), ${seconds} s each…`);
+			const pids = { app: appPid, fakes: fakesPid };
+			// Two halves each, in the order direct, app, app, direct: load that comes and goes on a
+			// shared machine then weighs on both ways alike instead of on whichever ran second.
+			const runs = { direct: [] as [RunResult, CpuUse][], app: [] as [RunResult, CpuUse][] };
+			for (const way of ['direct', 'app', 'app', 'direct'] as const) {
+				runs[way].push(
+					await measureCpu(pids, () =>
+						runClients(clients, seconds / 2, OBJECT_BYTES, way === 'direct' ? direct : viaApp)
+					)
+				);
+			}
+			const [ref, refCpu] = combine(runs.direct);
+			const [got, gotCpu] = combine(runs.app);
+			// CPU per GB moved shows where the time goes once the two cores are the limit.
+			const perGb = (cpu: CpuUse, run: RunResult) => {
+				const gb = run.bytes / 1e9;
+				const busy = (cpu.app + cpu.storage + cpu.clients) / run.seconds;
+				return `app ${(cpu.app / gb).toFixed(2)}, storage ${(cpu.storage / gb).toFixed(2)}, clients ${(cpu.clients / gb).toFixed(2)} CPU s/GB; ${busy.toFixed(2)} of 2 cores busy`;
+			};
+			notes.push(
+				`(a) ${clients} client(s), direct: ${perGb(refCpu, ref)}`,
+				`(a) ${clients} client(s), via app: ${perGb(gotCpu, got)}; app VmRSS max so far ${(peakRss / MB).toFixed(0)} MB`
+			);
+			const refRate = ref.bytes / ref.seconds / MB;
+			const gotRate = got.bytes / got.seconds / MB;
+			const ratio = gotRate / refRate;
+			rows.push({
+				figure: `(a) byte ranges, ${clients} client${clients === 1 ? '' : 's'}`,
+				measured: `${gotRate.toFixed(0)} MB/s (${got.requests} req)`,
+				reference: `${refRate.toFixed(0)} MB/s (${ref.requests} req)`,
+				result: `ratio ${ratio.toFixed(2)}`,
+				goal: '≥ 0.80',
+				pass: ratio >= 0.8
+			});
+		}
+	} finally {
+		clearInterval(sampler);
+	}
+	const after = readStatus(appPid);
+	peakRss = Math.max(peakRss, after.rss);
+	appAgent.destroy();
+	s3.destroy();
+	rows.push({
+		figure: '(d) app peak memory during (a)',
+		measured: `VmHWM ${(after.hwm / MB).toFixed(0)} MB (${(after.hwm / MIB).toFixed(0)} MiB)`,
+		reference: `VmRSS ${(idleRss / MB).toFixed(0)} MB idle, max ${(peakRss / MB).toFixed(0)} MB in (a)`,
+		result: `${(after.hwm / MB).toFixed(0)} MB`,
+		goal: '< 200 MB',
+		pass: after.hwm < 200 * MB
+	});
+	return rows;
+}
+
+async function benchRendition(dataDir: string, signal: AbortSignal): Promise<Row> {
+	const { ffmpegPath } = await import('../lib/server/media/ffmpeg');
+	const { makeRendition } = await import('../lib/server/media/outputs');
+	const { probeFile } = await import('../lib/server/media/probe');
+	const source = join(dataDir, 'clip-720p.mp4');
+	const output = join(dataDir, 'clip-rendition.mp4');
+	console.log(`(b) generating a ${CLIP_SECONDS} s 1280×720@30 clip…`);
+	// A camera-like source: H.264 at a high bitrate with AAC sound, as a phone would record it.
+	const args = [
+		'-hide_banner',
+		'-loglevel',
+		'error',
+		'-y',
+		'-f',
+		'lavfi',
+		'-i',
+		`testsrc2=size=1280x720:rate=30:duration=${CLIP_SECONDS}`,
+		'-f',
+		'lavfi',
+		'-i',
+		`sine=frequency=440:sample_rate=48000:duration=${CLIP_SECONDS}`,
+		'-c:v',
+		'libx264',
+		'-preset',
+		'ultrafast',
+		'-crf',
+		'18',
+		'-pix_fmt',
+		'yuv420p',
+		'-c:a',
+		'aac',
+		'-b:a',
+		'192k',
+		'-shortest',
+		source
+	];
+	await runCommand(ffmpegPath(), args, signal);
+	const probe = await probeFile(source);
+	console.log('(b) encoding the web rendition with makeRendition…');
+	const started = performance.now();
+	// As the job runs it: the probe's frame rate is passed, so no second probe is timed.
+	await makeRendition(source, output, {
+		durationSeconds: probe.durationSeconds,
+		frameRate: probe.video?.frameRate,
+		signal
+	});
+	const elapsed = (performance.now() - started) / 1000;
+	const rendition = await probeFile(output);
+	const speed = probe.durationSeconds / elapsed;
+	await rm(source, { force: true });
+	await rm(output, { force: true });
+	return {
+		figure: '(b) 720p rendition encoding',
+		measured: `${elapsed.toFixed(1)} s wall`,
+		reference: `${probe.durationSeconds.toFixed(1)} s clip → ${rendition.durationSeconds.toFixed(1)} s`,
+		result: `${speed.toFixed(2)}× real time`,
+		goal: '≥ 3.00×',
+		pass: speed >= 3
+	};
+}
+
+async function benchUpload(storageModule: StorageModule): Promise<Row[]> {
+	const multipart = await import('../lib/server/storage/multipart');
+	// Random bytes made once and shared by both ways, so both send exactly the same thing.
+	const bytes = randomFillSync(Buffer.alloc(UPLOAD_BYTES));
+	const sha256 = createHash('sha256').update(bytes).digest('hex');
+	const partSize = multipart.choosePartSize(bytes.length);
+	const parts = multipart.partCount(bytes.length, partSize);
+
+	async function verify(key: string) {
+		const object = await storageModule.getObjectStream(key);
+		if (!object) throw new Error(`${key} is missing after its upload`);
+		const hash = createHash('sha256');
+		const size = await drain(object.body, hash);
+		if (size !== bytes.length || hash.digest('hex') !== sha256) {
+			throw new Error(`${key} does not hold the uploaded bytes (${size} bytes read back)`);
+		}
+	}
+
+	const completeTimes: number[] = [];
+	async function viaParts(key: string): Promise<number> {
+		const started = performance.now();
+		const uploadId = await multipart.createMultipartUpload(key, 'video/mp4');
+		const stored: { partNumber: number; etag: string; size: number }[] = [];
+		let next = 1;
+		await Promise.all(
+			Array.from({ length: UPLOAD_PARALLEL }, async () => {
+				while (next <= parts) {
+					const partNumber = next++;
+					const url = await multipart.presignPart(key, uploadId, partNumber);
+					const body = bytes.subarray((partNumber - 1) * partSize, partNumber * partSize);
+					const res = await fetch(url, { method: 'PUT', body });
+					const etag = res.headers.get('etag');
+					await res.arrayBuffer();
+					if (!res.ok || !etag) throw new Error(`part ${partNumber}: HTTP ${res.status}`);
+					stored.push({ partNumber, etag, size: body.length });
+				}
+			})
+		);
+		stored.sort((a, b) => a.partNumber - b.partNumber);
+		const completing = performance.now();
+		await multipart.completeMultipartUpload(key, uploadId, stored);
+		completeTimes.push((performance.now() - completing) / 1000);
+		return (performance.now() - started) / 1000;
+	}
+
+	async function viaPut(key: string): Promise<number> {
+		const started = performance.now();
+		await storageModule.putObject(key, bytes, 'video/mp4');
+		return (performance.now() - started) / 1000;
+	}
+
+	const partTimes: number[] = [];
+	const putTimes: number[] = [];
+	for (let round = 1; round <= UPLOAD_ROUNDS; round++) {
+		console.log(`(c) ${UPLOAD_BYTES / MIB} MiB upload, round ${round} of ${UPLOAD_ROUNDS}…`);
+		// Alternating which goes first keeps a warming disk cache from favouring one way.
+		const order = round % 2 ? (['parts', 'put'] as const) : (['put', 'parts'] as const);
+		for (const way of order) {
+			const key = `bench/upload-${way}-${round}`;
+			if (way === 'parts') partTimes.push(await viaParts(key));
+			else putTimes.push(await viaPut(key));
+			if (round === 1) await verify(key);
+			await storageModule.deleteObject(key);
+		}
+	}
+	const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
+	const partRate = bytes.length / median(partTimes) / MB;
+	const putRate = bytes.length / median(putTimes) / MB;
+	const ratio = partRate / putRate;
+	const completeShare = median(completeTimes) / median(partTimes);
+	// Completing is storage's own work (the local fake copies every part into a new file and
+	// hashes it); the parts alone show what the presigned path itself costs.
+	const sendingRatio = median(putTimes) / (median(partTimes) - median(completeTimes));
+	notes.push(
+		`(c) parts ${partTimes.map((t) => t.toFixed(2)).join('/')} s, of which completing ` +
+			`${completeTimes.map((t) => t.toFixed(2)).join('/')} s (${(completeShare * 100).toFixed(0)}% of the median); ` +
+			`PutObject ${putTimes.map((t) => t.toFixed(2)).join('/')} s; ` +
+			`sending the parts alone vs PutObject: ratio ${sendingRatio.toFixed(2)}`
+	);
+	return [
+		{
+			figure: `(c) upload, ${parts} presigned parts ×${UPLOAD_PARALLEL}`,
+			measured: `${partRate.toFixed(0)} MB/s`,
+			reference: `${putRate.toFixed(0)} MB/s PutObject`,
+			result: `ratio ${ratio.toFixed(2)}`,
+			goal: '≥ 0.80',
+			pass: ratio >= 0.8
+		}
+	];
+}
+
+function printTable(rows: Row[], loadStart: number): void {
+	const header: Row = {
+		figure: 'figure',
+		measured: 'Kinelume',
+		reference: 'reference (same run)',
+		result: 'result',
+		goal: 'goal',
+		pass: null
+	};
+	const cells = (r: Row) => [
+		r.figure,
+		r.measured,
+		r.reference,
+		r.result,
+		r.goal,
+		r.pass === null ? 'verdict' : r.pass ? 'PASS' : 'MISSED'
+	];
+	const all = [header, ...rows].map(cells);
+	const widths = all[0].map((_, i) => Math.max(...all.map((c) => c[i].length)));
+	const line = (c: string[]) => c.map((v, i) => v.padEnd(widths[i])).join('  ');
+	console.log(
+		`\nKinelume media benchmark (MB = 10^6 bytes; ranges of ${RANGE_BYTES / MIB} MiB over a 100 MiB object)\n`
+	);
+	console.log(line(all[0]));
+	console.log(widths.map((w) => '-'.repeat(w)).join('  '));
+	for (const c of all.slice(1)) console.log(line(c));
+	console.log('\nWhere the time went:');
+	for (const note of notes) console.log(`  ${note}`);
+	const [loadEnd] = loadavg();
+	console.log(
+		`  load average ${loadStart.toFixed(2)} at the start, ${loadEnd.toFixed(2)} at the end` +
+			(loadStart > 0.5 ? ' (other work was running: figures are less reliable)' : '')
+	);
+	const missed = rows.filter((r) => r.pass === false).length;
+	console.log(
+		`\n${missed === 0 ? 'Every goal met.' : `${missed} of ${rows.length} goals missed.`} ` +
+			'A measurement, not a test: the exit code does not depend on the goals.'
+	);
+}
+
+// Last, so that every constant above is initialised before either mode runs.
+/*
+ * The fakes run in a child process of their own (this file again, with --fakes). In this process
+ * the storage fake would share one event loop with the benchmark's clients, so the direct
+ * reference would be slowed by its own client and the ratio would flatter the app.
+ */
+if (process.argv.includes('--fakes')) {
+	await runFakes(process.argv[process.argv.indexOf('--fakes') + 1]);
+} else {
+	await main();
+}

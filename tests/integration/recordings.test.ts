@@ -1,0 +1,386 @@
+import { fakesDirectory } from './env';
+import { execFileSync } from 'node:child_process';
+import { createHash, randomBytes } from 'node:crypto';
+import { mkdtemp, readFile, rm, stat, truncate, writeFile } from 'node:fs/promises';
+import { join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { makeClip } from './recordings-support';
+
+// A database of this file's own, chosen before any app module reads the configuration.
+process.env.DATABASE_PATH = join(fakesDirectory, `recordings-${process.pid}.db`);
+process.env.JOB_RETRY_BASE_SECONDS = '0';
+
+const { db, schema } = await import('$lib/server/db');
+const { eq } = await import('drizzle-orm');
+const uploads = await import('$lib/server/recordings/uploads');
+const recordings = await import('$lib/server/recordings');
+const queue = await import('$lib/server/jobs/queue');
+const { startWorker } = await import('$lib/server/jobs/worker');
+const { HANDLERS } = await import('$lib/server/jobs');
+const { getObjectStream, headObject, storage, bucketName } = await import('$lib/server/storage');
+const { recordingKeys } = await import('$lib/server/storage/keys');
+const multipart = await import('$lib/server/storage/multipart');
+const { ListObjectsCommand } = await import('@aws-sdk/client-s3');
+
+const MiB = 1024 * 1024;
+let dir: string;
+const owner = { id: crypto.randomUUID(), clinicId: crypto.randomUUID() };
+
+function sha256(data: Uint8Array): string {
+	return createHash('sha256').update(data).digest('hex');
+}
+
+async function storedKeys(prefix: string): Promise<string[]> {
+	const page = await storage().send(
+		new ListObjectsCommand({ Bucket: bucketName(), Prefix: prefix })
+	);
+	return (page.Contents ?? []).flatMap((o) => (o.Key ? [o.Key] : []));
+}
+
+async function clinicObjects(): Promise<string[]> {
+	return storedKeys(`clinics/${owner.clinicId}/`);
+}
+
+async function openUploadsInStorage(): Promise<number> {
+	return (await multipart.listMultipartUploads(`clinics/${owner.clinicId}/`)).length;
+}
+
+/** Sends a file the way the browser does: presigned part URLs and plain fetch PUTs. */
+async function sendThroughPresignedParts(
+	session: { id: string; partSize: number; partCount: number },
+	bytes: Uint8Array<ArrayBuffer>,
+	skip: number[] = []
+) {
+	const numbers = Array.from({ length: session.partCount }, (_, i) => i + 1).filter(
+		(n) => !skip.includes(n)
+	);
+	const urls = await uploads.presignParts(owner, session.id, numbers);
+	for (const { partNumber, url } of urls) {
+		const start = (partNumber - 1) * session.partSize;
+		const response = await fetch(url, {
+			method: 'PUT',
+			body: bytes.subarray(start, start + session.partSize)
+		});
+		expect(response.status, `part ${partNumber}`).toBe(200);
+	}
+}
+
+async function uploadFile(path: string, filename: string, contentType = 'video/mp4') {
+	const bytes = new Uint8Array(await readFile(path));
+	const session = await uploads.createUpload(owner, {
+		filename,
+		contentType,
+		sizeBytes: bytes.length
+	});
+	await sendThroughPresignedParts(session, bytes);
+	return session;
+}
+
+async function waitFor<T>(
+	what: string,
+	check: () => T | null | undefined | false,
+	ms = 60_000
+): Promise<T> {
+	const until = Date.now() + ms;
+	for (;;) {
+		const value = check();
+		if (value) return value;
+		if (Date.now() > until) throw new Error(`Timed out waiting for ${what}`);
+		await new Promise((r) => setTimeout(r, 100));
+	}
+}
+
+beforeAll(async () => {
+	dir = await mkdtemp(join(fakesDirectory, 'recordings-'));
+	db().insert(schema.clinics).values({ id: owner.clinicId, name: 'Test clinic' }).run();
+	db()
+		.insert(schema.users)
+		.values({ id: owner.id, email: `${owner.id}@example.test`, name: 'Test clinician' })
+		.run();
+	await makeClip(join(dir, 'clip.mp4'), { seconds: 4 });
+	await makeClip(join(dir, 'long.mp4'), { seconds: 30, size: '1280x720' });
+}, 120_000);
+
+afterAll(async () => {
+	await rm(dir, { recursive: true, force: true });
+});
+
+describe('multipart upload through presigned URLs', () => {
+	it('stores the bytes exactly (SHA-256 on read-back) and resumes without the stored parts', async () => {
+		const bytes = new Uint8Array(randomBytes(17 * MiB + 12345));
+		const session = await uploads.createUpload(owner, {
+			filename: 'big.mp4',
+			contentType: 'video/mp4',
+			sizeBytes: bytes.length
+		});
+		expect(session.partSize).toBe(8 * MiB);
+		expect(session.partCount).toBe(3);
+
+		await sendThroughPresignedParts(session, bytes, [2, 3]);
+		const half = await uploads.uploadState(owner, session.id);
+		expect(half.parts.map((p) => p.partNumber)).toEqual([1]);
+		await sendThroughPresignedParts(session, bytes, [1]);
+		const full = await uploads.uploadState(owner, session.id);
+		expect(full.parts.map((p) => p.size)).toEqual([8 * MiB, 8 * MiB, bytes.length - 16 * MiB]);
+
+		const upload = uploads.findUpload(owner, session.id);
+		await multipart.completeMultipartUpload(upload.objectKey, upload.s3UploadId, full.parts);
+		const object = await getObjectStream(upload.objectKey);
+		const hash = createHash('sha256');
+		for await (const chunk of object!.body) hash.update(chunk as Buffer);
+		expect(hash.digest('hex')).toBe(sha256(bytes));
+
+		await storage().send(
+			new (await import('@aws-sdk/client-s3')).DeleteObjectCommand({
+				Bucket: bucketName(),
+				Key: upload.objectKey
+			})
+		);
+		db().delete(schema.uploads).where(eq(schema.uploads.id, session.id)).run();
+	});
+
+	it('chooses parts of at least 8 MiB and never more than 10 000 of them', () => {
+		expect(multipart.choosePartSize(1)).toBe(8 * MiB);
+		const size = 2 * 1024 ** 3;
+		const part = multipart.choosePartSize(size);
+		expect(part).toBeGreaterThanOrEqual(8 * MiB);
+		expect(multipart.partCount(size, part)).toBeLessThanOrEqual(10_000);
+		expect(
+			multipart.partCount(200_000 * MiB, multipart.choosePartSize(200_000 * MiB))
+		).toBeLessThanOrEqual(10_000);
+	});
+
+	it('aborts an upload and frees its parts', async () => {
+		const session = await uploads.createUpload(owner, {
+			filename: 'gone.mov',
+			contentType: '',
+			sizeBytes: 1000
+		});
+		await sendThroughPresignedParts(session, new Uint8Array(1000));
+		await uploads.abortUpload(owner, session.id);
+		expect(await openUploadsInStorage()).toBe(0);
+		expect(db().select().from(schema.uploads).all()).toEqual([]);
+	});
+
+	it('sweeps uploads idle for longer than the limit, with their parts', async () => {
+		const session = await uploads.createUpload(owner, {
+			filename: 'idle.mp4',
+			contentType: 'video/mp4',
+			sizeBytes: 500
+		});
+		await sendThroughPresignedParts(session, new Uint8Array(500));
+		const later = new Date(Date.now() + 25 * 3600 * 1000);
+		expect(await uploads.sweepUploads(later)).toBeGreaterThanOrEqual(1);
+		expect(db().select().from(schema.uploads).all()).toEqual([]);
+		expect(await openUploadsInStorage()).toBe(0);
+	});
+});
+
+describe('refusals leave nothing behind', () => {
+	async function expectRefused(path: string, filename: string, pattern: RegExp) {
+		const session = await uploadFile(path, filename);
+		await expect(uploads.completeUpload(owner, session.id)).rejects.toMatchObject({
+			status: 422,
+			message: expect.stringMatching(pattern)
+		});
+		expect(await clinicObjects()).toEqual([]);
+		expect(await openUploadsInStorage()).toBe(0);
+		expect(db().select().from(schema.uploads).all()).toEqual([]);
+		expect(db().select().from(schema.recordings).all()).toEqual([]);
+		expect(db().select().from(schema.jobs).all()).toEqual([]);
+	}
+
+	it('refuses a text file renamed .mp4', async () => {
+		await writeFile(join(dir, 'notes.mp4'), 'Knee flexion: 3 sets of 10.\n'.repeat(200));
+		await expectRefused(
+			join(dir, 'notes.mp4'),
+			'notes.mp4',
+			/could not read|contents are something else/
+		);
+	});
+
+	it('refuses a truncated MP4', async () => {
+		const { size } = await stat(join(dir, 'clip.mp4'));
+		await writeFile(join(dir, 'cut.mp4'), await readFile(join(dir, 'clip.mp4')));
+		await truncate(join(dir, 'cut.mp4'), Math.floor(size / 2));
+		await expectRefused(join(dir, 'cut.mp4'), 'cut.mp4', /could not read|no length|no picture/);
+	});
+
+	it('refuses a zero-byte file before anything is stored', async () => {
+		await expect(
+			uploads.createUpload(owner, { filename: 'empty.mp4', contentType: 'video/mp4', sizeBytes: 0 })
+		).rejects.toMatchObject({ status: 422, message: expect.stringMatching(/empty/) });
+		expect(await clinicObjects()).toEqual([]);
+		expect(await openUploadsInStorage()).toBe(0);
+		expect(db().select().from(schema.uploads).all()).toEqual([]);
+	});
+
+	it('keeps a session whose parts have not all arrived (409), so they can still be sent', async () => {
+		const bytes = new Uint8Array(await readFile(join(dir, 'clip.mp4')));
+		const session = await uploads.createUpload(owner, {
+			filename: 'wait.mp4',
+			contentType: 'video/mp4',
+			sizeBytes: bytes.length
+		});
+		await expect(uploads.completeUpload(owner, session.id)).rejects.toMatchObject({ status: 409 });
+		expect(uploads.findUpload(owner, session.id).id).toBe(session.id);
+		await uploads.abortUpload(owner, session.id);
+	});
+});
+
+describe('processing', () => {
+	it('accepts a real clip and its job makes rendition, three posters, sprite and waveform', async () => {
+		const session = await uploadFile(join(dir, 'clip.mp4'), 'Heel slides.mp4');
+		const recording = await uploads.completeUpload(owner, session.id);
+		expect(recording.status).toBe('processing');
+		expect(recording.durationSeconds).toBeCloseTo(4, 0);
+		expect(recording.width).toBe(320);
+		expect(recording.title).toBe('Heel slides');
+		expect(db().select().from(schema.uploads).all()).toEqual([]);
+
+		const worker = startWorker({
+			handlers: HANDLERS,
+			heartbeatSeconds: 0.2,
+			pollMs: 100,
+			log: () => {}
+		});
+		try {
+			const ready = await waitFor('ready', () => {
+				const r = recordings.findRecording(owner.clinicId, recording.id);
+				return r?.status !== 'processing' && r;
+			});
+			expect(ready.failureReason).toBeNull();
+			expect(ready.status).toBe('ready');
+			expect(ready.posterCount).toBe(3);
+			expect(ready.sprite?.count).toBeGreaterThan(0);
+			const keys = recordingKeys(owner.clinicId, recording.id);
+			const stored = await storedKeys(keys.prefix);
+			expect(stored.sort()).toEqual(
+				[
+					keys.original,
+					keys.rendition,
+					keys.sprite,
+					keys.waveform,
+					keys.poster(0),
+					keys.poster(1),
+					keys.poster(2)
+				].sort()
+			);
+			expect((await headObject(keys.rendition))?.contentLength).toBe(ready.renditionSize);
+			const job = queue.latestJobFor(recording.id);
+			expect(job).toMatchObject({ status: 'succeeded', progress: 1, attempts: 1 });
+		} finally {
+			await worker.stop();
+		}
+
+		await recordings.deleteRecording(recordings.findRecording(owner.clinicId, recording.id)!);
+		expect(await clinicObjects()).toEqual([]);
+		expect(db().select().from(schema.jobs).all()).toEqual([]);
+	}, 120_000);
+
+	it('retries a job whose ffmpeg is killed mid-run, and finishes', async () => {
+		const session = await uploadFile(join(dir, 'long.mp4'), 'long.mp4');
+		const recording = await uploads.completeUpload(owner, session.id);
+		const worker = startWorker({
+			handlers: HANDLERS,
+			heartbeatSeconds: 0.2,
+			pollMs: 100,
+			retryBaseSeconds: 0,
+			log: () => {}
+		});
+		try {
+			await waitFor('the rendition to start', () => {
+				const job = queue.latestJobFor(recording.id);
+				return job?.stage === 'rendition' && job.progress > 0.09 && job;
+			});
+			// The rendition's ffmpeg is this process's child, reading the job's scratch copy.
+			const pids = execFileSync('pgrep', ['-f', 'kinelume-job-.*original'], { encoding: 'utf8' })
+				.split('\n')
+				.filter(Boolean)
+				.map(Number)
+				.filter((pid) => pid !== process.pid);
+			expect(pids.length).toBeGreaterThan(0);
+			for (const pid of pids) {
+				try {
+					process.kill(pid, 'SIGKILL');
+				} catch {
+					// Already gone.
+				}
+			}
+			const ready = await waitFor(
+				'ready after the retry',
+				() => {
+					const r = recordings.findRecording(owner.clinicId, recording.id);
+					return r?.status !== 'processing' && r;
+				},
+				180_000
+			);
+			expect(ready.status).toBe('ready');
+			const job = queue.latestJobFor(recording.id)!;
+			expect(job.status).toBe('succeeded');
+			expect(job.attempts).toBe(2);
+			expect(job.lastError).toBeTruthy();
+		} finally {
+			await worker.stop();
+		}
+		await recordings.deleteRecording(recordings.findRecording(owner.clinicId, recording.id)!);
+	}, 240_000);
+
+	it('queues a running job again when its heartbeat went stale (its process died)', () => {
+		const recording = db()
+			.insert(schema.recordings)
+			.values({
+				clinicId: owner.clinicId,
+				title: 'Orphan',
+				originalFilename: 'orphan.mp4',
+				contentType: 'video/mp4',
+				sizeBytes: 1,
+				durationSeconds: 1,
+				width: 2,
+				height: 2,
+				videoCodec: 'h264'
+			})
+			.returning()
+			.get();
+		const job = queue.enqueue({ kind: 'process-recording', recordingId: recording.id });
+		const claimed = queue.claim('dead-worker');
+		expect(claimed?.id).toBe(job.id);
+		expect(queue.claim('other-worker')).toBeNull();
+		db()
+			.update(schema.jobs)
+			.set({ heartbeatAt: new Date(Date.now() - 120_000) })
+			.where(eq(schema.jobs.id, job.id))
+			.run();
+		expect(queue.recoverStale(60)).toBe(1);
+		const after = queue.latestJobFor(recording.id)!;
+		expect(after).toMatchObject({ status: 'queued', lockedBy: null, attempts: 0 });
+		expect(queue.claim('live-worker')?.lockedBy).toBe('live-worker');
+		db().delete(schema.recordings).where(eq(schema.recordings.id, recording.id)).run();
+	});
+
+	it('cancels a queued job and re-queues it on retry', () => {
+		const recording = db()
+			.insert(schema.recordings)
+			.values({
+				clinicId: owner.clinicId,
+				title: 'C',
+				originalFilename: 'c.mp4',
+				contentType: 'video/mp4',
+				sizeBytes: 1,
+				durationSeconds: 1,
+				width: 2,
+				height: 2,
+				videoCodec: 'h264'
+			})
+			.returning()
+			.get();
+		queue.enqueue({ kind: 'process-recording', recordingId: recording.id });
+		expect(recordings.cancelProcessing(recording)).toBe(true);
+		const cancelled = recordings.findRecording(owner.clinicId, recording.id)!;
+		expect(cancelled.status).toBe('failed');
+		expect(cancelled.failureReason).toMatch(/cancelled/);
+		expect(recordings.retryProcessing(cancelled)).toBe(true);
+		expect(queue.latestJobFor(recording.id)).toMatchObject({ status: 'queued', attempts: 0 });
+		db().delete(schema.recordings).where(eq(schema.recordings.id, recording.id)).run();
+	});
+});
