@@ -1,6 +1,6 @@
 /**
  * Conformance: every case converted from web-platform-tests webvtt/parsing/file-parsing
- * (../shared/testdata/webvtt-wpt, 3-Clause BSD), run through Kinelume's own decodeCaptionFile and
+ * (copied into tests/data/webvtt-wpt from the team's shared test data, 3-Clause BSD), run through Kinelume's own decodeCaptionFile and
  * parseVtt. The upstream tests read a browser's TextTrack, so cues are compared in text track cue
  * order and through the TextTrackCue defaults that the data's README lists.
  */
@@ -12,8 +12,8 @@ import { decodeCaptionFile } from './decode';
 import type { Cue } from './types';
 import { parseVtt, sortCues, type Region } from './vtt';
 
-// The shared folder sits beside the repository: /work/main and /work/shared.
-const DATA = fileURLToPath(new URL('../../../../shared/testdata/webvtt-wpt/', import.meta.url));
+// A copy kept in the repository, so the conformance cases run on any clean clone.
+const DATA = fileURLToPath(new URL('../../../tests/data/webvtt-wpt/', import.meta.url));
 
 interface ExpectedCue {
 	index: number;
