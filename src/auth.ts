@@ -89,6 +89,14 @@ export const {
 			return session;
 		}
 	},
+	logger: {
+		// A wrong password or a spent link is an expected answer, already shown to the person and
+		// audited; logging each as an error would bury the real ones.
+		error(error) {
+			if (error.name === 'CredentialsSignin' || error.name === 'Verification') return;
+			console.error('[auth]', error);
+		}
+	},
 	events: {
 		signIn({ user, account }) {
 			const principal = user.id ? loadPrincipal(user.id) : null;
