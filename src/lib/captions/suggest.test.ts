@@ -86,6 +86,20 @@ describe('suggestBoundaries on synthetic signals alone', () => {
 		expect(out).toMatchObject([{ time: 11, score: 0.545 }]);
 	});
 
+	it('places a boundary on a scene change a frame after the silence ends', () => {
+		// The first frame at or after a cut at 50.2 s is at 50.25 s at 8 fps; the sound resumes at 50.2 s.
+		const out = suggestBoundaries(
+			{
+				cues: none,
+				silences: [{ start: 45.1, end: 50.2 }],
+				sceneChanges: [50.25],
+				durationSeconds: 100
+			},
+			{ language: 'en' }
+		);
+		expect(out.map((s) => s.time)).toEqual([50.25]);
+	});
+
 	it('merges signals within 1.5 s and keeps the boundary inside the silence', () => {
 		const out = suggestBoundaries(
 			{
@@ -133,6 +147,15 @@ describe('suggestBoundaries on synthetic signals alone', () => {
 			{ language: 'en', minSegmentSeconds: 5 }
 		);
 		expect(out.map((s) => s.time)).toEqual([11]);
+	});
+
+	it('reads no count into a hyphenated compound such as "first-week"', () => {
+		const cues = [cue(10, 14, 'These are your first-week knee exercises.')];
+		const out = suggestBoundaries(
+			{ cues, silences: [], sceneChanges: [], durationSeconds: 60 },
+			{ language: 'en', minScore: 0 }
+		);
+		expect(out).toEqual([]);
 	});
 
 	it('uses a clinic’s own word lists', () => {

@@ -159,7 +159,8 @@ interface Phrase {
 function phrases(list: readonly string[]): Phrase[] {
 	return list.map(normalise).map((words) => ({
 		words,
-		pattern: new RegExp(`(^|[^\\p{L}'])${escape(words)}(?![\\p{L}])`, 'u')
+		// A hyphen after the phrase makes a compound ("first-week exercises"), not a count.
+		pattern: new RegExp(`(^|[^\\p{L}'])${escape(words)}(?![\\p{L}-])`, 'u')
 	}));
 }
 
@@ -278,6 +279,9 @@ const TEXT_KINDS: ReadonlySet<SignalKind> = new Set([
 
 type Span = { from: number; to: number };
 
+/** How far outside the quiet stretch a scene change may fall and still place the boundary. */
+const SCENE_SLACK_SECONDS = 0.5;
+
 const longest = (list: Span[]): Span | null =>
 	list.reduce<Span | null>((a, b) => (!a || b.to - b.from > a.to - a.from ? b : a), null);
 
@@ -299,8 +303,12 @@ function placeOf(group: Candidate[]): number {
 	}
 	const scenes = of('scene-change');
 	if (!quiet) return scenes[0]?.at ?? group[0].at;
-	const inside = scenes.find((c) => c.at >= quiet.from && c.at <= quiet.to);
-	return inside ? inside.at : (quiet.from + quiet.to) / 2;
+	const within = (slack: number) =>
+		scenes.find((c) => c.at >= quiet.from - slack && c.at <= quiet.to + slack);
+	// A picture cut often lands a frame or two after the sound resumes (the first frame at or after
+	// the cut); it is still the same boundary, and a sharper instant than the middle of the quiet.
+	const cut = within(0) ?? within(SCENE_SLACK_SECONDS);
+	return cut ? cut.at : (quiet.from + quiet.to) / 2;
 }
 
 /** Suggested boundaries in time order, each with the signals that support it. */

@@ -55,6 +55,34 @@ export interface RenditionOptions extends JobControl {
 }
 
 /**
+ * How every web video Kinelume makes is encoded (renditions and segment cuts alike): H.264 high
+ * profile with a keyframe every second, so that later cuts and seeks stay close, and AAC sound.
+ */
+export const WEB_ENCODING_ARGS: readonly string[] = [
+	'-c:v',
+	'libx264',
+	'-preset',
+	'veryfast',
+	'-crf',
+	'23',
+	'-pix_fmt',
+	'yuv420p',
+	'-profile:v',
+	'high',
+	'-force_key_frames',
+	'expr:gte(t,n_forced*1)',
+	'-sc_threshold',
+	'0',
+	// Autorotation has already turned the pixels; a leftover tag would turn them again.
+	'-metadata:s:v:0',
+	'rotate=0',
+	'-c:a',
+	'aac',
+	'-b:a',
+	'128k'
+];
+
+/**
  * The web rendition: H.264 (yuv420p) and AAC 128k in MP4 with the index first, fitted into
  * 1280 × 720 turned to the picture's orientation, rotation applied to the pixels, a keyframe
  * every second (so stream-copied segment cuts land within a second of where asked), frame rate
@@ -102,27 +130,7 @@ export async function makeRendition(
 				'-dn',
 				'-vf',
 				filters.join(','),
-				'-c:v',
-				'libx264',
-				'-preset',
-				'veryfast',
-				'-crf',
-				'23',
-				'-pix_fmt',
-				'yuv420p',
-				'-profile:v',
-				'high',
-				'-force_key_frames',
-				'expr:gte(t,n_forced*1)',
-				'-sc_threshold',
-				'0',
-				// Autorotation has already turned the pixels; a leftover tag would turn them again.
-				'-metadata:s:v:0',
-				'rotate=0',
-				'-c:a',
-				'aac',
-				'-b:a',
-				'128k',
+				...WEB_ENCODING_ARGS,
 				'-ac',
 				'2',
 				// Phone files with sparse streams otherwise stop with "Too many packets buffered".
