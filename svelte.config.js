@@ -9,7 +9,10 @@ const config = {
 		adapter: adapter(),
 		typescript: {
 			// The fakes and scripts are TypeScript too; type-check and lint them with the app.
-			config: (tsconfig) => ({ ...tsconfig, include: [...tsconfig.include, '../fakes/**/*.ts', '../drizzle.config.ts'] })
+			config: (tsconfig) => ({
+				...tsconfig,
+				include: [...tsconfig.include, '../fakes/**/*.ts', '../drizzle.config.ts']
+			})
 		},
 		// Auth.js relies on SvelteKit's Origin check for form posts (on by default; never turn it off).
 		csp: {

@@ -6,6 +6,7 @@ import {
 	contextFor,
 	idOf,
 	MATRIX_ROLES,
+	seedCaptionTrack,
 	seedReadyRecording,
 	type MatrixRole
 } from './support';
@@ -30,6 +31,8 @@ interface Fixture {
 	messageId: string;
 	recordingId: string;
 	otherClinicRecordingId: string;
+	trackId: string;
+	otherClinicTrackId: string;
 }
 
 interface Row {
@@ -178,6 +181,90 @@ const MATRIX: Row[] = [
 		path: (f) => `/api/recordings/${f.recordingId}/media/original`,
 		expect: clinicianApi(404)
 	},
+	{
+		route: '/(clinician)/recordings/[id=id]/captions',
+		note: "own clinic's recording",
+		path: (f) => `/recordings/${f.recordingId}/captions`,
+		expect: onlyPage('clinician')
+	},
+	{
+		route: '/(clinician)/recordings/[id=id]/captions',
+		note: "another clinic's recording",
+		path: (f) => `/recordings/${f.otherClinicRecordingId}/captions`,
+		expect: { ...onlyPage('clinician'), clinician: 404 }
+	},
+	{
+		route: '/api/recordings/[id=id]/tracks',
+		note: "own clinic's recording",
+		path: (f) => `/api/recordings/${f.recordingId}/tracks`,
+		expect: clinicianApi(200)
+	},
+	{
+		route: '/api/recordings/[id=id]/tracks',
+		note: "another clinic's recording",
+		path: (f) => `/api/recordings/${f.otherClinicRecordingId}/tracks`,
+		expect: clinicianApi(404)
+	},
+	{
+		route: '/api/tracks/[id=id]/versions',
+		note: "own clinic's track",
+		path: (f) => `/api/tracks/${f.trackId}/versions`,
+		expect: clinicianApi(200)
+	},
+	{
+		route: '/api/tracks/[id=id]/versions',
+		note: "another clinic's track",
+		path: (f) => `/api/tracks/${f.otherClinicTrackId}/versions`,
+		expect: clinicianApi(404)
+	},
+	{
+		route: '/api/tracks/[id=id]/import',
+		note: 'POST only (its roles are checked in captions.e2e.ts)',
+		path: (f) => `/api/tracks/${f.trackId}/import`,
+		expect: everyone(405)
+	},
+	{
+		route: '/api/tracks/[id=id]/captions.vtt',
+		note: "own clinic's track",
+		path: (f) => `/api/tracks/${f.trackId}/captions.vtt`,
+		expect: clinicianApi(200)
+	},
+	{
+		route: '/api/tracks/[id=id]/captions.vtt',
+		note: "another clinic's track",
+		path: (f) => `/api/tracks/${f.otherClinicTrackId}/captions.vtt`,
+		expect: clinicianApi(404)
+	},
+	{
+		route: '/api/tracks/[id=id]/captions.srt',
+		note: "own clinic's track",
+		path: (f) => `/api/tracks/${f.trackId}/captions.srt`,
+		expect: clinicianApi(200)
+	},
+	{
+		route: '/api/tracks/[id=id]/captions.srt',
+		note: "another clinic's track",
+		path: (f) => `/api/tracks/${f.otherClinicTrackId}/captions.srt`,
+		expect: clinicianApi(404)
+	},
+	{
+		route: '/api/tracks/[id=id]/transcript.json',
+		note: "own clinic's track",
+		path: (f) => `/api/tracks/${f.trackId}/transcript.json`,
+		expect: clinicianApi(200)
+	},
+	{
+		route: '/api/tracks/[id=id]/transcript.json',
+		note: "another clinic's track",
+		path: (f) => `/api/tracks/${f.otherClinicTrackId}/transcript.json`,
+		expect: clinicianApi(404)
+	},
+	{
+		route: '/api/tracks/[id=id]/captions.vtt',
+		note: 'a version that does not exist',
+		path: (f) => `/api/tracks/${f.trackId}/captions.vtt?version=99`,
+		expect: clinicianApi(404)
+	},
 	{ route: '/(patient)/today', path: () => '/today', expect: onlyPage('patient') },
 	{ route: '/(educator)/curate', path: () => '/curate', expect: onlyPage('educator') },
 	{ route: '/api/health', path: () => '/api/health', expect: everyone(200) },
@@ -213,11 +300,17 @@ const MATRIX: Row[] = [
 	}
 ];
 
-/** A ready recording in each clinic, with a tiny rendition and poster in storage. */
-async function seedRecordings(): Promise<Pick<Fixture, 'recordingId' | 'otherClinicRecordingId'>> {
+/** A ready recording in each clinic, with a tiny rendition and poster in storage and a captions track. */
+async function seedRecordings(): Promise<
+	Pick<Fixture, 'recordingId' | 'otherClinicRecordingId' | 'trackId' | 'otherClinicTrackId'>
+> {
+	const recordingId = await seedReadyRecording(ACCOUNTS.clinician);
+	const otherClinicRecordingId = await seedReadyRecording(ACCOUNTS.otherClinicClinician);
 	return {
-		recordingId: await seedReadyRecording(ACCOUNTS.clinician),
-		otherClinicRecordingId: await seedReadyRecording(ACCOUNTS.otherClinicClinician)
+		recordingId,
+		otherClinicRecordingId,
+		trackId: seedCaptionTrack(recordingId),
+		otherClinicTrackId: seedCaptionTrack(otherClinicRecordingId)
 	};
 }
 

@@ -139,9 +139,13 @@ export async function expectNoAxeViolations(page: Page) {
 
 /**
  * Puts a ready recording straight into the e2e database and storage for `clinicianEmail`'s
- * clinic (a few bytes stand in for the rendition and the poster), and returns its id.
+ * clinic (a few bytes stand in for the rendition and the poster, unless a real rendition is
+ * given), and returns its id.
  */
-export async function seedReadyRecording(clinicianEmail: string): Promise<string> {
+export async function seedReadyRecording(
+	clinicianEmail: string,
+	real?: { rendition: Uint8Array; durationSeconds: number; title: string }
+): Promise<string> {
 	const db = database();
 	const id = crypto.randomUUID();
 	let clinicId: string;
@@ -155,8 +159,16 @@ export async function seedReadyRecording(clinicianEmail: string): Promise<string
 		db.prepare(
 			`insert into recording (id, clinic_id, uploaded_by, title, original_filename, content_type, size_bytes, status,
 			 duration_seconds, width, height, video_codec, poster_count, created_at, ready_at)
-			 values (?, ?, ?, 'Seeded recording', 'seeded.mp4', 'video/mp4', 16, 'ready', 1, 320, 240, 'h264', 1, ?, ?)`
-		).run(id, clinicId, member.userId, Date.now(), Date.now());
+			 values (?, ?, ?, ?, 'seeded.mp4', 'video/mp4', 16, 'ready', ?, 320, 240, 'h264', 1, ?, ?)`
+		).run(
+			id,
+			clinicId,
+			member.userId,
+			real?.title ?? 'Seeded recording',
+			real?.durationSeconds ?? 1,
+			Date.now(),
+			Date.now()
+		);
 	} finally {
 		db.close();
 	}
@@ -177,11 +189,40 @@ export async function seedReadyRecording(clinicianEmail: string): Promise<string
 			new PutObjectCommand({
 				Bucket: 'kinelume',
 				Key: prefix + key,
-				Body: 'seeded bytes',
+				Body: key === 'rendition.mp4' && real ? real.rendition : 'seeded bytes',
 				ContentType: type
 			})
 		);
 	}
 	s3.destroy();
+	return id;
+}
+
+/** Puts a track with one version of `cues` on a recording, and returns the track's id. */
+export function seedCaptionTrack(
+	recordingId: string,
+	cues: { id: string; start: number; end: number; text: string }[] = [
+		{ id: '1', start: 0, end: 1, text: 'Seeded cue.' }
+	],
+	{ kind = 'captions', language = 'en-GB' } = {}
+): string {
+	const db = database();
+	const id = crypto.randomUUID();
+	try {
+		const { clinicId } = db
+			.prepare('select clinic_id as clinicId from recording where id = ?')
+			.get(recordingId) as { clinicId: string };
+		const now = Date.now();
+		db.prepare(
+			`insert into caption_track (id, recording_id, clinic_id, kind, language, label, current_version, created_at, updated_at)
+			 values (?, ?, ?, ?, ?, 'Seeded', 1, ?, ?)`
+		).run(id, recordingId, clinicId, kind, language, now, now);
+		db.prepare(
+			`insert into caption_track_version (id, track_id, version, cues, source, note, created_at)
+			 values (?, ?, 1, ?, 'import', 'seeded', ?)`
+		).run(crypto.randomUUID(), id, JSON.stringify(cues), now);
+	} finally {
+		db.close();
+	}
 	return id;
 }

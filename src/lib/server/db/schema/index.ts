@@ -5,3 +5,4 @@ export * from './invitations';
 export * from './audit';
 export * from './recordings';
 export * from './jobs';
+export * from './captions';

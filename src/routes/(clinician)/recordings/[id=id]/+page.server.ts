@@ -1,5 +1,6 @@
 import { error, fail, redirect } from '@sveltejs/kit';
 import { requireRole, requireSameClinic } from '$lib/server/auth/guard';
+import { firstCaptionsTrack, listTracks } from '$lib/server/captions';
 import { nudgeWorker } from '$lib/server/jobs';
 import {
 	cancelProcessing,
@@ -20,7 +21,16 @@ function ownRecording(id: string) {
 
 export const load: PageServerLoad = ({ params }) => {
 	const r = ownRecording(params.id);
+	const captions = firstCaptionsTrack(r.clinicId, r.id);
 	return {
+		captions: captions
+			? {
+					src: `/api/tracks/${captions.id}/captions.vtt`,
+					language: captions.language,
+					label: captions.label
+				}
+			: null,
+		trackCount: listTracks(r.clinicId, r.id).length,
 		recording: {
 			id: r.id,
 			title: r.title,

@@ -1,0 +1,23 @@
+import { json } from '@sveltejs/kit';
+import { apiError } from '$lib/server/api';
+import { exportTag, transcript, type Transcript } from '$lib/server/captions';
+import { callerTrack, matchesNoneMatch, REVALIDATE, versionParam } from '$lib/server/captions/api';
+import type { RequestHandler } from './$types';
+
+export type { Transcript };
+
+/** The track's cues as lines of a transcript (text with tags and plain); `?version=N` for an older one. */
+export const GET: RequestHandler = ({ params, url, request }) => {
+	const found = callerTrack(params.id);
+	if (found instanceof Response) return found;
+	const version = versionParam(url);
+	if (version instanceof Response) return version;
+	const body = transcript(found.track, version);
+	if (!body) return apiError(404, `There is no version ${version} of this track.`);
+	const etag = exportTag(found.track.id, body.version, 'transcript');
+	const headers = { ETag: etag, 'Cache-Control': REVALIDATE };
+	if (matchesNoneMatch(request.headers.get('if-none-match'), etag)) {
+		return new Response(null, { status: 304, headers });
+	}
+	return json(body satisfies Transcript, { headers });
+};
