@@ -1,13 +1,15 @@
 import { open, stat } from 'node:fs/promises';
 import { and, eq } from 'drizzle-orm';
 import { db, schema } from '../db';
+import { createTrack, saveVersion } from '../captions';
 import { completeUpload, createUpload, presignParts } from '../recordings/uploads';
 import { ensureDemoClips } from './clips';
 
 /**
  * Brings the generated demo clips into the demo clinic exactly as a clinician's browser would:
  * a multipart upload through presigned part URLs, then completion, which probes, validates and
- * queues the processing job that the app's worker runs. Clips already present are skipped.
+ * queues the processing job that the app's worker runs; each gets its narration as a captions
+ * track. Clips already present are skipped.
  */
 export async function seedDemoRecordings(
 	clipsDir: string,
@@ -28,7 +30,7 @@ export async function seedDemoRecordings(
 
 	const clips = await ensureDemoClips(clipsDir);
 	let added = 0;
-	for (const { clip, path, rendered, seconds } of clips) {
+	for (const { clip, path, rendered, seconds, cues } of clips) {
 		if (rendered) log(`  drew "${clip.title}" in ${seconds.toFixed(1)} s`);
 		const filename = `${clip.title}.mp4`;
 		const present = store
@@ -63,7 +65,21 @@ export async function seedDemoRecordings(
 		} finally {
 			await file.close();
 		}
-		await completeUpload(owner, session.id);
+		const recording = await completeUpload(owner, session.id);
+		// The clip's narration, timed as it was drawn, becomes its first captions track.
+		const track = createTrack(recording, { kind: 'captions', language: 'en-GB' });
+		saveVersion(track, {
+			baseVersion: 0,
+			cues: cues.map((cue, i) => ({
+				id: String(i + 1),
+				start: cue.start,
+				end: cue.end,
+				text: cue.text
+			})),
+			note: 'Narration script of the demo clip',
+			source: 'generated',
+			userId: owner.id
+		});
 		added++;
 	}
 	return added;
