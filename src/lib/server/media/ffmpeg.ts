@@ -5,8 +5,9 @@ import { setPriority } from 'node:os';
 import { config } from '../config';
 
 /*
- * Every ffmpeg and ffprobe run goes through `runMedia` here. It spawns the binaries itself rather
- * than through fluent-ffmpeg: fluent-ffmpeg 2.1.3 cannot hand ffmpeg an extra pipe for progress
+ * Every long ffmpeg and ffprobe run goes through `runMedia` here (stills use fluent-ffmpeg, in
+ * stills.ts, where its options suffice). It spawns the binaries itself rather than through
+ * fluent-ffmpeg, because fluent-ffmpeg 2.1.3 cannot hand ffmpeg an extra pipe for progress
  * (we use fd 3 so stdout stays free for PCM), takes no AbortSignal, reports progress by parsing
  * stderr after an extra ffprobe run of its own, stops a timed-out process without waiting for it
  * to exit, and its ffprobe wrapper parses the INI-style output, which drops the display-matrix

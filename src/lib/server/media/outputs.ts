@@ -2,6 +2,7 @@ import { mkdir, mkdtemp, readdir, rm, stat } from 'node:fs/promises';
 import { dirname, join } from 'node:path';
 import { MediaError, runFfmpeg } from './ffmpeg';
 import { probeFile } from './probe';
+import { grabStill } from './stills';
 
 /** What every output maker accepts besides its own options. */
 export interface JobControl {
@@ -188,30 +189,7 @@ export async function makePosters(
 	for (const [index, fraction] of posterFractions(count).entries()) {
 		const path = join(outputDir, `${index + 1}.jpg`);
 		const grab = (seconds: number) =>
-			runFfmpeg(
-				[
-					'-y',
-					// Seeking before -i jumps to the keyframe and decodes forward: fast and exact.
-					'-ss',
-					seconds.toFixed(3),
-					'-i',
-					input,
-					'-map',
-					'0:v:0',
-					'-frames:v',
-					'1',
-					'-vf',
-					fitWidthFilter(maxWidth),
-					'-q:v',
-					'3',
-					'-f',
-					'image2',
-					'-update',
-					'1',
-					path
-				],
-				control(opts)
-			);
+			grabStill(input, seconds, path, { filter: fitWidthFilter(maxWidth), ...control(opts) });
 		await grab(Math.max(0, durationSeconds * fraction));
 		// A soundtrack that outlasts the picture can put a late seek past the last frame.
 		if (!(await nonEmptyFile(path))) await grab(0);
