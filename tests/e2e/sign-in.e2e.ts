@@ -127,3 +127,39 @@ test('six wrong passwords in a row give 429 with Retry-After, and the right one 
 	// Locked means locked: even the right password waits, so guessing cannot continue.
 	expect((await attempt(DEMO_PASSWORD)).status()).toBe(429);
 });
+
+test('sign-in links are limited per address, with the same answer past the limit', async ({
+	request
+}) => {
+	const since = Date.now();
+	const ask = () =>
+		request.post('/signin?/link', {
+			form: { providerId: 'nodemailer', email: ACCOUNTS.otherClinicClinician, redirectTo: '/home' },
+			headers: { Origin: E2E.origin, Accept: 'text/html' },
+			maxRedirects: 0
+		});
+	for (let i = 1; i <= 6; i++) {
+		const response = await ask();
+		expect(response.status(), `request ${i}`).toBe(303);
+		expect(response.headers().location).toBe('/signin/link-sent');
+	}
+	// Five links arrive; the sixth request was answered alike but sent nothing.
+	await expect
+		.poll(async () => {
+			const list = (await (await fetch(`${E2E.mailApi}/messages`)).json()) as {
+				to: string[];
+				subject: string;
+				date: string;
+			}[];
+			return list.filter(
+				(m) =>
+					m.to.includes(ACCOUNTS.otherClinicClinician) &&
+					m.subject === 'Your Kinelume sign-in link' &&
+					new Date(m.date).getTime() >= since - 1000
+			).length;
+		})
+		.toBe(5);
+	await new Promise((r) => setTimeout(r, 1000));
+	const list = (await (await fetch(`${E2E.mailApi}/messages`)).json()) as { to: string[] }[];
+	expect(list.filter((m) => m.to.includes(ACCOUNTS.otherClinicClinician))).toHaveLength(5);
+});

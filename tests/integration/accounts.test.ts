@@ -16,9 +16,13 @@ const { changeRole, MemberError, removeMember } = await import('../../src/lib/se
 const { invitePatient } = await import('../../src/lib/server/patients');
 const { loadPrincipal } = await import('../../src/lib/server/auth/principal');
 const { verifyPassword } = await import('../../src/lib/server/auth/passwords');
-const { clearSignInFailures, recordSignInFailure, signInLockout } = await import(
-	'../../src/lib/server/auth/sign-in-limits'
-);
+const {
+	clearSignInFailures,
+	linkRequestAllowed,
+	recordLinkRequest,
+	recordSignInFailure,
+	signInLockout
+} = await import('../../src/lib/server/auth/sign-in-limits');
 const { listInbox, readInboxMessage } = await import('../../src/lib/server/mail/inbox');
 
 type Principal = NonNullable<ReturnType<typeof loadPrincipal>>;
@@ -236,5 +240,16 @@ describe('sign-in lockout', () => {
 			recordSignInFailure(`walker${i}@test-clinic.example`, '203.0.113.99');
 		expect(signInLockout('fresh@test-clinic.example', '203.0.113.99').locked).toBe(true);
 		expect(signInLockout('fresh@test-clinic.example', '203.0.113.100').locked).toBe(false);
+	});
+
+	it('lets at most five sign-in links go to one address in the window', () => {
+		const email = 'inbox.flood@test-clinic.example';
+		for (let i = 0; i < 4; i++) recordLinkRequest(email, '203.0.113.8');
+		expect(linkRequestAllowed(email)).toBe(true);
+		recordLinkRequest(email, '198.51.100.9');
+		expect(linkRequestAllowed(email)).toBe(false);
+		expect(linkRequestAllowed('someone.else@test-clinic.example')).toBe(true);
+		// After the window the address may ask again.
+		expect(linkRequestAllowed(email, Date.now() + 15 * 60_000 + 1000)).toBe(true);
 	});
 });

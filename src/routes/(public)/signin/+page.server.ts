@@ -6,6 +6,8 @@ import { safeNext } from '$lib/forms/safe-next';
 import { recordAudit } from '$lib/server/audit';
 import {
 	clearSignInFailures,
+	linkRequestAllowed,
+	recordLinkRequest,
 	recordSignInFailure,
 	signInLockout
 } from '$lib/server/auth/sign-in-limits';
@@ -113,6 +115,10 @@ export const actions: Actions = {
 				message: 'Enter the e-mail address your clinic invited.'
 			});
 		}
+		const { email } = parsed.data;
+		// Past the limit nothing is sent, yet the answer is the same as always, so the form
+		// reveals neither the limit nor whether the address has an account.
+		if (!linkRequestAllowed(email)) redirect(303, '/signin/link-sent');
 		try {
 			await signIn(event);
 		} catch (thrown) {
@@ -120,12 +126,13 @@ export const actions: Actions = {
 			if (redirectFailed(thrown.location, event.url)) {
 				return fail(400, {
 					method: 'link',
-					email: parsed.data.email,
+					email,
 					message: 'We could not send a link just now. Please try again in a minute.'
 				});
 			}
+			recordLinkRequest(email, event.getClientAddress());
 			redirect(303, '/signin/link-sent');
 		}
-		return fail(500, { method: 'link', email: parsed.data.email, message: 'Please try again.' });
+		return fail(500, { method: 'link', email, message: 'Please try again.' });
 	}
 };

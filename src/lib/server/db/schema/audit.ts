@@ -3,6 +3,7 @@ import { index, integer, sqliteTable, text } from 'drizzle-orm/sqlite-core';
 export const AUDIT_KINDS = [
 	'sign-in',
 	'sign-in-failed',
+	'sign-in-link-requested',
 	'sign-out',
 	'invitation-sent',
 	'invitation-accepted',
