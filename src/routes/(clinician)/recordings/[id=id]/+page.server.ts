@@ -1,26 +1,17 @@
-import { error, fail, redirect } from '@sveltejs/kit';
-import { requireRole, requireSameClinic } from '$lib/server/auth/guard';
+import { fail, redirect } from '@sveltejs/kit';
 import { firstCaptionsTrack, listTracks } from '$lib/server/captions';
 import { nudgeWorker } from '$lib/server/jobs';
 import {
 	cancelProcessing,
 	deleteRecording,
-	findRecording,
 	retryProcessing,
 	statusView
 } from '$lib/server/recordings';
+import { requireOwnRecording } from '$lib/server/recordings/guard';
 import type { Actions, PageServerLoad } from './$types';
 
-function ownRecording(id: string) {
-	const clinician = requireRole('clinician');
-	const recording = findRecording(clinician.clinicId, id);
-	if (!recording) error(404, 'Not found.');
-	requireSameClinic(clinician, recording.clinicId);
-	return recording;
-}
-
 export const load: PageServerLoad = ({ params }) => {
-	const r = ownRecording(params.id);
+	const { recording: r } = requireOwnRecording(params.id);
 	const captions = firstCaptionsTrack(r.clinicId, r.id);
 	return {
 		captions: captions
@@ -56,7 +47,7 @@ export const load: PageServerLoad = ({ params }) => {
 
 export const actions: Actions = {
 	retry: ({ params }) => {
-		const recording = ownRecording(params.id);
+		const { recording } = requireOwnRecording(params.id);
 		if (!retryProcessing(recording)) {
 			return fail(409, {
 				message: 'Only a recording whose processing failed can be processed again.'
@@ -66,14 +57,14 @@ export const actions: Actions = {
 		return { retried: true };
 	},
 	cancel: ({ params }) => {
-		const recording = ownRecording(params.id);
+		const { recording } = requireOwnRecording(params.id);
 		if (!cancelProcessing(recording)) {
 			return fail(409, { message: 'There is no processing to cancel.' });
 		}
 		return { cancelled: true };
 	},
 	delete: async ({ params }) => {
-		const recording = ownRecording(params.id);
+		const { recording } = requireOwnRecording(params.id);
 		await deleteRecording(recording);
 		redirect(303, '/recordings?deleted=1');
 	}

@@ -3,7 +3,6 @@ import { z } from 'zod';
 import { checkCues, profiles } from '$lib/captions/checks';
 import { diffCues } from '$lib/captions/diff';
 import { TRACK_KINDS } from '$lib/captions/types';
-import { requireRole, requireSameClinic } from '$lib/server/auth/guard';
 import {
 	CaptionError,
 	createTrack,
@@ -14,16 +13,8 @@ import {
 	listVersions,
 	restoreVersion
 } from '$lib/server/captions';
-import { findRecording } from '$lib/server/recordings';
+import { requireOwnRecording } from '$lib/server/recordings/guard';
 import type { Actions, PageServerLoad } from './$types';
-
-function ownRecording(id: string) {
-	const clinician = requireRole('clinician');
-	const recording = findRecording(clinician.clinicId, id);
-	if (!recording) error(404, 'Not found.');
-	requireSameClinic(clinician, recording.clinicId);
-	return { clinician, recording };
-}
 
 function ownTrack(clinicId: string, recordingId: string, trackId: unknown) {
 	const track = typeof trackId === 'string' ? findTrack(clinicId, trackId) : null;
@@ -36,7 +27,7 @@ const profile = profiles.bbc;
 const MAX_FINDINGS_SHOWN = 30;
 
 export const load: PageServerLoad = ({ params, url }) => {
-	const { clinician, recording } = ownRecording(params.id);
+	const { clinician, recording } = requireOwnRecording(params.id);
 	const tracks = listTracks(clinician.clinicId, recording.id).map((summary) => {
 		const track = findTrack(clinician.clinicId, summary.id)!;
 		const findings = checkCues(getVersion(track)?.cues ?? [], profile);
@@ -84,7 +75,7 @@ const createForm = z.object({
 
 export const actions: Actions = {
 	create: async ({ params, request }) => {
-		const { recording } = ownRecording(params.id);
+		const { recording } = requireOwnRecording(params.id);
 		const form = await request.formData();
 		const values = {
 			kind: String(form.get('kind') ?? ''),
@@ -115,7 +106,7 @@ export const actions: Actions = {
 		redirect(303, `/recordings/${recording.id}/captions?track=${id}`);
 	},
 	import: async ({ params, request }) => {
-		const { clinician, recording } = ownRecording(params.id);
+		const { clinician, recording } = requireOwnRecording(params.id);
 		const form = await request.formData();
 		const track = ownTrack(clinician.clinicId, recording.id, form.get('track'));
 		const file = form.get('file');
@@ -152,7 +143,7 @@ export const actions: Actions = {
 		};
 	},
 	restore: async ({ params, request }) => {
-		const { clinician, recording } = ownRecording(params.id);
+		const { clinician, recording } = requireOwnRecording(params.id);
 		const form = await request.formData();
 		const track = ownTrack(clinician.clinicId, recording.id, form.get('track'));
 		const version = Number(form.get('version'));
