@@ -2,7 +2,7 @@ import { mkdir, rm } from 'node:fs/promises';
 import { dirname } from 'node:path';
 import { MediaError, runFfmpeg } from './ffmpeg';
 import { probeFile } from './probe';
-import { WEB_ENCODING_ARGS } from './outputs';
+import { FIRST_PICTURE_AND_SOUND_ARGS, WEB_ENCODING_ARGS, WEB_MP4_MUX_ARGS } from './outputs';
 
 export interface CutOptions {
 	/** Seconds into the input where the segment starts. */
@@ -56,23 +56,9 @@ export async function cutSegment(
 				input,
 				'-t',
 				wanted.toFixed(3),
-				'-map',
-				'0:v:0',
-				'-map',
-				'0:a:0?',
-				'-map_metadata',
-				'-1',
-				'-map_chapters',
-				'-1',
-				'-sn',
-				'-dn',
+				...FIRST_PICTURE_AND_SOUND_ARGS,
 				...WEB_ENCODING_ARGS,
-				'-max_muxing_queue_size',
-				'1024',
-				'-movflags',
-				'+faststart',
-				'-f',
-				'mp4',
+				...WEB_MP4_MUX_ARGS,
 				output
 			],
 			{

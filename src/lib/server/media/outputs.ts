@@ -56,6 +56,34 @@ export interface RenditionOptions extends JobControl {
 }
 
 /**
+ * Keep the first picture and sound streams only, and none of the source's metadata or chapters
+ * (which also drops the location a phone stores).
+ */
+export const FIRST_PICTURE_AND_SOUND_ARGS: readonly string[] = [
+	'-map',
+	'0:v:0',
+	'-map',
+	'0:a:0?',
+	'-map_metadata',
+	'-1',
+	'-map_chapters',
+	'-1',
+	'-sn',
+	'-dn'
+];
+
+/** An MP4 that starts playing before it has fully downloaded (index at the front). */
+export const WEB_MP4_MUX_ARGS: readonly string[] = [
+	// Phone files with sparse streams otherwise stop with "Too many packets buffered".
+	'-max_muxing_queue_size',
+	'1024',
+	'-movflags',
+	'+faststart',
+	'-f',
+	'mp4'
+];
+
+/**
  * How every web video Kinelume makes is encoded (renditions and segment cuts alike): H.264 high
  * profile with a keyframe every second, so that later cuts and seeks stay close, and AAC sound.
  */
@@ -119,28 +147,13 @@ export async function makeRendition(
 				'-y',
 				'-i',
 				input,
-				'-map',
-				'0:v:0',
-				'-map',
-				'0:a:0?',
-				'-map_metadata',
-				'-1',
-				'-map_chapters',
-				'-1',
-				'-sn',
-				'-dn',
+				...FIRST_PICTURE_AND_SOUND_ARGS,
 				'-vf',
 				filters.join(','),
 				...WEB_ENCODING_ARGS,
 				'-ac',
 				'2',
-				// Phone files with sparse streams otherwise stop with "Too many packets buffered".
-				'-max_muxing_queue_size',
-				'1024',
-				'-movflags',
-				'+faststart',
-				'-f',
-				'mp4',
+				...WEB_MP4_MUX_ARGS,
 				output
 			],
 			{
