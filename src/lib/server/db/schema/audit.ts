@@ -1,4 +1,5 @@
 import { index, integer, sqliteTable, text } from 'drizzle-orm/sqlite-core';
+import { timestampNow } from './columns';
 
 export const AUDIT_KINDS = [
 	'sign-in',
@@ -27,9 +28,7 @@ export const auditEvents = sqliteTable(
 		/** The e-mail address or record the event is about. */
 		subject: text('subject').notNull().default(''),
 		detail: text('detail', { mode: 'json' }).$type<Record<string, unknown>>(),
-		createdAt: integer('created_at', { mode: 'timestamp_ms' })
-			.notNull()
-			.$defaultFn(() => new Date())
+		createdAt: timestampNow('created_at')
 	},
 	(a) => [index('audit_clinic_time').on(a.clinicId, a.createdAt)]
 );
@@ -41,9 +40,7 @@ export const signInFailures = sqliteTable(
 		id: integer('id').primaryKey({ autoIncrement: true }),
 		email: text('email').notNull(),
 		address: text('address').notNull(),
-		createdAt: integer('created_at', { mode: 'timestamp_ms' })
-			.notNull()
-			.$defaultFn(() => new Date())
+		createdAt: timestampNow('created_at')
 	},
 	(f) => [
 		index('sign_in_failure_email_time').on(f.email, f.createdAt),

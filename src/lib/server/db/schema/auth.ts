@@ -1,4 +1,5 @@
 import { integer, primaryKey, sqliteTable, text } from 'drizzle-orm/sqlite-core';
+import { timestampNow, uuidPrimaryKey } from './columns';
 
 /**
  * The tables Auth.js's Drizzle adapter expects (users, accounts, sessions, verification tokens),
@@ -6,18 +7,14 @@ import { integer, primaryKey, sqliteTable, text } from 'drizzle-orm/sqlite-core'
  * unless the strategy changes; the adapter still requires it.
  */
 export const users = sqliteTable('user', {
-	id: text('id')
-		.primaryKey()
-		.$defaultFn(() => crypto.randomUUID()),
+	id: uuidPrimaryKey(),
 	name: text('name'),
 	email: text('email').notNull().unique(),
 	emailVerified: integer('emailVerified', { mode: 'timestamp_ms' }),
 	image: text('image'),
 	/** argon2id hash (PHC string); null for someone who signs in by e-mailed link only. */
 	passwordHash: text('password_hash'),
-	createdAt: integer('created_at', { mode: 'timestamp_ms' })
-		.notNull()
-		.$defaultFn(() => new Date())
+	createdAt: timestampNow('created_at')
 });
 
 export const accounts = sqliteTable(

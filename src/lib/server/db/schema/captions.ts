@@ -1,4 +1,5 @@
 import { index, integer, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
+import { timestampNow, uuidPrimaryKey } from './columns';
 import { TRACK_KINDS, type Cue, type TrackKind } from '../../../captions/types';
 import { users } from './auth';
 import { clinics } from './clinics';
@@ -15,9 +16,7 @@ export type VersionSource = (typeof VERSION_SOURCES)[number];
 export const captionTracks = sqliteTable(
 	'caption_track',
 	{
-		id: text('id')
-			.primaryKey()
-			.$defaultFn(() => crypto.randomUUID()),
+		id: uuidPrimaryKey(),
 		recordingId: text('recording_id')
 			.notNull()
 			.references(() => recordings.id, { onDelete: 'cascade' }),
@@ -28,12 +27,8 @@ export const captionTracks = sqliteTable(
 		language: text('language').notNull(),
 		label: text('label').notNull(),
 		currentVersion: integer('current_version').notNull().default(0),
-		createdAt: integer('created_at', { mode: 'timestamp_ms' })
-			.notNull()
-			.$defaultFn(() => new Date()),
-		updatedAt: integer('updated_at', { mode: 'timestamp_ms' })
-			.notNull()
-			.$defaultFn(() => new Date())
+		createdAt: timestampNow('created_at'),
+		updatedAt: timestampNow('updated_at')
 	},
 	(t) => [
 		uniqueIndex('caption_track_recording_kind_language').on(t.recordingId, t.kind, t.language),
@@ -45,9 +40,7 @@ export const captionTracks = sqliteTable(
 export const captionTrackVersions = sqliteTable(
 	'caption_track_version',
 	{
-		id: text('id')
-			.primaryKey()
-			.$defaultFn(() => crypto.randomUUID()),
+		id: uuidPrimaryKey(),
 		trackId: text('track_id')
 			.notNull()
 			.references(() => captionTracks.id, { onDelete: 'cascade' }),
@@ -56,9 +49,7 @@ export const captionTrackVersions = sqliteTable(
 		source: text('source', { enum: VERSION_SOURCES }).notNull(),
 		note: text('note').notNull().default(''),
 		createdBy: text('created_by').references(() => users.id, { onDelete: 'set null' }),
-		createdAt: integer('created_at', { mode: 'timestamp_ms' })
-			.notNull()
-			.$defaultFn(() => new Date())
+		createdAt: timestampNow('created_at')
 	},
 	(v) => [uniqueIndex('caption_track_version_track_version').on(v.trackId, v.version)]
 );

@@ -1,17 +1,14 @@
-import { index, integer, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
+import { index, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
+import { timestampNow, uuidPrimaryKey } from './columns';
 import { users } from './auth';
 
 export const STAFF_ROLES = ['admin', 'clinician', 'educator'] as const;
 export type StaffRole = (typeof STAFF_ROLES)[number];
 
 export const clinics = sqliteTable('clinic', {
-	id: text('id')
-		.primaryKey()
-		.$defaultFn(() => crypto.randomUUID()),
+	id: uuidPrimaryKey(),
 	name: text('name').notNull(),
-	createdAt: integer('created_at', { mode: 'timestamp_ms' })
-		.notNull()
-		.$defaultFn(() => new Date())
+	createdAt: timestampNow('created_at')
 });
 
 /**
@@ -21,9 +18,7 @@ export const clinics = sqliteTable('clinic', {
 export const memberships = sqliteTable(
 	'membership',
 	{
-		id: text('id')
-			.primaryKey()
-			.$defaultFn(() => crypto.randomUUID()),
+		id: uuidPrimaryKey(),
 		userId: text('user_id')
 			.notNull()
 			.references(() => users.id, { onDelete: 'cascade' }),
@@ -31,9 +26,7 @@ export const memberships = sqliteTable(
 			.notNull()
 			.references(() => clinics.id, { onDelete: 'cascade' }),
 		role: text('role', { enum: STAFF_ROLES }).notNull(),
-		createdAt: integer('created_at', { mode: 'timestamp_ms' })
-			.notNull()
-			.$defaultFn(() => new Date())
+		createdAt: timestampNow('created_at')
 	},
 	(m) => [
 		uniqueIndex('membership_user_unique').on(m.userId),

@@ -1,4 +1,5 @@
 import { index, integer, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
+import { timestampNow, uuidPrimaryKey } from './columns';
 import { users } from './auth';
 import { clinics } from './clinics';
 import { patients } from './patients';
@@ -14,9 +15,7 @@ export type InvitedRole = (typeof INVITED_ROLES)[number];
 export const invitations = sqliteTable(
 	'invitation',
 	{
-		id: text('id')
-			.primaryKey()
-			.$defaultFn(() => crypto.randomUUID()),
+		id: uuidPrimaryKey(),
 		clinicId: text('clinic_id')
 			.notNull()
 			.references(() => clinics.id, { onDelete: 'cascade' }),
@@ -31,9 +30,7 @@ export const invitations = sqliteTable(
 		expiresAt: integer('expires_at', { mode: 'timestamp_ms' }).notNull(),
 		acceptedAt: integer('accepted_at', { mode: 'timestamp_ms' }),
 		revokedAt: integer('revoked_at', { mode: 'timestamp_ms' }),
-		createdAt: integer('created_at', { mode: 'timestamp_ms' })
-			.notNull()
-			.$defaultFn(() => new Date())
+		createdAt: timestampNow('created_at')
 	},
 	(i) => [
 		uniqueIndex('invitation_token_unique').on(i.tokenHash),

@@ -1,4 +1,5 @@
 import { index, integer, real, sqliteTable, text } from 'drizzle-orm/sqlite-core';
+import { timestampNow, uuidPrimaryKey } from './columns';
 import { recordings } from './recordings';
 
 export const JOB_KINDS = ['process-recording'] as const;
@@ -13,9 +14,7 @@ export type JobStatus = (typeof JOB_STATUSES)[number];
 export const jobs = sqliteTable(
 	'job',
 	{
-		id: text('id')
-			.primaryKey()
-			.$defaultFn(() => crypto.randomUUID()),
+		id: uuidPrimaryKey(),
 		kind: text('kind', { enum: JOB_KINDS }).notNull(),
 		recordingId: text('recording_id')
 			.notNull()
@@ -23,9 +22,7 @@ export const jobs = sqliteTable(
 		status: text('status', { enum: JOB_STATUSES }).notNull().default('queued'),
 		attempts: integer('attempts').notNull().default(0),
 		maxAttempts: integer('max_attempts').notNull().default(3),
-		runAfter: integer('run_after', { mode: 'timestamp_ms' })
-			.notNull()
-			.$defaultFn(() => new Date()),
+		runAfter: timestampNow('run_after'),
 		progress: real('progress').notNull().default(0),
 		stage: text('stage').notNull().default('waiting'),
 		lastError: text('last_error'),
@@ -33,9 +30,7 @@ export const jobs = sqliteTable(
 		heartbeatAt: integer('heartbeat_at', { mode: 'timestamp_ms' }),
 		/** Set by a cancel request; the worker running the job sees it at its next heartbeat. */
 		cancelRequested: integer('cancel_requested', { mode: 'boolean' }).notNull().default(false),
-		createdAt: integer('created_at', { mode: 'timestamp_ms' })
-			.notNull()
-			.$defaultFn(() => new Date()),
+		createdAt: timestampNow('created_at'),
 		finishedAt: integer('finished_at', { mode: 'timestamp_ms' })
 	},
 	(j) => [index('job_claim').on(j.status, j.runAfter), index('job_recording').on(j.recordingId)]

@@ -1,11 +1,5 @@
-import {
-	index,
-	integer,
-	primaryKey,
-	sqliteTable,
-	text,
-	uniqueIndex
-} from 'drizzle-orm/sqlite-core';
+import { index, primaryKey, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
+import { timestampNow, uuidPrimaryKey } from './columns';
 import { users } from './auth';
 import { clinics } from './clinics';
 
@@ -18,9 +12,7 @@ export const SIDES = ['left', 'right', 'both', 'not applicable'] as const;
 export const patients = sqliteTable(
 	'patient',
 	{
-		id: text('id')
-			.primaryKey()
-			.$defaultFn(() => crypto.randomUUID()),
+		id: uuidPrimaryKey(),
 		clinicId: text('clinic_id')
 			.notNull()
 			.references(() => clinics.id, { onDelete: 'cascade' }),
@@ -30,9 +22,7 @@ export const patients = sqliteTable(
 		affectedSide: text('affected_side', { enum: SIDES }).notNull().default('not applicable'),
 		/** What the programme is for, in the clinician's words, e.g. "left total knee replacement". */
 		condition: text('condition').notNull().default(''),
-		createdAt: integer('created_at', { mode: 'timestamp_ms' })
-			.notNull()
-			.$defaultFn(() => new Date())
+		createdAt: timestampNow('created_at')
 	},
 	(p) => [
 		uniqueIndex('patient_user_unique').on(p.userId),

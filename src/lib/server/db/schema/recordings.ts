@@ -1,4 +1,5 @@
 import { index, integer, real, sqliteTable, text } from 'drizzle-orm/sqlite-core';
+import { timestampNow, uuidPrimaryKey } from './columns';
 import { users } from './auth';
 import { clinics } from './clinics';
 
@@ -13,9 +14,7 @@ export type RecordingStatus = (typeof RECORDING_STATUSES)[number];
 export const uploads = sqliteTable(
 	'upload',
 	{
-		id: text('id')
-			.primaryKey()
-			.$defaultFn(() => crypto.randomUUID()),
+		id: uuidPrimaryKey(),
 		clinicId: text('clinic_id')
 			.notNull()
 			.references(() => clinics.id, { onDelete: 'cascade' }),
@@ -30,12 +29,8 @@ export const uploads = sqliteTable(
 		contentType: text('content_type').notNull(),
 		sizeBytes: integer('size_bytes').notNull(),
 		partSize: integer('part_size').notNull(),
-		createdAt: integer('created_at', { mode: 'timestamp_ms' })
-			.notNull()
-			.$defaultFn(() => new Date()),
-		lastActivityAt: integer('last_activity_at', { mode: 'timestamp_ms' })
-			.notNull()
-			.$defaultFn(() => new Date())
+		createdAt: timestampNow('created_at'),
+		lastActivityAt: timestampNow('last_activity_at')
 	},
 	(u) => [index('upload_clinic').on(u.clinicId), index('upload_activity').on(u.lastActivityAt)]
 );
@@ -54,9 +49,7 @@ export interface SpriteMeta {
 export const recordings = sqliteTable(
 	'recording',
 	{
-		id: text('id')
-			.primaryKey()
-			.$defaultFn(() => crypto.randomUUID()),
+		id: uuidPrimaryKey(),
 		clinicId: text('clinic_id')
 			.notNull()
 			.references(() => clinics.id, { onDelete: 'cascade' }),
@@ -79,9 +72,7 @@ export const recordings = sqliteTable(
 		sprite: text('sprite', { mode: 'json' }).$type<SpriteMeta>(),
 		waveformKey: text('waveform_key'),
 		failureReason: text('failure_reason'),
-		createdAt: integer('created_at', { mode: 'timestamp_ms' })
-			.notNull()
-			.$defaultFn(() => new Date()),
+		createdAt: timestampNow('created_at'),
 		readyAt: integer('ready_at', { mode: 'timestamp_ms' })
 	},
 	(r) => [index('recording_clinic_created').on(r.clinicId, r.createdAt)]
