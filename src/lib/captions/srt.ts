@@ -4,6 +4,7 @@
  * stays as the cue identifier, position coordinates (X1:… Y2:…) are dropped, and <font> tags go.
  */
 import { endTimeColumn, formatTimestamp, toMillis } from './timestamp';
+import { NAMED_REFERENCES } from './text';
 import type { CaptionProblem, Cue } from './types';
 import { serializeVtt } from './vtt';
 
@@ -141,15 +142,6 @@ export function srtToVtt(
 	return { ...parsed, vtt: serializeVtt(parsed.cues) };
 }
 
-const ENTITIES: Record<string, string> = {
-	amp: '&',
-	lt: '<',
-	gt: '>',
-	nbsp: '\u00a0',
-	lrm: '\u200e',
-	rlm: '\u200f'
-};
-
 /** Writes SRT: cues numbered from 1 in order, HH:MM:SS,mmm, WebVTT tags other than i/b/u removed. */
 export function serializeSrt(cues: readonly Cue[]): string {
 	const time = (s: number) => formatTimestamp(s).replace('.', ',');
@@ -157,7 +149,7 @@ export function serializeSrt(cues: readonly Cue[]): string {
 		.map((cue, index) => {
 			const text = cue.text
 				.replace(/<[^>]*>/g, (tag) => (KEPT_TAGS.test(tag) ? tag : ''))
-				.replace(/&([a-z]+);/g, (whole, name: string) => ENTITIES[name] ?? whole)
+				.replace(/&([a-z]+);/g, (whole, name: string) => NAMED_REFERENCES[name] ?? whole)
 				.split(/\r\n|\r|\n/)
 				.filter((line) => line.trim() !== '')
 				.join('\n');

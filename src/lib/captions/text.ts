@@ -1,6 +1,7 @@
 /** Cue text without WebVTT markup, for counting, searching and transcripts. */
 
-const ENTITIES: Record<string, string> = {
+/** The named character references WebVTT defines. */
+export const NAMED_REFERENCES: Record<string, string> = {
 	amp: '&',
 	lt: '<',
 	gt: '>',
@@ -23,7 +24,7 @@ export function plainText(text: string): string {
 					? String.fromCodePoint(code)
 					: whole;
 			}
-			return ENTITIES[name] ?? whole;
+			return NAMED_REFERENCES[name] ?? whole;
 		});
 }
 
