@@ -11,6 +11,17 @@ import {
 	type MatrixRole
 } from './support';
 import { E2E } from './ports';
+import {
+	clinicianApi,
+	everyone,
+	onlyPage,
+	type Fixture,
+	type MatrixPart,
+	type Row
+} from './matrix/types';
+
+/** Each domain keeps its rows in its own file under matrix/; list it here. */
+const PARTS: MatrixPart[] = [];
 
 /**
  * The role matrix: every route that exists × every role (and the signed-out public) → the
@@ -22,48 +33,7 @@ import { E2E } from './ports';
  * person's or clinic's record (answered as "not found" so ids cannot be probed); 410 a spent link.
  */
 
-interface Fixture {
-	patientId: string;
-	otherPatientId: string;
-	otherClinicPatientId: string;
-	clinicId: string;
-	otherClinicId: string;
-	messageId: string;
-	recordingId: string;
-	otherClinicRecordingId: string;
-	trackId: string;
-	otherClinicTrackId: string;
-}
-
-interface Row {
-	route: string;
-	/** What this row shows, when a route has several rows. */
-	note?: string;
-	path: (f: Fixture) => string;
-	expect: Record<MatrixRole, number>;
-}
-
-const everyone = (status: number): Record<MatrixRole, number> => ({
-	public: status,
-	patient: status,
-	clinician: status,
-	educator: status,
-	admin: status
-});
-const clinicianApi = (clinician: number): Record<MatrixRole, number> => ({
-	public: 401,
-	patient: 403,
-	clinician,
-	educator: 403,
-	admin: 403
-});
-const onlyPage = (role: Exclude<MatrixRole, 'public'>): Record<MatrixRole, number> => ({
-	...everyone(403),
-	public: 303,
-	[role]: 200
-});
-
-const MATRIX: Row[] = [
+const BASE_ROWS: Row[] = [
 	{ route: '/(public)', path: () => '/', expect: everyone(200) },
 	{
 		route: '/(public)/signin',
@@ -300,6 +270,8 @@ const MATRIX: Row[] = [
 	}
 ];
 
+const MATRIX: Row[] = [...BASE_ROWS, ...PARTS.flatMap((part) => part.rows)];
+
 /** A ready recording in each clinic, with a tiny rendition and poster in storage and a captions track. */
 async function seedRecordings(): Promise<
 	Pick<Fixture, 'recordingId' | 'otherClinicRecordingId' | 'trackId' | 'otherClinicTrackId'>
@@ -359,8 +331,12 @@ test.describe('role matrix', () => {
 			clinicId: idOf("select id from clinic where name = 'Alder Street Community Clinic'"),
 			otherClinicId: idOf("select id from clinic where name = 'Harbour Lane Physiotherapy'"),
 			messageId: messages[0].id,
-			...(await seedRecordings())
+			...(await seedRecordings()),
+			extra: {}
 		};
+		for (const part of PARTS) {
+			if (part.seed) Object.assign(fixture.extra, await part.seed(fixture));
+		}
 		for (const role of MATRIX_ROLES) contexts.set(role, await contextFor(role));
 	});
 

@@ -8,6 +8,10 @@ export type StaffRole = (typeof STAFF_ROLES)[number];
 export const clinics = sqliteTable('clinic', {
 	id: uuidPrimaryKey(),
 	name: text('name').notNull(),
+	/** The captioning guideline profile the studio checks against by default (lib/captions/checks). */
+	captionProfile: text('caption_profile', { enum: ['bbc', 'dcmp'] })
+		.notNull()
+		.default('bbc'),
 	createdAt: timestampNow('created_at')
 });
 

@@ -6,3 +6,5 @@ export * from './audit';
 export * from './recordings';
 export * from './jobs';
 export * from './captions';
+export * from './segments';
+export * from './programmes';

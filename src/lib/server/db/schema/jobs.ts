@@ -1,8 +1,9 @@
 import { index, integer, real, sqliteTable, text } from 'drizzle-orm/sqlite-core';
 import { timestampNow, uuidPrimaryKey } from './columns';
 import { recordings } from './recordings';
+import { segments } from './segments';
 
-export const JOB_KINDS = ['process-recording'] as const;
+export const JOB_KINDS = ['process-recording', 'cut-segment'] as const;
 export type JobKind = (typeof JOB_KINDS)[number];
 export const JOB_STATUSES = ['queued', 'running', 'succeeded', 'failed', 'cancelled'] as const;
 export type JobStatus = (typeof JOB_STATUSES)[number];
@@ -19,6 +20,8 @@ export const jobs = sqliteTable(
 		recordingId: text('recording_id')
 			.notNull()
 			.references(() => recordings.id, { onDelete: 'cascade' }),
+		/** For a cut-segment job: the segment whose clip, posters and captions it makes. */
+		segmentId: text('segment_id').references(() => segments.id, { onDelete: 'cascade' }),
 		status: text('status', { enum: JOB_STATUSES }).notNull().default('queued'),
 		attempts: integer('attempts').notNull().default(0),
 		maxAttempts: integer('max_attempts').notNull().default(3),

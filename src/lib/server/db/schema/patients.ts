@@ -3,6 +3,13 @@ import { timestampNow, uuidPrimaryKey } from './columns';
 import { users } from './auth';
 import { clinics } from './clinics';
 
+/** A patient's caption look; colours are #rrggbb, checked for contrast before saving. */
+export interface CaptionStyle {
+	sizePercent: number;
+	color: string;
+	background: string;
+}
+
 export const SIDES = ['left', 'right', 'both', 'not applicable'] as const;
 
 /**
@@ -22,6 +29,16 @@ export const patients = sqliteTable(
 		affectedSide: text('affected_side', { enum: SIDES }).notNull().default('not applicable'),
 		/** What the programme is for, in the clinician's words, e.g. "left total knee replacement". */
 		condition: text('condition').notNull().default(''),
+		/** The operation or injury date, 'YYYY-MM-DD' in the patient's time zone, when there is one. */
+		operationDate: text('operation_date'),
+		/** The protocol the programme follows, e.g. a phase table id from lib/clinical/phases. */
+		protocol: text('protocol').notNull().default(''),
+		/** Precautions the clinician recorded (lib/clinical/precautions vocabulary or free text). */
+		precautions: text('precautions', { mode: 'json' }).notNull().$type<string[]>().default([]),
+		/** IANA time zone for the patient's calendar days (adherence, reminders). */
+		timeZone: text('time_zone').notNull().default('Europe/London'),
+		/** The patient's caption look on the replay screen (size, colours), chosen by them. */
+		captionStyle: text('caption_style', { mode: 'json' }).$type<CaptionStyle>(),
 		createdAt: timestampNow('created_at')
 	},
 	(p) => [

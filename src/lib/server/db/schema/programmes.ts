@@ -1,0 +1,244 @@
+import {
+	index,
+	integer,
+	primaryKey,
+	real,
+	sqliteTable,
+	text,
+	uniqueIndex
+} from 'drizzle-orm/sqlite-core';
+import { timestampNow, uuidPrimaryKey } from './columns';
+import type { DosageBounds, Progression } from '../../../dosage/types';
+import { users } from './auth';
+import { clinics } from './clinics';
+import { patients } from './patients';
+import { segments } from './segments';
+
+export const POSITIONS = ['supine', 'prone', 'side-lying', 'seated', 'standing'] as const;
+export const MOVEMENT_TYPES = ['passive', 'active-assisted', 'active', 'resisted'] as const;
+export const EXERCISE_SIDES = ['left', 'right', 'both', 'either', 'not applicable'] as const;
+export const EXERCISE_STATUSES = ['draft', 'ready', 'retired'] as const;
+export const PROGRAMME_STATUSES = ['draft', 'published', 'ended'] as const;
+export const ROM_MODES = ['active', 'passive'] as const;
+
+/** A coaching cue, in order; `atSeconds` points at the moment in the segment it describes. */
+export interface CoachingCue {
+	text: string;
+	atSeconds?: number;
+}
+
+/** The six dosage columns, shared by an exercise's default and a programme item's own dosage. */
+const dosageColumns = () => ({
+	sets: integer('sets').notNull(),
+	reps: integer('reps').notNull(),
+	holdSeconds: integer('hold_seconds').notNull().default(0),
+	restSeconds: integer('rest_seconds').notNull().default(0),
+	sessionsPerDay: integer('sessions_per_day').notNull(),
+	daysPerWeek: integer('days_per_week').notNull()
+});
+
+/** An exercise a clinic prescribes: a segment of a demonstration plus what to do and what to mind. */
+export const exercises = sqliteTable(
+	'exercise',
+	{
+		id: uuidPrimaryKey(),
+		clinicId: text('clinic_id')
+			.notNull()
+			.references(() => clinics.id, { onDelete: 'cascade' }),
+		/** The demonstration; kept null (not deleted) if its recording goes, so programmes survive. */
+		segmentId: text('segment_id').references(() => segments.id, { onDelete: 'set null' }),
+		title: text('title').notNull(),
+		description: text('description').notNull().default(''),
+		bodyRegion: text('body_region').notNull(),
+		side: text('side', { enum: EXERCISE_SIDES }).notNull().default('not applicable'),
+		position: text('position', { enum: POSITIONS }).notNull(),
+		movementType: text('movement_type', { enum: MOVEMENT_TYPES }).notNull(),
+		equipment: text('equipment', { mode: 'json' }).notNull().$type<string[]>().default([]),
+		/** Protocol phase from 1 (earliest); see lib/clinical/phases. */
+		phase: integer('phase').notNull().default(1),
+		coachingCues: text('coaching_cues', { mode: 'json' })
+			.notNull()
+			.$type<CoachingCue[]>()
+			.default([]),
+		/** Markdown; rendered with marked and cleaned with sanitize-html on an allow-list. */
+		safetyNotes: text('safety_notes').notNull().default(''),
+		precautionTags: text('precaution_tags', { mode: 'json' })
+			.notNull()
+			.$type<string[]>()
+			.default([]),
+		...dosageColumns(),
+		dosageBounds: text('dosage_bounds', { mode: 'json' }).$type<DosageBounds>(),
+		progression: text('progression', { mode: 'json' })
+			.notNull()
+			.$type<Progression>()
+			.default({ kind: 'none' }),
+		/** Seconds one repetition takes, when the segment's length per rep would mislead. */
+		secondsPerRep: real('seconds_per_rep'),
+		status: text('status', { enum: EXERCISE_STATUSES }).notNull().default('draft'),
+		createdBy: text('created_by').references(() => users.id, { onDelete: 'set null' }),
+		createdAt: timestampNow('created_at'),
+		updatedAt: timestampNow('updated_at')
+	},
+	(e) => [
+		index('exercise_clinic').on(e.clinicId, e.status),
+		index('exercise_segment').on(e.segmentId)
+	]
+);
+
+/** A patient's home programme. Dates are 'YYYY-MM-DD' in the patient's time zone. */
+export const programmes = sqliteTable(
+	'programme',
+	{
+		id: uuidPrimaryKey(),
+		clinicId: text('clinic_id')
+			.notNull()
+			.references(() => clinics.id, { onDelete: 'cascade' }),
+		patientId: text('patient_id')
+			.notNull()
+			.references(() => patients.id, { onDelete: 'cascade' }),
+		title: text('title').notNull(),
+		status: text('status', { enum: PROGRAMME_STATUSES }).notNull().default('draft'),
+		startDate: text('start_date').notNull(),
+		endDate: text('end_date'),
+		/** A note to the patient shown on Today and the printed sheet. */
+		note: text('note').notNull().default(''),
+		createdBy: text('created_by').references(() => users.id, { onDelete: 'set null' }),
+		createdAt: timestampNow('created_at'),
+		updatedAt: timestampNow('updated_at'),
+		publishedAt: integer('published_at', { mode: 'timestamp_ms' })
+	},
+	(p) => [
+		index('programme_patient').on(p.patientId, p.status),
+		index('programme_clinic').on(p.clinicId)
+	]
+);
+
+/** One exercise in a programme, in order, with this patient's own dosage and progression. */
+export const programmeItems = sqliteTable(
+	'programme_item',
+	{
+		id: uuidPrimaryKey(),
+		programmeId: text('programme_id')
+			.notNull()
+			.references(() => programmes.id, { onDelete: 'cascade' }),
+		exerciseId: text('exercise_id')
+			.notNull()
+			.references(() => exercises.id, { onDelete: 'restrict' }),
+		position: integer('position').notNull(),
+		...dosageColumns(),
+		progression: text('progression', { mode: 'json' })
+			.notNull()
+			.$type<Progression>()
+			.default({ kind: 'none' })
+	},
+	(i) => [index('programme_item_programme').on(i.programmeId, i.position)]
+);
+
+/** Days a programme is paused (illness, a review visit): no sessions are due on them. */
+export const programmePauses = sqliteTable(
+	'programme_pause',
+	{
+		id: uuidPrimaryKey(),
+		programmeId: text('programme_id')
+			.notNull()
+			.references(() => programmes.id, { onDelete: 'cascade' }),
+		fromDate: text('from_date').notNull(),
+		toDate: text('to_date').notNull(),
+		reason: text('reason').notNull().default('')
+	},
+	(p) => [index('programme_pause_programme').on(p.programmeId)]
+);
+
+/**
+ * One session a patient did. `clientId` is made on the patient's device, so a log sent again after
+ * a dropped connection (or from the offline queue) is stored once.
+ */
+export const sessionLogs = sqliteTable(
+	'session_log',
+	{
+		id: uuidPrimaryKey(),
+		clinicId: text('clinic_id')
+			.notNull()
+			.references(() => clinics.id, { onDelete: 'cascade' }),
+		patientId: text('patient_id')
+			.notNull()
+			.references(() => patients.id, { onDelete: 'cascade' }),
+		programmeItemId: text('programme_item_id')
+			.notNull()
+			.references(() => programmeItems.id, { onDelete: 'cascade' }),
+		clientId: text('client_id').notNull(),
+		/** When the patient pressed "done" (their device's clock). */
+		doneAt: integer('done_at', { mode: 'timestamp_ms' }).notNull(),
+		/** The patient's calendar day of `doneAt`, in their time zone. */
+		localDate: text('local_date').notNull(),
+		setsDone: integer('sets_done').notNull(),
+		repsDone: integer('reps_done').notNull(),
+		/** 0–10 on the numeric rating scale. */
+		pain: integer('pain').notNull(),
+		note: text('note').notNull().default(''),
+		createdAt: timestampNow('created_at')
+	},
+	(l) => [
+		uniqueIndex('session_log_client').on(l.patientId, l.clientId),
+		index('session_log_patient_date').on(l.patientId, l.localDate),
+		index('session_log_item').on(l.programmeItemId)
+	]
+);
+
+/** That a patient read an exercise's safety notes before its first replay. */
+export const safetyAcknowledgements = sqliteTable(
+	'safety_acknowledgement',
+	{
+		patientId: text('patient_id')
+			.notNull()
+			.references(() => patients.id, { onDelete: 'cascade' }),
+		exerciseId: text('exercise_id')
+			.notNull()
+			.references(() => exercises.id, { onDelete: 'cascade' }),
+		acknowledgedAt: timestampNow('acknowledged_at')
+	},
+	(a) => [primaryKey({ columns: [a.patientId, a.exerciseId] })]
+);
+
+/** A goniometer reading taken by a clinician. `motion` names an entry of lib/clinical/rom. */
+export const romMeasurements = sqliteTable(
+	'rom_measurement',
+	{
+		id: uuidPrimaryKey(),
+		clinicId: text('clinic_id')
+			.notNull()
+			.references(() => clinics.id, { onDelete: 'cascade' }),
+		patientId: text('patient_id')
+			.notNull()
+			.references(() => patients.id, { onDelete: 'cascade' }),
+		motion: text('motion').notNull(),
+		side: text('side', { enum: ['left', 'right'] }).notNull(),
+		mode: text('mode', { enum: ROM_MODES }).notNull(),
+		degrees: real('degrees').notNull(),
+		measuredOn: text('measured_on').notNull(),
+		note: text('note').notNull().default(''),
+		recordedBy: text('recorded_by').references(() => users.id, { onDelete: 'set null' }),
+		createdAt: timestampNow('created_at')
+	},
+	(m) => [index('rom_patient').on(m.patientId, m.motion, m.measuredOn)]
+);
+
+/** Which weekly digests went out, so a restart or a second worker never sends one twice. */
+export const weeklyDigests = sqliteTable(
+	'weekly_digest',
+	{
+		id: uuidPrimaryKey(),
+		userId: text('user_id')
+			.notNull()
+			.references(() => users.id, { onDelete: 'cascade' }),
+		weekStart: text('week_start').notNull(),
+		sentAt: timestampNow('sent_at')
+	},
+	(d) => [uniqueIndex('weekly_digest_user_week').on(d.userId, d.weekStart)]
+);
+
+export type Exercise = typeof exercises.$inferSelect;
+export type Programme = typeof programmes.$inferSelect;
+export type ProgrammeItem = typeof programmeItems.$inferSelect;
+export type SessionLog = typeof sessionLogs.$inferSelect;
+export type RomMeasurement = typeof romMeasurements.$inferSelect;
