@@ -1,7 +1,9 @@
 import { fail } from '@sveltejs/kit';
 import { z } from 'zod';
 import { STAFF_ROLES } from '$lib/server/db/schema/clinics';
+import { profiles } from '$lib/captions/checks';
 import { requireRole } from '$lib/server/auth/guard';
+import { getClinicCaptionProfile, setClinicCaptionProfile } from '$lib/server/clinics';
 import { normaliseEmail, sendInvitation } from '$lib/server/invitations';
 import {
 	changeRole,
@@ -19,6 +21,12 @@ export const load: PageServerLoad = () => {
 	return {
 		clinicName: admin.clinicName,
 		selfId: admin.id,
+		captionProfile: getClinicCaptionProfile(admin.clinicId),
+		captionProfiles: Object.values(profiles).map((p) => ({
+			id: p.id,
+			label: p.label,
+			summary: `${p.maxCharsPerLine.value} characters a line, ${p.maxLines.value} lines, about ${p.targetWordsPerMinute.value} words a minute, at least ${p.minSeconds.value} s on screen`
+		})),
 		members: listMembers(admin.clinicId),
 		invitations: listStaffInvitations(admin.clinicId).map((i) => ({
 			id: i.id,
@@ -36,6 +44,7 @@ const inviteForm = z.object({
 });
 const roleForm = z.object({ membershipId: z.uuid(), role: z.enum(STAFF_ROLES) });
 const idForm = z.object({ id: z.uuid() });
+const profileForm = z.object({ profile: z.enum(['bbc', 'dcmp'], 'Choose a caption guideline.') });
 
 function failed(
 	action: string,
@@ -86,6 +95,13 @@ export const actions: Actions = {
 			throw e;
 		}
 		return { action: 'remove', saved: true };
+	},
+	captionProfile: async ({ request }) => {
+		const admin = requireRole('admin');
+		const parsed = profileForm.safeParse(Object.fromEntries(await request.formData()));
+		if (!parsed.success) return failed('captionProfile', parsed.error.issues[0].message);
+		setClinicCaptionProfile(admin.clinicId, parsed.data.profile);
+		return { action: 'captionProfile', saved: true };
 	},
 	revoke: async ({ request }) => {
 		const admin = requireRole('admin');

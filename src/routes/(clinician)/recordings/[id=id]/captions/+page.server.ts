@@ -13,6 +13,7 @@ import {
 	listVersions,
 	restoreVersion
 } from '$lib/server/captions';
+import { getClinicCaptionProfile } from '$lib/server/clinics';
 import { requireOwnRecording } from '$lib/server/recordings/guard';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -22,12 +23,12 @@ function ownTrack(clinicId: string, recordingId: string, trackId: unknown) {
 	return track;
 }
 
-const profile = profiles.bbc;
 // The studio is where findings get fixed; this page only shows enough to know where to start.
 const MAX_FINDINGS_SHOWN = 30;
 
 export const load: PageServerLoad = ({ params, url }) => {
 	const { clinician, recording } = requireOwnRecording(params.id);
+	const profile = profiles[getClinicCaptionProfile(clinician.clinicId)];
 	const tracks = listTracks(clinician.clinicId, recording.id).map((summary) => {
 		const track = findTrack(clinician.clinicId, summary.id)!;
 		const findings = checkCues(getVersion(track)?.cues ?? [], profile);
