@@ -1,0 +1,22 @@
+/** A dosage in the words a patient reads on their programme. */
+import type { Dosage } from './types';
+
+const count = (n: number, one: string, many: string) => `${n} ${n === 1 ? one : many}`;
+
+/** Times a day in words: "once a day", "twice a day", "3 times a day". */
+export function timesADay(n: number): string {
+	if (n === 1) return 'once a day';
+	if (n === 2) return 'twice a day';
+	return `${n} times a day`;
+}
+
+/** E.g. "1 set of 8 reps, hold 5 seconds, rest 30 seconds between sets; 3 times a day, every day." */
+export function describeDosage(d: Dosage): string {
+	const parts = [`${count(d.sets, 'set', 'sets')} of ${count(d.reps, 'rep', 'reps')}`];
+	if (d.holdSeconds > 0) parts.push(`hold ${count(d.holdSeconds, 'second', 'seconds')}`);
+	if (d.sets > 1 && d.restSeconds > 0) {
+		parts.push(`rest ${count(d.restSeconds, 'second', 'seconds')} between sets`);
+	}
+	const days = d.daysPerWeek === 7 ? 'every day' : `${count(d.daysPerWeek, 'day', 'days')} a week`;
+	return `${parts.join(', ')}; ${timesADay(d.sessionsPerDay)}, ${days}.`;
+}
