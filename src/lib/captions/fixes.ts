@@ -243,3 +243,33 @@ function openTagsAt(text: string, at: number): string[] {
 	}
 	return open;
 }
+
+/**
+ * Splits cue text in two at the space (outside tags) nearest `fraction` of its visible
+ * characters, for splitting a cue at a chosen time; tags open at the split are closed and
+ * reopened. Text without a usable space stays whole on the left.
+ */
+export function splitTextNear(text: string, fraction: number): [string, string] {
+	const total = plainText(text).length;
+	let best: { at: number; distance: number } | null = null;
+	for (const m of text.matchAll(/\s+/g)) {
+		const at = m.index;
+		if (insideTag(text, at)) continue;
+		const left = plainText(text.slice(0, at)).trim();
+		if (left === '' || plainText(text.slice(at)).trim() === '') continue;
+		// Nearness to the time comes first; a sentence or clause end nearby wins a close call.
+		const pause = /[.!?]["'’”)]*$/.test(left) ? 0 : /[,;:–—]$/.test(left) ? 0.04 : 0.08;
+		const distance = Math.abs(left.length / Math.max(1, total) - fraction) + pause;
+		if (!best || distance < best.distance) best = { at, distance };
+	}
+	if (!best) return [text, ''];
+	const open = openTagsAt(text, best.at);
+	const closing = [...open]
+		.reverse()
+		.map((tag) => `</${tagName(tag)}>`)
+		.join('');
+	return [
+		text.slice(0, best.at).trimEnd() + closing,
+		open.join('') + text.slice(best.at).trimStart()
+	];
+}
