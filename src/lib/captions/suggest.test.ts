@@ -61,6 +61,27 @@ describe('suggestBoundaries on a known cue script with synthetic silences and cu
 		]);
 	});
 
+	it('names the exercise announced at each boundary, for a default title', () => {
+		// Worked out by hand from the script above: the words after each announcing or ordinal phrase.
+		expect(suggestions.map((s) => s.name)).toEqual([
+			'Ankle pumps',
+			'Heel slides',
+			'Straight leg raises',
+			'Bridge'
+		]);
+	});
+
+	it('gives each signal its phrase or its length, for short labels', () => {
+		const first = suggestions[0].signals;
+		expect(first.find((x) => x.kind === 'ordinal')?.phrase).toBe('first');
+		// Hand-worked: captions stop at 6 s and resume at 9 s; the silence runs 6.3–8.8 s.
+		expect(first.find((x) => x.kind === 'long-gap')?.seconds).toBe(3);
+		expect(first.find((x) => x.kind === 'silence')?.seconds).toBe(2.5);
+		const second = suggestions[1].signals;
+		expect(second.find((x) => x.kind === 'announcing-phrase')?.phrase).toBe('next exercise');
+		expect(second.find((x) => x.kind === 'scene-change')?.phrase).toBeUndefined();
+	});
+
 	it('scores more independent evidence higher', () => {
 		expect(suggestions.map((s) => s.score)).toEqual([0.82, 0.922, 0.909, 0.88]);
 	});

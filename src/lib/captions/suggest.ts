@@ -16,13 +16,20 @@ export type SignalKind =
 
 export interface Signal {
 	kind: SignalKind;
+	/** The evidence in words, e.g. `2.4 s of silence, 10.2 s to 12.6 s`. */
 	detail: string;
+	/** Text signals: the phrase or exercise name found, lower case. */
+	phrase?: string;
+	/** Quiet signals: how long the quiet lasts. */
+	seconds?: number;
 }
 
 export interface Suggestion {
 	time: number;
 	score: number;
 	signals: Signal[];
+	/** The exercise named at this boundary ("Heel slides"), as a default title for what follows. */
+	name?: string;
 }
 
 export interface WordLists {
@@ -139,6 +146,10 @@ const WEIGHT: Record<SignalKind, number> = {
 interface Candidate {
 	kind: SignalKind;
 	detail: string;
+	phrase?: string;
+	seconds?: number;
+	/** For an exercise-name-change: the name, lower case. */
+	name?: string;
 	/** Where the boundary may fall for this signal. */
 	from: number;
 	to: number;
@@ -146,7 +157,8 @@ interface Candidate {
 	at: number;
 }
 
-const secs = (s: number) => `${Math.round(s * 10) / 10} s`;
+const round = (s: number) => Math.round(s * 10) / 10;
+const secs = (s: number) => `${round(s)} s`;
 const quote = (text: string) => (text.length > 60 ? `"${text.slice(0, 57)}…"` : `"${text}"`);
 const escape = (s: string) => s.replace(/[.*+?^${}()|[\]\\]/g, '\\$&');
 const normalise = (s: string) => s.toLowerCase().replace(/[’‘]/g, "'").replace(/\s+/g, ' ');
@@ -198,7 +210,7 @@ function textCandidates(cues: readonly Cue[], lists: WordLists): Candidate[] {
 			const k = phraseIndex(text, phrase);
 			if (k < 0) continue;
 			const detail = `"${phrase.words}" in ${quote(plainText(cue.text))}`;
-			out.push({ ...base, kind: 'announcing-phrase', detail });
+			out.push({ ...base, kind: 'announcing-phrase', detail, phrase: phrase.words });
 			nameAt = k + phrase.words.length;
 			break;
 		}
@@ -208,7 +220,8 @@ function textCandidates(cues: readonly Cue[], lists: WordLists): Candidate[] {
 			out.push({
 				...base,
 				kind: 'ordinal',
-				detail: `"${word.words}" in ${quote(plainText(cue.text))}`
+				detail: `"${word.words}" in ${quote(plainText(cue.text))}`,
+				phrase: word.words
 			});
 			if (nameAt < 0) nameAt = k + word.words.length;
 			break;
@@ -219,7 +232,7 @@ function textCandidates(cues: readonly Cue[], lists: WordLists): Candidate[] {
 			const detail = lastName
 				? `"${name}" after "${lastName}"`
 				: `"${name}", the first exercise named`;
-			out.push({ ...base, kind: 'exercise-name-change', detail });
+			out.push({ ...base, kind: 'exercise-name-change', detail, phrase: name, name });
 			lastName = name;
 		}
 	});
@@ -234,7 +247,8 @@ function quietCandidates(input: SuggestInput, minGap: number, minSilence: number
 		const to = cues[i].start;
 		if (to - from >= minGap) {
 			const detail = `${secs(to - from)} without captions, ${secs(from)} to ${secs(to)}`;
-			out.push({ kind: 'long-gap', detail, from, to, at: (from + to) / 2 });
+			const seconds = round(to - from);
+			out.push({ kind: 'long-gap', detail, seconds, from, to, at: (from + to) / 2 });
 		}
 		// A long cue can cover later, shorter ones: the quiet starts after the latest end so far.
 		from = Math.max(from, cues[i].end);
@@ -242,7 +256,14 @@ function quietCandidates(input: SuggestInput, minGap: number, minSilence: number
 	for (const s of input.silences) {
 		if (s.end - s.start < minSilence) continue;
 		const detail = `${secs(s.end - s.start)} of silence, ${secs(s.start)} to ${secs(s.end)}`;
-		out.push({ kind: 'silence', detail, from: s.start, to: s.end, at: (s.start + s.end) / 2 });
+		out.push({
+			kind: 'silence',
+			detail,
+			seconds: round(s.end - s.start),
+			from: s.start,
+			to: s.end,
+			at: (s.start + s.end) / 2
+		});
 	}
 	for (const t of input.sceneChanges) {
 		out.push({
@@ -345,8 +366,20 @@ export function suggestBoundaries(input: SuggestInput, options: SuggestOptions):
 					const key = `${c.kind}|${c.detail}`;
 					return !seen.has(key) && (seen.add(key), true);
 				})
-				.map(({ kind, detail }) => ({ kind, detail }));
-			return { time, score: scoreOf(new Set(group.map((c) => c.kind))), signals };
+				.map(({ kind, detail, phrase, seconds }) => ({
+					kind,
+					detail,
+					...(phrase !== undefined ? { phrase } : {}),
+					...(seconds !== undefined ? { seconds } : {})
+				}));
+			const named = group.find((c) => c.name)?.name;
+			const suggestion: Suggestion = {
+				time,
+				score: scoreOf(new Set(group.map((c) => c.kind))),
+				signals
+			};
+			if (named) suggestion.name = named.charAt(0).toUpperCase() + named.slice(1);
+			return suggestion;
 		})
 		.filter(
 			(s) =>

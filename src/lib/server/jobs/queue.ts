@@ -6,7 +6,7 @@ type Tx = Parameters<Parameters<ReturnType<typeof db>['transaction']>[0]>[0];
 
 /** Queues a job, inside the caller's transaction when given one (so it lands with its record). */
 export function enqueue(
-	input: { kind: JobKind; recordingId: string; maxAttempts?: number },
+	input: { kind: JobKind; recordingId: string; segmentId?: string; maxAttempts?: number },
 	tx: Tx | ReturnType<typeof db> = db()
 ): Job {
 	return tx
@@ -14,6 +14,7 @@ export function enqueue(
 		.values({
 			kind: input.kind,
 			recordingId: input.recordingId,
+			segmentId: input.segmentId ?? null,
 			maxAttempts: input.maxAttempts ?? 3
 		})
 		.returning()
@@ -203,15 +204,32 @@ export function recoverStale(staleSeconds: number, now = new Date()): number {
 	return result.changes;
 }
 
-/** The newest job of a recording, for its page. */
-export function latestJobFor(recordingId: string): Job | null {
+/**
+ * The newest job of one kind for a recording, for its page. Processing is the default kind, so a
+ * recording's status never shows (or retries, or cancels) one of its segments' cuts.
+ */
+export function latestJobFor(recordingId: string, kind: JobKind = 'process-recording'): Job | null {
 	return (
 		db()
 			.select()
 			.from(jobs)
-			.where(eq(jobs.recordingId, recordingId))
+			.where(and(eq(jobs.recordingId, recordingId), eq(jobs.kind, kind)))
 			.orderBy(sql`${jobs.createdAt} desc`)
 			.limit(1)
 			.get() ?? null
 	);
+}
+
+/** The newest job of each of these segments, by segment id. */
+export function latestSegmentJobs(segmentIds: readonly string[]): Map<string, Job> {
+	const latest = new Map<string, Job>();
+	if (segmentIds.length === 0) return latest;
+	const rows = db()
+		.select()
+		.from(jobs)
+		.where(and(eq(jobs.kind, 'cut-segment'), inArray(jobs.segmentId, [...segmentIds])))
+		.orderBy(sql`${jobs.createdAt} asc`)
+		.all();
+	for (const row of rows) if (row.segmentId) latest.set(row.segmentId, row);
+	return latest;
 }

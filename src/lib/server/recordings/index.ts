@@ -52,6 +52,7 @@ export function listRecordings(
 			)
 		})
 		.from(jobs)
+		.where(eq(jobs.kind, 'process-recording'))
 		.as('latest');
 	const rows = db()
 		.select({ recording: recordings, progress: latest.progress, stage: latest.stage })

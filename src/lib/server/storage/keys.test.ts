@@ -9,6 +9,9 @@ describe('storage keys', () => {
 		expect(keys.rendition).toBe('clinics/c-1/recordings/r_2/rendition.mp4');
 		expect(keys.poster(0)).toBe('clinics/c-1/recordings/r_2/posters/0.jpg');
 		expect(keys.segment('s3')).toBe('clinics/c-1/recordings/r_2/segments/s3.mp4');
+		expect(keys.segmentPoster('s3', 1)).toBe(
+			'clinics/c-1/recordings/r_2/segments/s3/posters/1.jpg'
+		);
 		expect(clinicPrefix('c-1')).toBe('clinics/c-1/');
 	});
 
@@ -34,5 +37,7 @@ describe('storage keys', () => {
 		for (const index of [-1, 1.5, Number.NaN])
 			expect(() => keys.poster(index)).toThrow(/poster index/);
 		expect(() => keys.segment('../../other')).toThrow(/segment id/);
+		expect(() => keys.segmentPoster('../x', 0)).toThrow(/segment id/);
+		expect(() => keys.segmentPoster('s', -1)).toThrow(/poster index/);
 	});
 });

@@ -7,6 +7,7 @@
  *   clinics/<clinic>/recordings/<recording>/posters/<n>.jpg
  *   clinics/<clinic>/recordings/<recording>/sprite.jpg, waveform.json   (the studio's timeline)
  *   clinics/<clinic>/recordings/<recording>/segments/<segment>.mp4
+ *   clinics/<clinic>/recordings/<recording>/segments/<segment>/posters/<n>.jpg
  *   library/<published-version>/rendition.mp4, posters/<n>.jpg, segments/<segment>.mp4
  */
 
@@ -30,10 +31,18 @@ export interface MediaKeys {
 	waveform: string;
 	poster(index: number): string;
 	segment(segmentId: string): string;
+	segmentPoster(segmentId: string, index: number): string;
 }
 
 export interface RecordingKeys extends MediaKeys {
 	original: string;
+}
+
+function posterIndex(index: number): number {
+	if (!Number.isSafeInteger(index) || index < 0) {
+		throw new Error(`Invalid poster index for a storage key: ${index}.`);
+	}
+	return index;
 }
 
 function mediaKeys(prefix: string): MediaKeys {
@@ -43,13 +52,13 @@ function mediaKeys(prefix: string): MediaKeys {
 		sprite: `${prefix}sprite.jpg`,
 		waveform: `${prefix}waveform.json`,
 		poster(index) {
-			if (!Number.isSafeInteger(index) || index < 0) {
-				throw new Error(`Invalid poster index for a storage key: ${index}.`);
-			}
-			return `${prefix}posters/${index}.jpg`;
+			return `${prefix}posters/${posterIndex(index)}.jpg`;
 		},
 		segment(segmentId) {
 			return `${prefix}segments/${keySegment(segmentId, 'segment id')}.mp4`;
+		},
+		segmentPoster(segmentId, index) {
+			return `${prefix}segments/${keySegment(segmentId, 'segment id')}/posters/${posterIndex(index)}.jpg`;
 		}
 	};
 }
