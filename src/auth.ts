@@ -8,6 +8,7 @@ import { config } from '$lib/server/config';
 import { db, schema } from '$lib/server/db';
 import { recordAudit } from '$lib/server/audit';
 import { authSecret } from '$lib/server/auth/secret';
+import { SESSION_MAX_AGE_SECONDS } from '$lib/server/auth/session';
 import { verifyPassword } from '$lib/server/auth/passwords';
 import { loadPrincipal } from '$lib/server/auth/principal';
 import { sendMail, smtpOptions } from '$lib/server/mail';
@@ -43,7 +44,7 @@ export const {
 	}),
 	secret: authSecret(),
 	trustHost: true,
-	session: { strategy: 'jwt', maxAge: 12 * 60 * 60 },
+	session: { strategy: 'jwt', maxAge: SESSION_MAX_AGE_SECONDS },
 	pages: { signIn: '/signin', verifyRequest: '/signin/link-sent', error: '/signin' },
 	providers: [
 		Credentials({

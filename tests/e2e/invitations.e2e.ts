@@ -86,7 +86,7 @@ test('an expired invitation link is refused with a clear message and changes not
 	expect(users.n).toBe(0);
 });
 
-test('a clinician invites a patient, who joins without a password and signs in by link', async ({
+test('a clinician invites a patient, who joins without a password, lands on Today, and later signs in by link', async ({
 	page,
 	browser
 }) => {
@@ -108,11 +108,16 @@ test('a clinician invites a patient, who joins without a password and signs in b
 	await patient.goto(link);
 	await patient.getByLabel('Your name').fill('Hattie Groves');
 	await patient.getByRole('button', { name: 'Accept and create my account' }).click();
-	await expect(patient).toHaveURL(/\/signin\?welcome=1/);
+	// Accepting signs the patient in at once and opens their programme.
+	await expect(patient).toHaveURL(/\/today$/);
+	await expect(patient.getByRole('heading', { level: 1 })).toContainText('Hattie');
 
+	// Later, without a password, they sign in with an e-mailed link.
+	await patient.getByRole('button', { name: 'Sign out' }).click();
+	await patient.goto('/signin');
 	const linkSince = Date.now();
 	const linkForm = patient.locator('form[action="?/link"]');
-	await expect(linkForm.getByLabel('E-mail address')).toHaveValue(email);
+	await linkForm.getByLabel('E-mail address').fill(email);
 	await linkForm.getByRole('button', { name: 'Send me a sign-in link' }).click();
 	const signInLink = firstLink(
 		(await waitForMail(email, linkSince, 'sign-in link')).text,

@@ -1,7 +1,9 @@
 import { error, fail, redirect } from '@sveltejs/kit';
 import { z } from 'zod';
 import { ROLE_LABELS } from '$lib/auth/roles';
+import { recordAudit } from '$lib/server/audit';
 import { PASSWORD_MIN_LENGTH } from '$lib/server/auth/passwords';
+import { startSession } from '$lib/server/auth/session';
 import {
 	acceptInvitation,
 	findInvitation,
@@ -46,7 +48,7 @@ const acceptForm = z
 	});
 
 export const actions: Actions = {
-	default: async ({ params, request }) => {
+	default: async ({ params, request, cookies, url }) => {
 		const found = pendingInvitation(params.token);
 		const raw = Object.fromEntries(await request.formData());
 		const parsed = acceptForm.safeParse({
@@ -64,15 +66,33 @@ export const actions: Actions = {
 				message: `Choose a password of at least ${PASSWORD_MIN_LENGTH} characters.`
 			});
 		}
+		let accepted: { userId: string; email: string };
 		try {
-			const accepted = await acceptInvitation(params.token, {
+			accepted = await acceptInvitation(params.token, {
 				name: parsed.data.name,
 				password: password || null
 			});
-			redirect(303, `/signin?welcome=1&email=${encodeURIComponent(accepted.email)}`);
 		} catch (thrown) {
 			if (thrown instanceof InvitationError) return fail(409, { name, message: thrown.message });
 			throw thrown;
 		}
+		if (found.invitation.role === 'patient') {
+			// The link came to their address, which is proof enough: a patient is signed in at
+			// once and goes straight to their programme, with or without a password.
+			await startSession(cookies, url, {
+				id: accepted.userId,
+				email: accepted.email,
+				name: parsed.data.name
+			});
+			recordAudit({
+				kind: 'sign-in',
+				clinicId: found.invitation.clinicId,
+				actorUserId: accepted.userId,
+				subject: accepted.email,
+				detail: { method: 'invitation link' }
+			});
+			redirect(303, '/today');
+		}
+		redirect(303, `/signin?welcome=1&email=${encodeURIComponent(accepted.email)}`);
 	}
 };
