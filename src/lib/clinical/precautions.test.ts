@@ -1,0 +1,84 @@
+import { describe, expect, it } from 'vitest';
+import {
+	CONFLICTS,
+	EXERCISE_TAGS,
+	PRECAUTIONS,
+	precautionConflicts,
+	resolvePrecaution,
+	resolveTag
+} from './precautions';
+
+describe('precaution conflicts', () => {
+	it('finds the biceps-repair clash DESIGN.md names ("needs active elbow flexion")', () => {
+		const conflicts = precautionConflicts(
+			['biceps-repair'],
+			['active-elbow-flexion', 'lying-prone']
+		);
+		expect(conflicts).toHaveLength(1);
+		expect(conflicts[0].precaution).toEqual({
+			kind: 'known',
+			id: 'biceps-repair',
+			label: 'Biceps repair: no active elbow flexion'
+		});
+		expect(conflicts[0].tag).toMatchObject({ kind: 'known', id: 'active-elbow-flexion' });
+		expect(conflicts[0].reason).toBe(
+			'Biceps repair: no active elbow flexion. This exercise needs active elbow flexion: bending the elbow with its own muscles works the repaired biceps.'
+		);
+	});
+
+	it('accepts the plain words as well as the id, ignoring case and spaces', () => {
+		const conflicts = precautionConflicts(
+			['  biceps repair:  NO active elbow flexion '],
+			['Needs active elbow flexion']
+		);
+		expect(conflicts.map((c) => c.tag.kind)).toEqual(['known']);
+	});
+
+	it('lists every clash, in the order of the patient’s precautions, without repeats', () => {
+		const conflicts = precautionConflicts(
+			['no-kneeling', 'non-weight-bearing', 'no-kneeling', ''],
+			['kneeling', 'single-leg-standing']
+		);
+		expect(conflicts.map((c) => c.reason)).toEqual([
+			'No kneeling. This exercise needs kneeling.',
+			'Non-weight-bearing on the operated leg. This exercise needs kneeling: kneeling takes weight through the leg.',
+			'Non-weight-bearing on the operated leg. This exercise stands on one leg: that puts all the weight through one leg.'
+		]);
+	});
+
+	it('finds nothing when the precautions do not touch the exercise', () => {
+		expect(precautionConflicts(['biceps-repair'], ['shoulder-above-90'])).toEqual([]);
+		expect(precautionConflicts([], ['kneeling'])).toEqual([]);
+		expect(precautionConflicts(['no-kneeling'], [])).toEqual([]);
+	});
+
+	it('matches free text with free text only, word for word', () => {
+		const conflicts = precautionConflicts(
+			['No overhead reaching'],
+			['no overhead  reaching', 'overhead']
+		);
+		expect(conflicts).toEqual([
+			{
+				precaution: { kind: 'free', text: 'No overhead reaching', label: 'No overhead reaching' },
+				tag: { kind: 'free', text: 'no overhead  reaching', label: 'no overhead  reaching' },
+				reason:
+					"The patient's precaution “No overhead reaching” matches this exercise's tag “no overhead  reaching”."
+			}
+		]);
+		// Free text never matches a vocabulary entry by accident of wording.
+		expect(precautionConflicts(['needs kneeling'], ['kneeling'])).toEqual([]);
+	});
+
+	it('keeps a vocabulary whose every conflict names real entries', () => {
+		for (const [precaution, tags] of Object.entries(CONFLICTS)) {
+			expect(Object.keys(PRECAUTIONS)).toContain(precaution);
+			for (const tag of Object.keys(tags)) expect(Object.keys(EXERCISE_TAGS)).toContain(tag);
+		}
+		expect(Object.keys(CONFLICTS).sort()).toEqual(Object.keys(PRECAUTIONS).sort());
+		expect(resolveTag('hasOwnProperty').kind).toBe('free');
+		expect(resolvePrecaution('No lying face down')).toMatchObject({
+			kind: 'known',
+			id: 'no-prone-lying'
+		});
+	});
+});

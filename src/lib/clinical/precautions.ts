@@ -1,0 +1,181 @@
+/**
+ * Precaution conflicts: a patient's precautions against an exercise's precaution tags. A small
+ * vocabulary in our own plain words covers the common post-operative cases; anything else is free
+ * text, and a free-text precaution conflicts with a tag of the same words. Conflicts are warnings
+ * for the clinician, who also judges which side an exercise works and whether it applies.
+ */
+
+/** What an exercise asks of the body, as tags on the exercise. */
+export const EXERCISE_TAGS = {
+	'active-elbow-flexion': 'needs active elbow flexion',
+	'active-shoulder-motion': 'needs active shoulder motion',
+	'shoulder-above-90': 'raises the arm above shoulder height (90°)',
+	'shoulder-external-rotation': 'turns the arm outward (external rotation)',
+	'weight-through-arm': 'puts weight through the arm',
+	'added-load': 'uses a weight or resistance band',
+	'full-weight-bearing': 'needs full weight through the leg',
+	'single-leg-standing': 'stands on one leg',
+	'standing-balance': 'needs standing balance without holding on',
+	'knee-flexion-beyond-90': 'bends the knee beyond 90°',
+	kneeling: 'needs kneeling',
+	'hip-flexion-beyond-90': 'bends the hip beyond 90°',
+	'hip-adduction-past-midline': 'brings the leg across the middle of the body',
+	'hip-internal-rotation': 'turns the hip inward',
+	'lying-prone': 'is done lying face down (prone)'
+} as const;
+
+export type ExerciseTag = keyof typeof EXERCISE_TAGS;
+
+/** Precautions a clinician records for a patient. */
+export const PRECAUTIONS = {
+	'biceps-repair': 'Biceps repair: no active elbow flexion',
+	'rotator-cuff-repair-passive-only':
+		'Rotator cuff repair: passive motion only on the operated side',
+	'shoulder-elevation-limit-90': 'Shoulder: keep the arm at or below shoulder height (90°)',
+	'shoulder-external-rotation-limit': 'Shoulder: limit outward rotation',
+	'no-weight-through-arm': 'No weight through the operated arm',
+	'no-added-load': 'No weights or resistance yet',
+	'non-weight-bearing': 'Non-weight-bearing on the operated leg',
+	'partial-weight-bearing': 'Partial weight-bearing on the operated leg',
+	'falls-risk': 'Falls risk: hold on to support when standing',
+	'knee-flexion-limit-90': 'Knee: bend no further than 90°',
+	'no-kneeling': 'No kneeling',
+	'posterior-hip-precautions':
+		'Hip replacement (posterior approach): no bending past 90°, no crossing the legs, no turning the hip inward',
+	'no-prone-lying': 'No lying face down'
+} as const;
+
+export type PrecautionId = keyof typeof PRECAUTIONS;
+
+/** Which tags each precaution conflicts with, and why ('' where the clash speaks for itself). */
+export const CONFLICTS: Record<PrecautionId, Partial<Record<ExerciseTag, string>>> = {
+	'biceps-repair': {
+		'active-elbow-flexion': 'bending the elbow with its own muscles works the repaired biceps',
+		'added-load': 'a load in the hand makes the biceps work'
+	},
+	'rotator-cuff-repair-passive-only': {
+		'active-shoulder-motion': 'moving the shoulder with its own muscles works the repaired tendon',
+		'weight-through-arm': 'taking weight through the arm loads the repair',
+		'added-load': 'a weight or band loads the repair'
+	},
+	'shoulder-elevation-limit-90': {
+		'shoulder-above-90': ''
+	},
+	'shoulder-external-rotation-limit': {
+		'shoulder-external-rotation': 'check the range against the limit set'
+	},
+	'no-weight-through-arm': {
+		'weight-through-arm': ''
+	},
+	'no-added-load': {
+		'added-load': ''
+	},
+	'non-weight-bearing': {
+		'full-weight-bearing': '',
+		'single-leg-standing': 'that puts all the weight through one leg',
+		kneeling: 'kneeling takes weight through the leg'
+	},
+	'partial-weight-bearing': {
+		'full-weight-bearing': '',
+		'single-leg-standing': 'that puts all the weight through one leg'
+	},
+	'falls-risk': {
+		'standing-balance': '',
+		'single-leg-standing': 'that risks a fall'
+	},
+	'knee-flexion-limit-90': {
+		'knee-flexion-beyond-90': '',
+		kneeling: 'kneeling bends the knee past 90°'
+	},
+	'no-kneeling': {
+		kneeling: ''
+	},
+	'posterior-hip-precautions': {
+		'hip-flexion-beyond-90': '',
+		'hip-adduction-past-midline': '',
+		'hip-internal-rotation': ''
+	},
+	'no-prone-lying': {
+		'lying-prone': ''
+	}
+};
+
+/** One precaution or tag, resolved: a vocabulary entry, or free text kept as written. */
+export type Resolved<Id extends string> =
+	| { kind: 'known'; id: Id; label: string }
+	| { kind: 'free'; text: string; label: string };
+
+/** Free text is compared trimmed, with runs of spaces as one and without regard to case. */
+export function normaliseFreeText(text: string): string {
+	return text.trim().replace(/\s+/g, ' ').toLowerCase();
+}
+
+function resolver<Id extends string>(vocabulary: Record<Id, string>) {
+	const byLabel = new Map<string, Id>();
+	for (const id of Object.keys(vocabulary) as Id[]) {
+		byLabel.set(normaliseFreeText(vocabulary[id]), id);
+	}
+	return (text: string): Resolved<Id> => {
+		const id = Object.hasOwn(vocabulary, text)
+			? (text as Id)
+			: byLabel.get(normaliseFreeText(text));
+		if (id !== undefined) return { kind: 'known', id, label: vocabulary[id] };
+		return { kind: 'free', text: text.trim(), label: text.trim() };
+	};
+}
+
+/** A stored precaution (an id, a vocabulary label, or free text) resolved against the vocabulary. */
+export const resolvePrecaution = resolver<PrecautionId>(PRECAUTIONS);
+
+/** A stored exercise tag (an id, a vocabulary label, or free text) resolved against the vocabulary. */
+export const resolveTag = resolver<ExerciseTag>(EXERCISE_TAGS);
+
+/** One clash between a patient's precaution and an exercise's tag. */
+export interface PrecautionConflict {
+	precaution: Resolved<PrecautionId>;
+	tag: Resolved<ExerciseTag>;
+	/** A sentence for the clinician. */
+	reason: string;
+}
+
+/** Shown with conflicts: the product flags; the clinician decides. */
+export const PRECAUTION_CAUTION =
+	'A reminder, not a rule: the treating clinician and the surgeon’s protocol decide what is safe for this patient.';
+
+/**
+ * Every conflict between a patient's precautions and an exercise's tags, in the patient's order:
+ * vocabulary pairs from CONFLICTS, and free text matching free text (see `normaliseFreeText`).
+ */
+export function precautionConflicts(
+	patientPrecautions: readonly string[],
+	exerciseTags: readonly string[]
+): PrecautionConflict[] {
+	const tags = exerciseTags.filter((t) => t.trim() !== '').map(resolveTag);
+	const conflicts: PrecautionConflict[] = [];
+	const seen = new Set<string>();
+	for (const raw of patientPrecautions) {
+		if (raw.trim() === '') continue;
+		const precaution = resolvePrecaution(raw);
+		for (const tag of tags) {
+			let reason: string | undefined;
+			if (precaution.kind === 'known' && tag.kind === 'known') {
+				const why = CONFLICTS[precaution.id][tag.id];
+				if (why !== undefined) {
+					reason = `${precaution.label}. This exercise ${tag.label}${why ? `: ${why}` : ''}.`;
+				}
+			} else if (
+				precaution.kind === 'free' &&
+				tag.kind === 'free' &&
+				normaliseFreeText(precaution.text) === normaliseFreeText(tag.text)
+			) {
+				reason = `The patient's precaution “${precaution.label}” matches this exercise's tag “${tag.label}”.`;
+			}
+			const key = `${precaution.label}\u0000${tag.label}`;
+			if (reason && !seen.has(key)) {
+				seen.add(key);
+				conflicts.push({ precaution, tag, reason });
+			}
+		}
+	}
+	return conflicts;
+}
