@@ -8,3 +8,4 @@ export * from './jobs';
 export * from './captions';
 export * from './segments';
 export * from './programmes';
+export * from './library';
