@@ -3,6 +3,7 @@ import { describe, expect, it } from 'vitest';
 import {
 	adherence,
 	adherenceSummary,
+	adherenceToDate,
 	combinedAdherence,
 	describeAdherence,
 	prescribedSessions,
@@ -208,5 +209,45 @@ describe('adherence over the last 7 and 28 days', () => {
 			}),
 			{ numRuns: 150 }
 		);
+	});
+});
+
+describe('adherence to date', () => {
+	// Common practice: a day still in progress is not yet a missed day.
+	const item = (sessionsPerDay: number, loggedDates: string[]) => ({
+		schedule: { ...daily, sessionsPerDay },
+		loggedDates
+	});
+
+	it('counts today only for the sessions already logged', () => {
+		// Monday 11 to Sunday 17 May: 3 a day, all done until Saturday, one so far on Sunday.
+		const logs = [
+			...datesFrom('2026-05-11', '2026-05-16').flatMap((d) => repeat(d, 3)),
+			'2026-05-17'
+		];
+		const w = adherenceToDate([item(3, logs)], '2026-05-17', 7);
+		expect(w).toMatchObject({ from: '2026-05-11', to: '2026-05-17', prescribed: 19, counted: 19 });
+		expect(w.percent).toBe(100);
+		// The same days judged complete count Sunday's two missing sessions.
+		expect(adherence(daily, logs, '2026-05-17', 7)).toMatchObject({ prescribed: 21, counted: 19 });
+	});
+
+	it('shows a first session on the programme’s first day, and nothing before it', () => {
+		const first = {
+			schedule: { ...daily, startDate: '2026-05-17', sessionsPerDay: 2 },
+			loggedDates: ['2026-05-17']
+		};
+		expect(adherenceToDate([first], '2026-05-17', 7)).toMatchObject({
+			prescribed: 1,
+			counted: 1,
+			percent: 100
+		});
+		expect(adherenceToDate([{ ...first, loggedDates: [] }], '2026-05-17', 7).ratio).toBeNull();
+	});
+
+	it('keeps sessions beyond today’s prescription as extra, and refuses an empty window', () => {
+		const w = adherenceToDate([item(1, repeat('2026-05-17', 3))], '2026-05-17', 1);
+		expect(w).toMatchObject({ prescribed: 1, counted: 1, extra: 2 });
+		expect(() => adherenceToDate([], '2026-05-17', 0)).toThrow('at least 1');
 	});
 });

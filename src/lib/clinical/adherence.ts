@@ -187,3 +187,32 @@ export function describeAdherence(window: AdherenceWindow): string {
 	const extra = window.extra > 0 ? `, ${window.extra} extra` : '';
 	return `${window.counted} of ${window.prescribed} ${noun} (${window.percent}%)${extra}`;
 }
+
+/**
+ * Adherence over the `days` days ending on `today`, where today counts only the sessions already
+ * logged (at most today's prescription): a day in progress cannot be missed yet, yet a session
+ * done this morning shows at once. The days before today count in full, as in `adherence`.
+ */
+export function adherenceToDate(
+	items: readonly { schedule: Schedule; loggedDates: readonly LocalDate[] }[],
+	today: LocalDate,
+	days: number
+): AdherenceWindow {
+	if (!Number.isInteger(days) || days < 1) {
+		throw new RangeError(`A window is a whole number of days, at least 1, not ${days}.`);
+	}
+	const past = days > 1 ? combinedAdherence(items, addDays(today, -1), days - 1) : null;
+	const now = combinedAdherence(items, today, 1);
+	const prescribed = (past?.prescribed ?? 0) + now.counted;
+	const counted = (past?.counted ?? 0) + now.counted;
+	const ratio = prescribed === 0 ? null : counted / prescribed;
+	return {
+		from: addDays(today, 1 - days),
+		to: today,
+		prescribed,
+		counted,
+		extra: (past?.extra ?? 0) + now.extra,
+		ratio,
+		percent: ratio === null ? null : Math.round(ratio * 100)
+	};
+}
