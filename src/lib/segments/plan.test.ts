@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import {
 	addBoundary,
 	confidenceLabel,
+	draftFromSegments,
 	draftFromSuggestions,
 	draftSegments,
 	emptyDraft,
@@ -76,6 +77,7 @@ describe('editing a draft of segments', () => {
 		const draft = added(added(emptyDraft(), 20, 'Ankle pumps'), 40, 'Heel slides');
 		const merged = removeBoundary(draft, 1);
 		expect(merged.boundaries).toEqual([20]);
+		expect(merged.sources).toEqual([null]);
 		expect(merged.parts).toEqual([
 			{ title: '', include: false },
 			{ title: 'Ankle pumps', include: true }
@@ -95,9 +97,32 @@ describe('editing a draft of segments', () => {
 		);
 		// 12.4 s is within a second of 12 s and is dropped.
 		expect(draft.boundaries).toEqual([12, 41.5]);
+		expect(draft.sources).toEqual([1, 0]);
 		expect(planFromDraft(draft, DURATION)).toEqual([
 			{ title: 'Ankle pumps', start: 12, end: 41.5 },
 			{ title: 'Heel slides', start: 41.5, end: 60 }
+		]);
+	});
+});
+
+describe('showing confirmed segments again', () => {
+	it('puts a boundary at every inner edge and leaves the gaps out', () => {
+		const draft = draftFromSegments(
+			[
+				{ title: 'Heel slides', start: 30, end: 60 },
+				{ title: 'Ankle pumps', start: 10, end: 30 }
+			],
+			DURATION
+		);
+		expect(draft.boundaries).toEqual([10, 30]);
+		expect(draft.parts).toEqual([
+			{ title: '', include: false },
+			{ title: 'Ankle pumps', include: true },
+			{ title: 'Heel slides', include: true }
+		]);
+		expect(planFromDraft(draft, DURATION)).toEqual([
+			{ title: 'Ankle pumps', start: 10, end: 30 },
+			{ title: 'Heel slides', start: 30, end: 60 }
 		]);
 	});
 });
@@ -134,6 +159,19 @@ describe('checking a plan before it is confirmed', () => {
 			'Segment 3 ends after the recording does (1:00.0).'
 		]);
 		expect(planProblems([], DURATION)).toEqual(['Keep at least one segment to confirm.']);
+		expect(
+			planProblems(
+				[
+					{ title: 'A', start: 0, end: 10 },
+					{ title: '', start: 5, end: 20 }
+				],
+				DURATION,
+				(i) => `Part ${i * 2 + 1}`
+			)
+		).toEqual([
+			'Part 3 needs a name.',
+			'Part 3 starts before part 1 ends; segments may not overlap.'
+		]);
 		expect(planProblems([{ title: 'A', start: Number.NaN, end: 3 }], DURATION)).toEqual([
 			'Segment 1 needs a start and an end time.'
 		]);

@@ -29,6 +29,8 @@ export interface DraftPart {
 /** `parts.length === boundaries.length + 1`; boundaries sorted, strictly inside the recording. */
 export interface Draft {
 	boundaries: number[];
+	/** For each boundary, the suggestion it was accepted from (an index), or null. */
+	sources: (number | null)[];
 	parts: DraftPart[];
 }
 
@@ -41,7 +43,7 @@ export interface DraftSegment extends DraftPart {
 const ms = (t: number) => Math.round(t * 1000) / 1000;
 
 export function emptyDraft(): Draft {
-	return { boundaries: [], parts: [{ title: '', include: true }] };
+	return { boundaries: [], sources: [], parts: [{ title: '', include: true }] };
 }
 
 /** The parts of a draft with their times. */
@@ -76,7 +78,8 @@ export function addBoundary(
 	draft: Draft,
 	time: number,
 	durationSeconds: number,
-	title = ''
+	title = '',
+	source: number | null = null
 ): DraftChange {
 	const t = ms(time);
 	if (!(t >= MIN_SEGMENT_SECONDS && t <= durationSeconds - MIN_SEGMENT_SECONDS)) {
@@ -107,7 +110,8 @@ export function addBoundary(
 		...draft.parts.slice(index + 1)
 	];
 	const boundaries = [...draft.boundaries.slice(0, index), t, ...draft.boundaries.slice(index)];
-	return { ok: true, draft: { boundaries, parts }, index };
+	const sources = [...draft.sources.slice(0, index), source, ...draft.sources.slice(index)];
+	return { ok: true, draft: { boundaries, sources, parts }, index };
 }
 
 /** Moves boundary `index` to `time`, held between its neighbours with room for a segment. */
@@ -139,6 +143,7 @@ export function removeBoundary(draft: Draft, index: number): Draft {
 	};
 	return {
 		boundaries: draft.boundaries.filter((_, i) => i !== index),
+		sources: draft.sources.filter((_, i) => i !== index),
 		parts: [...draft.parts.slice(0, index), merged, ...draft.parts.slice(index + 2)]
 	};
 }
@@ -154,11 +159,35 @@ export function draftFromSuggestions(
 	durationSeconds: number
 ): Draft {
 	let draft = emptyDraft();
-	for (const s of [...suggestions].sort((a, b) => a.time - b.time)) {
-		const next = addBoundary(draft, s.time, durationSeconds, s.name ?? '');
+	const order = suggestions.map((s, i) => ({ ...s, i })).sort((a, b) => a.time - b.time);
+	for (const s of order) {
+		const next = addBoundary(draft, s.time, durationSeconds, s.name ?? '', s.i);
 		if (next.ok) draft = next.draft;
 	}
 	return draft;
+}
+
+/**
+ * A draft that shows confirmed segments again, for adjusting: a boundary at every start and end
+ * inside the recording; the stretches between segments are left-out parts.
+ */
+export function draftFromSegments(
+	segments: readonly PlannedSegment[],
+	durationSeconds: number
+): Draft {
+	const sorted = [...segments].sort((a, b) => a.start - b.start);
+	const edges = [
+		...new Set(
+			sorted.flatMap((s) => [ms(s.start), ms(s.end)]).filter((t) => t > 0 && t < durationSeconds)
+		)
+	].sort((a, b) => a - b);
+	const all = [0, ...edges, durationSeconds];
+	const parts = all.slice(0, -1).map((start, i) => {
+		const end = all[i + 1];
+		const segment = sorted.find((s) => ms(s.start) <= start && ms(s.end) >= end);
+		return segment ? { title: segment.title, include: true } : { title: '', include: false };
+	});
+	return { boundaries: edges, sources: edges.map(() => null), parts };
 }
 
 /** The segments to confirm: the kept parts, titles trimmed. */
@@ -168,15 +197,23 @@ export function planFromDraft(draft: Draft, durationSeconds: number): PlannedSeg
 		.map((s) => ({ title: s.title.trim(), start: s.start, end: s.end }));
 }
 
-/** Everything wrong with a plan, one sentence each, numbered as the page numbers segments. */
-export function planProblems(plan: readonly PlannedSegment[], durationSeconds: number): string[] {
+/**
+ * Everything wrong with a plan, one sentence each. `label` names segment i in those sentences
+ * ("Segment 1" unless the page numbers its parts otherwise).
+ */
+export function planProblems(
+	plan: readonly PlannedSegment[],
+	durationSeconds: number,
+	label: (index: number) => string = (i) => `Segment ${i + 1}`
+): string[] {
 	const problems: string[] = [];
+	const lower = (text: string) => text.charAt(0).toLowerCase() + text.slice(1);
 	if (plan.length === 0) problems.push('Keep at least one segment to confirm.');
 	if (plan.length > MAX_SEGMENTS) {
 		problems.push(`A recording can have at most ${MAX_SEGMENTS} segments.`);
 	}
 	plan.forEach((s, i) => {
-		const n = `Segment ${i + 1}`;
+		const n = label(i);
 		const title = s.title.trim();
 		if (!title) problems.push(`${n} needs a name.`);
 		else if (title.length > MAX_TITLE_LENGTH) {
@@ -195,7 +232,7 @@ export function planProblems(plan: readonly PlannedSegment[], durationSeconds: n
 		}
 		const previous = plan[i - 1];
 		if (previous && s.start < previous.end - END_SLACK_SECONDS) {
-			problems.push(`${n} starts before segment ${i} ends; segments may not overlap.`);
+			problems.push(`${n} starts before ${lower(label(i - 1))} ends; segments may not overlap.`);
 		}
 	});
 	return problems;

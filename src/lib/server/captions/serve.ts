@@ -23,15 +23,26 @@ export function serveTrackFile(
 	if (version instanceof Response) return version;
 	const file = exportTrack(found.track, format, version);
 	if (!file) return apiError(404, `There is no version ${version} of this track.`);
+	return serveCaptionFile(request, { ...file, format });
+}
+
+/**
+ * Answers with a caption file that a strong `etag` names (never changing for that tag): the right
+ * type, revalidation on every use, inline for WebVTT (a `<track>` reads it) and a download for
+ * SRT, and 304 when the caller already holds it. Segment captions and chapters use it too.
+ */
+export function serveCaptionFile(
+	request: Request,
+	file: { body: string; etag: string; filename: string; format: CaptionFormat }
+): Response {
 	const headers = new Headers({
 		ETag: file.etag,
 		'Cache-Control': REVALIDATE,
-		'Content-Type': TYPES[format]
+		'Content-Type': TYPES[file.format]
 	});
-	// SRT is for taking elsewhere; WebVTT is what a <track> reads, so it stays inline.
 	headers.set(
 		'Content-Disposition',
-		`${format === 'srt' ? 'attachment' : 'inline'}; filename="${file.filename}"`
+		`${file.format === 'srt' ? 'attachment' : 'inline'}; filename="${file.filename}"`
 	);
 	if (matchesNoneMatch(request.headers.get('if-none-match'), file.etag)) {
 		headers.delete('Content-Type');

@@ -1,13 +1,15 @@
 import { config } from '../config';
 import { processRecordingHandler } from '../recordings/process';
 import { startUploadSweep } from '../recordings/uploads';
+import { cutSegmentHandler } from '../segments/job';
 import { startWorker, type Worker, type WorkerOptions } from './worker';
 
 let running: { worker: Worker; stopSweep: () => void } | undefined;
 
 /** Every kind of job this codebase knows how to run. */
 export const HANDLERS: WorkerOptions['handlers'] = {
-	'process-recording': processRecordingHandler
+	'process-recording': processRecordingHandler,
+	'cut-segment': cutSegmentHandler
 };
 
 /**

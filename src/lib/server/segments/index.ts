@@ -1,0 +1,591 @@
+/**
+ * A recording's segments: one exercise each, suggested from its captions, sound and picture,
+ * confirmed by a clinician, then cut to its own clip by a job. Confirmed segments never change:
+ * confirming again supersedes them (the rows stay, so exercises built on them keep working).
+ *
+ * No request-bound imports here: the stand-alone worker process loads this module through the
+ * cut-segment job. Endpoint access checks live in access.ts.
+ */
+import { createHash } from 'node:crypto';
+import { mkdtemp, rm } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { and, asc, desc, eq, inArray, isNull } from 'drizzle-orm';
+import { chaptersFromSegments, shiftAndClip } from '$lib/captions/segment';
+import { suggestBoundaries, type Suggestion } from '$lib/captions/suggest';
+import { plainText } from '$lib/captions/text';
+import type { Cue } from '$lib/captions/types';
+import { serializeVtt } from '$lib/captions/vtt';
+import { planProblems, type PlannedSegment } from '$lib/segments/plan';
+import { createTrack, firstCaptionsTrack, getVersion, saveVersion } from '../captions';
+import { config } from '../config';
+import { db } from '../db';
+import {
+	captionTracks,
+	exercises,
+	programmeItems,
+	programmes,
+	recordings,
+	segments,
+	type CaptionTrack,
+	type Job,
+	type Recording,
+	type SegmentRow,
+	type SegmentStatus
+} from '../db/schema';
+import * as queue from '../jobs/queue';
+import { recordingKeys } from '../storage/keys';
+import { downloadToFile } from '../storage/multipart';
+import { suggestForRecording } from './suggest';
+
+export type { SegmentRow, SegmentStatus };
+
+/** A refusal the caller can show as it is; `status` is the HTTP status an endpoint answers. */
+export class SegmentError extends Error {
+	constructor(
+		readonly status: number,
+		message: string,
+		readonly problems: string[] = []
+	) {
+		super(message);
+	}
+}
+
+/** Attempts a cut gets before its segment is marked failed. */
+export const CUT_ATTEMPTS = 3;
+
+// ---------------------------------------------------------------------------------------------
+// Suggestions
+
+export interface SuggestionsReady {
+	state: 'ready';
+	recordingId: string;
+	durationSeconds: number;
+	/** The captions the suggestions read: track version, or 0 when the recording has none. */
+	captionsVersion: number;
+	suggestions: Suggestion[];
+	/** Set when the sound and picture could not be read and only the captions were used. */
+	note: string | null;
+}
+
+export type SuggestionsAnswer = SuggestionsReady | { state: 'working'; recordingId: string };
+
+interface CacheEntry {
+	promise: Promise<SuggestionsReady>;
+	result: SuggestionsReady | null;
+	at: number;
+}
+
+// Detection takes seconds (two ffmpeg passes over the rendition); a page reload, or a second
+// clinician, should not pay again for the same rendition and captions. Keyed by recording and
+// captions version, so a caption save makes fresh suggestions.
+const CACHE_MAX = 50;
+const cache = new Map<string, CacheEntry>();
+// One detection at a time: each already keeps both cores busy.
+let detecting: Promise<unknown> = Promise.resolve();
+
+/** The recording's current captions: its first captions track and that track's newest cues. */
+export function currentCaptions(recording: Recording): {
+	track: CaptionTrack | null;
+	version: number;
+	cues: Cue[];
+	language: string;
+} {
+	const track = firstCaptionsTrack(recording.clinicId, recording.id);
+	const row = track ? getVersion(track) : null;
+	return {
+		track,
+		version: row?.version ?? 0,
+		cues: row?.cues ?? [],
+		language: track?.language ?? 'en'
+	};
+}
+
+async function detect(
+	recording: Recording,
+	cues: Cue[],
+	version: number
+): Promise<SuggestionsReady> {
+	const base = {
+		state: 'ready' as const,
+		recordingId: recording.id,
+		durationSeconds: recording.durationSeconds,
+		captionsVersion: version
+	};
+	const dir = await mkdtemp(join(config().MEDIA_WORK_DIR || tmpdir(), 'kinelume-suggest-'));
+	try {
+		const rendition = join(dir, 'rendition.mp4');
+		const keys = recordingKeys(recording.clinicId, recording.id);
+		if (!(await downloadToFile(keys.rendition, rendition))) {
+			throw new Error('The web version of this recording is missing from storage.');
+		}
+		const suggestions = await suggestForRecording(rendition, cues, recording.durationSeconds);
+		return { ...base, suggestions, note: null };
+	} catch (error) {
+		// The captions alone still say a good deal; the page says what was left out.
+		console.error(`[segments] detection for ${recording.id} failed:`, error);
+		return {
+			...base,
+			suggestions: suggestBoundaries(
+				{ cues, silences: [], sceneChanges: [], durationSeconds: recording.durationSeconds },
+				{ language: 'en' }
+			),
+			note: 'The sound and picture could not be read this time, so these suggestions come from the captions alone.'
+		};
+	} finally {
+		await rm(dir, { recursive: true, force: true });
+	}
+}
+
+/**
+ * Suggested boundaries for a ready recording. Waits up to `waitMs` for the detectors; if they
+ * are still running it answers `working` and the caller asks again (the work carries on).
+ */
+export async function suggestionsFor(
+	recording: Recording,
+	{ waitMs = 20_000 }: { waitMs?: number } = {}
+): Promise<SuggestionsAnswer> {
+	if (recording.status !== 'ready') {
+		throw new SegmentError(409, 'The recording is not ready yet; suggestions follow once it is.');
+	}
+	const captions = currentCaptions(recording);
+	const key = `${recording.id}:${captions.track?.id ?? '-'}:${captions.version}`;
+	let entry = cache.get(key);
+	if (!entry) {
+		const run = detecting.then(() => detect(recording, captions.cues, captions.version));
+		detecting = run.catch(() => undefined);
+		const created: CacheEntry = { promise: run, result: null, at: Date.now() };
+		run.then(
+			(result) => (created.result = result),
+			() => cache.delete(key)
+		);
+		if (cache.size >= CACHE_MAX) cache.delete(cache.keys().next().value!);
+		cache.set(key, created);
+		entry = created;
+	}
+	if (entry.result) return entry.result;
+	let timer: ReturnType<typeof setTimeout> | undefined;
+	const waited = await Promise.race([
+		entry.promise,
+		new Promise<null>((resolve) => (timer = setTimeout(() => resolve(null), waitMs)))
+	]).finally(() => clearTimeout(timer));
+	return waited ?? { state: 'working', recordingId: recording.id };
+}
+
+/** Forgets cached suggestions (tests, and a recording whose rendition was made again). */
+export function forgetSuggestions(recordingId?: string): void {
+	for (const key of [...cache.keys()]) {
+		if (!recordingId || key.startsWith(`${recordingId}:`)) cache.delete(key);
+	}
+}
+
+// ---------------------------------------------------------------------------------------------
+// Reading segments
+
+/** A segment of the clinic (superseded ones included, since exercises may still use them), or null. */
+export function findSegment(clinicId: string, segmentId: string): SegmentRow | null {
+	return (
+		db()
+			.select()
+			.from(segments)
+			.where(and(eq(segments.id, segmentId), eq(segments.clinicId, clinicId)))
+			.get() ?? null
+	);
+}
+
+export interface ReadySegment {
+	id: string;
+	recordingId: string;
+	recordingTitle: string;
+	position: number;
+	title: string;
+	startSeconds: number;
+	endSeconds: number;
+	durationSeconds: number;
+	posterCount: number;
+	cueCount: number;
+	captionsLanguage: string;
+}
+
+/** Every current, cut segment of the clinic, by recording and then order: what exercises pick from. */
+export function listReadySegments(clinicId: string): ReadySegment[] {
+	return db()
+		.select({ segment: segments, recordingTitle: recordings.title })
+		.from(segments)
+		.innerJoin(recordings, eq(recordings.id, segments.recordingId))
+		.where(
+			and(
+				eq(segments.clinicId, clinicId),
+				eq(segments.status, 'ready'),
+				isNull(segments.supersededAt)
+			)
+		)
+		.orderBy(asc(recordings.title), asc(segments.recordingId), asc(segments.position))
+		.all()
+		.map(({ segment: s, recordingTitle }) => ({
+			id: s.id,
+			recordingId: s.recordingId,
+			recordingTitle,
+			position: s.position,
+			title: s.title,
+			startSeconds: s.startSeconds,
+			endSeconds: s.endSeconds,
+			durationSeconds: s.clipDurationSeconds ?? s.endSeconds - s.startSeconds,
+			posterCount: s.posterCount,
+			cueCount: s.cues.length,
+			captionsLanguage: s.captionsLanguage
+		}));
+}
+
+/**
+ * Whether a patient may watch a segment: one of their PUBLISHED programmes has an item whose
+ * exercise is built on it. Drafts and ended programmes do not count.
+ */
+export function patientCanSeeSegment(patientId: string, segmentId: string): boolean {
+	const row = db()
+		.select({ id: programmeItems.id })
+		.from(programmeItems)
+		.innerJoin(programmes, eq(programmes.id, programmeItems.programmeId))
+		.innerJoin(exercises, eq(exercises.id, programmeItems.exerciseId))
+		.innerJoin(segments, eq(segments.id, exercises.segmentId))
+		.where(
+			and(
+				eq(programmes.patientId, patientId),
+				eq(programmes.status, 'published'),
+				eq(exercises.segmentId, segmentId),
+				eq(segments.clinicId, programmes.clinicId)
+			)
+		)
+		.limit(1)
+		.get();
+	return row !== undefined;
+}
+
+/** Where a segment's files are served. */
+export function segmentUrls(segmentId: string, posterCount: number) {
+	const base = `/api/segments/${segmentId}`;
+	return {
+		clip: `${base}/clip.mp4`,
+		posters: Array.from({ length: posterCount }, (_, i) => `${base}/poster-${i}.jpg`),
+		captions: `${base}/captions.vtt`,
+		transcript: `${base}/transcript.json`
+	};
+}
+
+export interface SegmentView {
+	id: string;
+	position: number;
+	title: string;
+	start: number;
+	end: number;
+	status: SegmentStatus;
+	failureReason: string | null;
+	clipDurationSeconds: number | null;
+	posterCount: number;
+	cueCount: number;
+	captionsLanguage: string;
+	job: {
+		status: Job['status'];
+		stage: string;
+		progress: number;
+		attempts: number;
+		maxAttempts: number;
+		lastError: string | null;
+	} | null;
+	urls: ReturnType<typeof segmentUrls>;
+}
+
+export interface RecordingSegments {
+	recordingId: string;
+	segments: SegmentView[];
+	/** Whether every segment has finished (ready or failed): the page stops polling. */
+	settled: boolean;
+	chapters: string | null;
+}
+
+/** The recording's current (not superseded) segments with their jobs, for its page and polling. */
+export function recordingSegments(recording: Recording): RecordingSegments {
+	const rows = db()
+		.select()
+		.from(segments)
+		.where(and(eq(segments.recordingId, recording.id), isNull(segments.supersededAt)))
+		.orderBy(asc(segments.position))
+		.all();
+	const jobs = queue.latestSegmentJobs(rows.map((r) => r.id));
+	const chapters = chaptersTrack(recording);
+	return {
+		recordingId: recording.id,
+		segments: rows.map((s) => {
+			const job = jobs.get(s.id);
+			return {
+				id: s.id,
+				position: s.position,
+				title: s.title,
+				start: s.startSeconds,
+				end: s.endSeconds,
+				status: s.status,
+				failureReason: s.failureReason,
+				clipDurationSeconds: s.clipDurationSeconds,
+				posterCount: s.posterCount,
+				cueCount: s.cues.length,
+				captionsLanguage: s.captionsLanguage,
+				job: job
+					? {
+							status: job.status,
+							stage: job.stage,
+							progress: job.progress,
+							attempts: job.attempts,
+							maxAttempts: job.maxAttempts,
+							lastError: job.lastError
+						}
+					: null,
+				urls: segmentUrls(s.id, s.status === 'ready' ? s.posterCount : 0)
+			};
+		}),
+		settled: rows.every((s) => s.status !== 'cutting'),
+		chapters:
+			chapters && chapters.currentVersion > 0
+				? `/api/recordings/${recording.id}/chapters.vtt`
+				: null
+	};
+}
+
+// ---------------------------------------------------------------------------------------------
+// Confirming
+
+export interface Confirmed {
+	segments: SegmentRow[];
+	/** The chapters track written from them, and its new version. */
+	chapters: { trackId: string; version: number };
+}
+
+/**
+ * Confirms a recording's segments. In one transaction the current segments are superseded (kept
+ * for exercises that use them), the new ones inserted as `cutting` with their cues (the current
+ * captions clipped to each and shifted to zero; a cue across a boundary is split), and one
+ * cut-segment job queued for each. Then the recording's chapters track gets a new version.
+ */
+export function confirmSegments(
+	clinician: { id: string; clinicId: string },
+	recordingId: string,
+	plan: readonly PlannedSegment[]
+): Confirmed {
+	const recording = db()
+		.select()
+		.from(recordings)
+		.where(and(eq(recordings.id, recordingId), eq(recordings.clinicId, clinician.clinicId)))
+		.get();
+	if (!recording) throw new SegmentError(404, 'Not found.');
+	if (recording.status !== 'ready') {
+		throw new SegmentError(409, 'Segments can be confirmed once the recording is ready.');
+	}
+	const cleaned = plan.map((s) => ({
+		title: s.title.trim().replace(/\s+/g, ' '),
+		start: Math.round(s.start * 1000) / 1000,
+		end: Math.min(Math.round(s.end * 1000) / 1000, recording.durationSeconds)
+	}));
+	const problems = planProblems(cleaned, recording.durationSeconds);
+	if (problems.length > 0) {
+		throw new SegmentError(
+			422,
+			problems.length === 1 ? problems[0] : `${problems.length} things need fixing first.`,
+			problems
+		);
+	}
+	const captions = currentCaptions(recording);
+	const now = new Date();
+	const inserted = db().transaction(
+		(tx) => {
+			tx.update(segments)
+				.set({ supersededAt: now })
+				.where(and(eq(segments.recordingId, recording.id), isNull(segments.supersededAt)))
+				.run();
+			return cleaned.map((s, position) => {
+				const row = tx
+					.insert(segments)
+					.values({
+						recordingId: recording.id,
+						clinicId: recording.clinicId,
+						position,
+						title: s.title,
+						startSeconds: s.start,
+						endSeconds: s.end,
+						status: 'cutting',
+						cues: shiftAndClip(captions.cues, s.start, s.end),
+						captionsVersion: captions.version,
+						captionsLanguage: captions.language,
+						createdBy: clinician.id,
+						createdAt: now
+					})
+					.returning()
+					.get();
+				queue.enqueue(
+					{
+						kind: 'cut-segment',
+						recordingId: recording.id,
+						segmentId: row.id,
+						maxAttempts: CUT_ATTEMPTS
+					},
+					tx
+				);
+				return row;
+			});
+		},
+		{ behavior: 'immediate' }
+	);
+	const chapters = writeChapters(recording, inserted, captions.language, clinician.id);
+	return { segments: inserted, chapters };
+}
+
+/** The recording's chapters track: the one in the captions' language, else its first. */
+function chaptersTrack(recording: Recording, language?: string): CaptionTrack | null {
+	const tracks = db()
+		.select()
+		.from(captionTracks)
+		.where(and(eq(captionTracks.recordingId, recording.id), eq(captionTracks.kind, 'chapters')))
+		.orderBy(asc(captionTracks.createdAt))
+		.all();
+	return tracks.find((t) => t.language === language) ?? tracks[0] ?? null;
+}
+
+/** The chapters track a recording's chapters.vtt serves, or null. */
+export function findChaptersTrack(recording: Recording): CaptionTrack | null {
+	return chaptersTrack(recording, currentCaptions(recording).language);
+}
+
+function writeChapters(
+	recording: Recording,
+	rows: readonly SegmentRow[],
+	language: string,
+	userId: string
+): { trackId: string; version: number } {
+	const track =
+		db()
+			.select()
+			.from(captionTracks)
+			.where(
+				and(
+					eq(captionTracks.recordingId, recording.id),
+					eq(captionTracks.kind, 'chapters'),
+					eq(captionTracks.language, language)
+				)
+			)
+			.get() ?? createTrack(recording, { kind: 'chapters', language });
+	const cues = chaptersFromSegments(
+		rows.map((r) => ({ start: r.startSeconds, end: r.endSeconds, title: r.title }))
+	);
+	let base = track.currentVersion;
+	// Chapters are made, never hand-edited here: a save that raced another just goes on top of it.
+	for (let attempt = 0; attempt < 3; attempt++) {
+		const saved = saveVersion(track, {
+			baseVersion: base,
+			cues,
+			note: `Chapters from ${rows.length} confirmed ${rows.length === 1 ? 'segment' : 'segments'}`,
+			source: 'generated',
+			userId
+		});
+		if (saved.ok) return { trackId: track.id, version: saved.version };
+		base = saved.conflict.current.version;
+	}
+	throw new SegmentError(409, 'The chapters track kept changing while it was being written.');
+}
+
+// ---------------------------------------------------------------------------------------------
+// Cutting outcomes
+
+/** Cuts a failed segment again with fresh attempts. Answers false when it had not failed. */
+export function retrySegment(clinicId: string, segmentId: string): boolean {
+	const segment = findSegment(clinicId, segmentId);
+	if (!segment || segment.status !== 'failed') return false;
+	const job = queue.latestSegmentJobs([segment.id]).get(segment.id);
+	db().transaction((tx) => {
+		tx.update(segments)
+			.set({ status: 'cutting', failureReason: null })
+			.where(eq(segments.id, segment.id))
+			.run();
+		if (!job || !queue.requeue(job.id)) {
+			queue.enqueue(
+				{
+					kind: 'cut-segment',
+					recordingId: segment.recordingId,
+					segmentId: segment.id,
+					maxAttempts: CUT_ATTEMPTS
+				},
+				tx
+			);
+		}
+	});
+	return true;
+}
+
+export function markSegmentFailed(segmentId: string, reason: string): void {
+	db()
+		.update(segments)
+		.set({ status: 'failed', failureReason: reason })
+		.where(and(eq(segments.id, segmentId), inArray(segments.status, ['cutting', 'failed'])))
+		.run();
+}
+
+/** Marks a segment ready, last, once its clip and posters are stored; false if it was gone. */
+export function markSegmentReady(
+	segmentId: string,
+	result: { clipDurationSeconds: number; clipSize: number; posterCount: number }
+): boolean {
+	const updated = db()
+		.update(segments)
+		.set({ status: 'ready', failureReason: null, ...result })
+		.where(eq(segments.id, segmentId))
+		.run();
+	return updated.changes > 0;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Captions of a segment
+
+/** Strong validator for a segment's cues in one format; they never change, so neither does it. */
+export function segmentTag(segment: SegmentRow, format: string): string {
+	const hash = createHash('sha256')
+		.update(`segment\n${segment.id}\n${segment.captionsVersion}\n${format}`)
+		.digest('base64url');
+	return `"${hash.slice(0, 32)}"`;
+}
+
+export function segmentVtt(segment: SegmentRow): { body: string; etag: string; filename: string } {
+	return {
+		body: serializeVtt(segment.cues),
+		etag: segmentTag(segment, 'vtt'),
+		filename: `segment-${segment.position + 1}-${segment.captionsLanguage.replace(/[^A-Za-z0-9-]/g, '')}.vtt`
+	};
+}
+
+export interface SegmentTranscript {
+	segmentId: string;
+	title: string;
+	language: string;
+	lines: { id: string; start: number; end: number; text: string; plain: string }[];
+}
+
+export function segmentTranscript(segment: SegmentRow): SegmentTranscript {
+	return {
+		segmentId: segment.id,
+		title: segment.title,
+		language: segment.captionsLanguage,
+		lines: segment.cues.map((cue) => ({
+			id: cue.id,
+			start: cue.start,
+			end: cue.end,
+			text: cue.text,
+			plain: plainText(cue.text)
+		}))
+	};
+}
+
+/** The newest segments first, for reports; superseded included. */
+export function segmentHistory(recordingId: string): SegmentRow[] {
+	return db()
+		.select()
+		.from(segments)
+		.where(eq(segments.recordingId, recordingId))
+		.orderBy(desc(segments.createdAt), asc(segments.position))
+		.all();
+}

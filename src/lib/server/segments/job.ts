@@ -1,0 +1,132 @@
+import { createReadStream } from 'node:fs';
+import { mkdtemp, rm, stat } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { eq } from 'drizzle-orm';
+import { config } from '../config';
+import { db } from '../db';
+import { recordings, segments, type Job } from '../db/schema';
+import type { JobContext, JobHandler } from '../jobs/worker';
+import { cutSegment } from '../media/cut';
+import { makePosters } from '../media/outputs';
+import { deleteObject, putObject } from '../storage';
+import { recordingKeys } from '../storage/keys';
+import { downloadToFile } from '../storage/multipart';
+import { markSegmentFailed, markSegmentReady } from './index';
+
+export const SEGMENT_POSTER_COUNT = 3;
+
+// Share of the job each stage takes, so the bar moves at about the speed work gets done.
+const STAGES = [
+	['downloading', 0.15],
+	['cutting', 0.65],
+	['posters', 0.1],
+	['storing', 0.1]
+] as const;
+type Stage = (typeof STAGES)[number][0];
+
+function stageReporter(context: JobContext) {
+	return (stage: Stage, fraction = 0) => {
+		let before = 0;
+		for (const [name, share] of STAGES) {
+			if (name === stage) {
+				context.report(stage, before + share * Math.max(0, Math.min(1, fraction)));
+				return;
+			}
+			before += share;
+		}
+	};
+}
+
+async function upload(key: string, path: string, contentType: string): Promise<number> {
+	const { size } = await stat(path);
+	await putObject(key, createReadStream(path), contentType, size);
+	return size;
+}
+
+/**
+ * Cuts one confirmed segment from its recording's rendition: the clip (re-encoded, its length
+ * verified to a frame by cutSegment), posters from the clip, both uploaded, and only then the
+ * segment marked ready. An attempt that dies anywhere before that last write leaves the segment
+ * `cutting` and the job to be tried again; objects an earlier attempt stored are overwritten.
+ */
+async function cutSegmentJob(job: Job, context: JobContext): Promise<void> {
+	if (!job.segmentId) throw new Error('A cut-segment job needs a segment.');
+	const segment = db().select().from(segments).where(eq(segments.id, job.segmentId)).get();
+	// Deleted with its recording meanwhile, or already made by an attempt that died after the end.
+	if (!segment || segment.status === 'ready') return;
+	const recording = db()
+		.select()
+		.from(recordings)
+		.where(eq(recordings.id, segment.recordingId))
+		.get();
+	if (!recording) return;
+	const keys = recordingKeys(recording.clinicId, recording.id);
+	const report = stageReporter(context);
+	const { signal } = context;
+	const dir = await mkdtemp(join(config().MEDIA_WORK_DIR || tmpdir(), 'kinelume-cut-'));
+	try {
+		report('downloading');
+		const rendition = join(dir, 'rendition.mp4');
+		if (!(await downloadToFile(keys.rendition, rendition, signal))) {
+			throw new Error('The web version of the recording is missing from storage.');
+		}
+		signal.throwIfAborted();
+
+		report('cutting');
+		const clip = join(dir, 'segment.mp4');
+		const { durationSeconds } = await cutSegment(rendition, clip, {
+			start: segment.startSeconds,
+			end: segment.endSeconds,
+			signal,
+			onProgress: (fraction) => report('cutting', fraction)
+		});
+		signal.throwIfAborted();
+
+		report('posters');
+		const posters = await makePosters(clip, join(dir, 'posters'), {
+			durationSeconds,
+			count: SEGMENT_POSTER_COUNT,
+			signal
+		});
+		signal.throwIfAborted();
+
+		report('storing');
+		const clipSize = await upload(keys.segment(segment.id), clip, 'video/mp4');
+		for (const [index, path] of posters.entries()) {
+			await upload(keys.segmentPoster(segment.id, index), path, 'image/jpeg');
+		}
+		signal.throwIfAborted();
+		report('storing', 1);
+
+		const marked = markSegmentReady(segment.id, {
+			clipDurationSeconds: durationSeconds,
+			clipSize,
+			posterCount: posters.length
+		});
+		// Deleted with its recording while we worked: its objects went before ours arrived.
+		if (!marked) {
+			await deleteObject(keys.segment(segment.id));
+			for (const index of posters.keys()) await deleteObject(keys.segmentPoster(segment.id, index));
+		}
+	} finally {
+		await rm(dir, { recursive: true, force: true });
+	}
+}
+
+export const cutSegmentHandler: JobHandler = {
+	run: cutSegmentJob,
+	failed(job, reason) {
+		if (job.segmentId) {
+			markSegmentFailed(
+				job.segmentId,
+				`Cutting failed after ${job.attempts} ${job.attempts === 1 ? 'attempt' : 'attempts'}: ${reason}`
+			);
+		}
+	},
+	cancelled(job) {
+		if (job.segmentId) {
+			markSegmentFailed(job.segmentId, 'Cutting was cancelled. Choose “Cut again” to restart it.');
+		}
+	}
+};
