@@ -1,0 +1,249 @@
+/**
+ * Range of motion in degrees (goniometer or inclinometer): against normative values, against the
+ * other side, and change between two measurements, counted only when it exceeds the published
+ * measurement error. Knee extension is the angle past straight: 0 is straight, −5 is 5° short.
+ */
+
+/** The motions Kinelume records. */
+export const MOTIONS = {
+	'shoulder-flexion': { joint: 'shoulder', label: 'Shoulder flexion' },
+	'shoulder-extension': { joint: 'shoulder', label: 'Shoulder extension' },
+	'shoulder-abduction': { joint: 'shoulder', label: 'Shoulder abduction' },
+	'shoulder-internal-rotation': { joint: 'shoulder', label: 'Shoulder internal (medial) rotation' },
+	'shoulder-external-rotation': {
+		joint: 'shoulder',
+		label: 'Shoulder external (lateral) rotation'
+	},
+	'knee-flexion': { joint: 'knee', label: 'Knee flexion' },
+	'knee-extension': { joint: 'knee', label: 'Knee extension' }
+} as const;
+
+export type MotionId = keyof typeof MOTIONS;
+
+/** How sure a number is: read in the source, seen only in a summary, or recalled. */
+export type Confidence = 'read' | 'secondary' | 'memory';
+
+export type Sex = 'female' | 'male';
+
+/** One normative value: for everyone, or by sex; some only for an age band. */
+export interface NormValue {
+	degrees?: number;
+	female?: number;
+	male?: number;
+	/** Inclusive ages the value describes, when the source gives a band. */
+	ages?: [number, number];
+	confidence: Confidence;
+	/** True when the source gives a lower limit of normal ("≥") rather than a typical value. */
+	minimum?: boolean;
+}
+
+export type NormSourceId = 'aaos' | 'ama' | 'cdc' | 'gill-2020';
+
+export interface NormSource {
+	id: NormSourceId;
+	name: string;
+	citation: string;
+	values: Partial<Record<MotionId, NormValue>>;
+}
+
+/** The normative tables; AAOS is the default. */
+export const NORM_SOURCES: Record<NormSourceId, NormSource> = {
+	aaos: {
+		id: 'aaos',
+		name: 'AAOS',
+		citation:
+			'American Academy of Orthopaedic Surgeons, as quoted in Norkin & White, Measurement of Joint Motion, Table A.1. Knee values from memory: check before clinical use.',
+		values: {
+			'shoulder-flexion': { degrees: 180, confidence: 'read' },
+			'shoulder-extension': { degrees: 60, confidence: 'read' },
+			'shoulder-abduction': { degrees: 180, confidence: 'read' },
+			'shoulder-internal-rotation': { degrees: 70, confidence: 'read' },
+			'shoulder-external-rotation': { degrees: 90, confidence: 'read' },
+			'knee-flexion': { degrees: 135, confidence: 'memory' },
+			'knee-extension': { degrees: 0, confidence: 'memory' }
+		}
+	},
+	ama: {
+		id: 'ama',
+		name: 'AMA Guides',
+		citation:
+			'AMA Guides to the Evaluation of Permanent Impairment, as quoted in Norkin & White, Table A.1 (lower limits of normal).',
+		values: {
+			'shoulder-flexion': { degrees: 180, confidence: 'read', minimum: true },
+			'shoulder-extension': { degrees: 50, confidence: 'read', minimum: true },
+			'shoulder-abduction': { degrees: 170, confidence: 'read', minimum: true },
+			'shoulder-internal-rotation': { degrees: 80, confidence: 'read', minimum: true },
+			'shoulder-external-rotation': { degrees: 60, confidence: 'read', minimum: true }
+		}
+	},
+	cdc: {
+		id: 'cdc',
+		name: 'CDC normal joint range of motion study',
+		citation:
+			'Soucie et al., Haemophilia 2011;17:500–507 (passive, goniometer); only shoulder flexion at ages 20–44 is on our list (secondary).',
+		values: {
+			'shoulder-flexion': { female: 172.0, male: 168.8, ages: [20, 44], confidence: 'secondary' }
+		}
+	},
+	'gill-2020': {
+		id: 'gill-2020',
+		name: 'Gill et al. 2020',
+		citation:
+			'Gill et al., BMC Musculoskeletal Disorders 2020;21:676 (n = 2404; active motion, inclinometer).',
+		values: {
+			'shoulder-flexion': { female: 158.5, male: 161.5, confidence: 'read' },
+			'shoulder-abduction': { female: 149.7, male: 151.5, confidence: 'read' }
+		}
+	}
+};
+
+/** Shown with every comparison to normal values. */
+export const ROM_CAUTION =
+	'Normal values describe groups of people, not this patient: the treating clinician and the surgeon’s protocol set the range to aim for.';
+
+export interface NormOptions {
+	source?: NormSourceId;
+	/** Needed by sources that give values by sex. */
+	sex?: Sex;
+	/** Needed by sources that give values for an age band. */
+	age?: number;
+}
+
+/** A normal value found for a motion, with where it comes from. */
+export interface NormalValue {
+	degrees: number;
+	source: NormSourceId;
+	sourceName: string;
+	citation: string;
+	confidence: Confidence;
+	minimum: boolean;
+}
+
+/** The normal value of a motion from a source; null when the source has none for this person. */
+export function normalValue(motion: MotionId, options: NormOptions = {}): NormalValue | null {
+	const source = NORM_SOURCES[options.source ?? 'aaos'];
+	const value = source.values[motion];
+	if (!value) return null;
+	if (value.ages) {
+		const age = options.age;
+		if (age === undefined || age < value.ages[0] || age > value.ages[1]) return null;
+	}
+	const degrees = value.degrees ?? (options.sex ? value[options.sex] : undefined);
+	if (degrees === undefined) return null;
+	return {
+		degrees,
+		source: source.id,
+		sourceName: source.name,
+		citation: source.citation,
+		confidence: value.confidence,
+		minimum: value.minimum ?? false
+	};
+}
+
+export interface PercentOfNormal {
+	/** measured ÷ normal × 100; null where normal is 0 (knee extension), since a percentage of 0 means nothing. */
+	percent: number | null;
+	/** Degrees short of normal (negative when beyond it). */
+	shortBy: number;
+	normal: NormalValue;
+	caution: string;
+}
+
+/** A measurement as a percentage of the normal value; null when there is no normal value. */
+export function percentOfNormal(
+	measured: number,
+	motion: MotionId,
+	options: NormOptions = {}
+): PercentOfNormal | null {
+	const normal = normalValue(motion, options);
+	if (!normal) return null;
+	return {
+		percent: normal.degrees > 0 ? (measured / normal.degrees) * 100 : null,
+		shortBy: normal.degrees - measured,
+		normal,
+		caution: ROM_CAUTION
+	};
+}
+
+/** The affected side as a percentage of the other side; null when the other side is 0 or less. */
+export function percentOfOtherSide(affected: number, other: number): number | null {
+	return other > 0 ? (affected / other) * 100 : null;
+}
+
+/** The smallest change a measurement can show beyond its error, with its source. */
+export interface MeasurementError {
+	degrees: number;
+	basis: string;
+	/** 'clinic' when the clinic gave its own figure. */
+	confidence: Confidence | 'clinic';
+}
+
+const KOLBER =
+	'Kolber & Hanney 2011: inter-rater minimal detectable change (90%) with an inclinometer; goniometer error can be larger (Mullaney 2010: limits of agreement 6–25°).';
+const KNEE =
+	'Knee goniometry study, J Exp Orthop 2018 (doi 10.1186/s40634-018-0161-5): a long-arm goniometer needs a 10° difference to be sure of a change; after knee replacement, two testers differed by up to about 19° (Lenssen et al., BMC Musculoskelet Disord 2007;8:83).';
+
+/** Measurement error by motion; shoulder extension has no published value on our list. */
+export const MEASUREMENT_ERROR: Partial<Record<MotionId, MeasurementError>> = {
+	'shoulder-flexion': { degrees: 8, basis: KOLBER, confidence: 'read' },
+	'shoulder-abduction': { degrees: 4, basis: KOLBER, confidence: 'read' },
+	'shoulder-internal-rotation': { degrees: 8, basis: KOLBER, confidence: 'read' },
+	'shoulder-external-rotation': { degrees: 9, basis: KOLBER, confidence: 'read' },
+	'knee-flexion': { degrees: 10, basis: KNEE, confidence: 'read' },
+	'knee-extension': { degrees: 10, basis: KNEE, confidence: 'read' }
+};
+
+export interface RomChange {
+	/** after − before: positive is more motion (for knee extension, nearer straight or past it). */
+	change: number;
+	error: MeasurementError | null;
+	/** True when |change| exceeds the error; null when no error value is known. */
+	beyondError: boolean | null;
+	direction: 'gain' | 'loss' | 'none';
+	message: string;
+}
+
+/**
+ * The change between two measurements of one motion, counted as a change only when it exceeds
+ * the measurement error (or `errorDegrees`, a clinic's own figure, when given).
+ */
+export function romChange(
+	before: number,
+	after: number,
+	motion: MotionId,
+	errorDegrees?: number
+): RomChange {
+	const change = after - before;
+	const error: MeasurementError | null =
+		errorDegrees !== undefined
+			? {
+					degrees: errorDegrees,
+					basis: "The clinic's own measurement error.",
+					confidence: 'clinic'
+				}
+			: (MEASUREMENT_ERROR[motion] ?? null);
+	const size = Math.abs(change);
+	const word = change > 0 ? 'gained' : 'lost';
+	if (!error) {
+		return {
+			change,
+			error,
+			beyondError: null,
+			direction: change === 0 ? 'none' : change > 0 ? 'gain' : 'loss',
+			message:
+				change === 0
+					? 'No change.'
+					: `${size}° ${word}; there is no measurement error on our list for this motion, so judge it with care.`
+		};
+	}
+	const beyondError = size > error.degrees;
+	return {
+		change,
+		error,
+		beyondError,
+		direction: !beyondError ? 'none' : change > 0 ? 'gain' : 'loss',
+		message: beyondError
+			? `${size}° ${word}, more than the ${error.degrees}° measurement error.`
+			: `No change beyond the ${error.degrees}° measurement error (${change >= 0 ? '+' : '−'}${size}°).`
+	};
+}
