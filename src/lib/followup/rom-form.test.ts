@@ -1,0 +1,34 @@
+import { describe, expect, it } from 'vitest';
+import { romEntrySchema } from './rom-form';
+
+const base = {
+	motion: 'knee-flexion',
+	side: 'left',
+	mode: 'active',
+	degrees: '95',
+	measuredOn: '2026-11-30',
+	note: '  after warm-up '
+};
+
+describe('the range-of-motion entry form', () => {
+	it('reads a typed entry, with a typed minus sign or decimal comma', () => {
+		expect(romEntrySchema.parse(base)).toEqual({ ...base, degrees: 95, note: 'after warm-up' });
+		expect(romEntrySchema.parse({ ...base, motion: 'knee-extension', degrees: '−5' }).degrees).toBe(
+			-5
+		);
+		expect(romEntrySchema.parse({ ...base, degrees: '92,5' }).degrees).toBe(92.5);
+	});
+
+	it('refuses what cannot be a reading, saying why', () => {
+		const message = (changes: Record<string, string>) =>
+			romEntrySchema.safeParse({ ...base, ...changes }).error?.issues[0].message;
+		expect(message({ degrees: '' })).toBe('Give the degrees measured, e.g. 95 or -5.');
+		expect(message({ degrees: 'ninety' })).toBe('Give the degrees measured, e.g. 95 or -5.');
+		expect(message({ degrees: '1350' })).toBe('Degrees cannot be above 200.');
+		expect(message({ degrees: '95.3' })).toBe('Degrees are recorded to the half degree.');
+		expect(message({ motion: 'wrist-flexion' })).toBe('Choose the motion measured.');
+		expect(message({ measuredOn: '2026-02-30' })).toBe(
+			'Give the date of the measurement as a calendar date.'
+		);
+	});
+});

@@ -1,0 +1,104 @@
+import { describe, expect, it } from 'vitest';
+import { romLosses, romRows, type RomReading } from './rom-table';
+
+let n = 0;
+function reading(
+	partial: Partial<RomReading> & Pick<RomReading, 'degrees' | 'measuredOn'>
+): RomReading {
+	n += 1;
+	return {
+		id: `r${n}`,
+		motion: 'knee-flexion',
+		side: 'left',
+		mode: 'active',
+		note: '',
+		...partial
+	};
+}
+
+describe('range-of-motion rows', () => {
+	it('shows a reading against the AAOS normal and the other side', () => {
+		const rows = romRows(
+			[
+				reading({ degrees: 95, measuredOn: '2026-11-20' }),
+				reading({ side: 'right', degrees: 117, measuredOn: '2026-11-20' })
+			],
+			{ source: 'aaos', affectedSide: 'left' }
+		);
+		const left = rows.find((r) => r.side === 'left')!;
+		// AAOS knee flexion 135° is from memory (REFERENCES.md): the text must say so.
+		expect(left.normal?.text).toBe(
+			'Knee flexion 95° = 70% of the AAOS normal 135° (from memory — check)'
+		);
+		expect(left.otherSide?.text).toBe('81% of the right side (117°)');
+		expect(left.affected).toBe(true);
+		// The unaffected side is the reference, not compared with the affected one.
+		expect(rows.find((r) => r.side === 'right')!.otherSide).toBeNull();
+	});
+
+	it('counts a change only beyond the measurement error', () => {
+		// Knee goniometry needs 10° to be sure of a change (lib/clinical/rom, J Exp Orthop 2018).
+		const rows = romRows(
+			[
+				reading({ degrees: 90, measuredOn: '2026-11-06' }),
+				reading({ degrees: 96, measuredOn: '2026-11-13' }),
+				reading({ degrees: 110, measuredOn: '2026-11-20' }),
+				reading({ degrees: 97, measuredOn: '2026-11-27' })
+			],
+			{ source: 'aaos', affectedSide: 'left' }
+		);
+		expect(rows[0].change).toBeNull();
+		expect(rows[1].change?.text).toBe(
+			'Change of 6° since 6 Nov 2026 (90°) is within the measurement error (±10°) — not counted as a change.'
+		);
+		expect(rows[2].change?.text).toBe(
+			'Gain of 14° since 13 Nov 2026 (96°): more than the measurement error (±10°).'
+		);
+		expect(rows[3].change?.direction).toBe('loss');
+		expect(romLosses(rows).map((r) => r.id)).toEqual([rows[3].id]);
+	});
+
+	it('keeps active and passive, and each side, as separate series', () => {
+		const rows = romRows(
+			[
+				reading({ degrees: 90, measuredOn: '2026-11-06', mode: 'passive' }),
+				reading({ degrees: 70, measuredOn: '2026-11-13', mode: 'active' })
+			],
+			{ source: 'aaos', affectedSide: 'left' }
+		);
+		expect(rows.map((r) => r.change)).toEqual([null, null]);
+		expect(romLosses(rows)).toEqual([]);
+	});
+
+	it('writes knee extension in degrees short of straight, never as a percentage of 0', () => {
+		const [row] = romRows(
+			[reading({ motion: 'knee-extension', degrees: -5, measuredOn: '2026-11-06' })],
+			{
+				source: 'aaos',
+				affectedSide: 'left'
+			}
+		);
+		expect(row.normal?.percent).toBeNull();
+		expect(row.normal?.text).toBe(
+			'Knee extension −5° = 5° short of the AAOS normal 0° (from memory — check)'
+		);
+	});
+
+	it('says when the chosen table has no value, and compares both sides when neither is marked', () => {
+		const rows = romRows(
+			[
+				reading({ degrees: 100, measuredOn: '2026-11-06' }),
+				reading({ side: 'right', degrees: 120, measuredOn: '2026-11-06' })
+			],
+			{ source: 'ama', affectedSide: 'both' }
+		);
+		expect(rows[0].normal).toBeNull();
+		expect(rows[0].normalMissing).toBe(
+			'The AMA Guides table has no value for knee flexion for this patient.'
+		);
+		expect(rows.map((r) => r.otherSide?.percent && Math.round(r.otherSide.percent))).toEqual([
+			83, 120
+		]);
+		expect(rows[0].affected).toBeNull();
+	});
+});

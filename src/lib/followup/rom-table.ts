@@ -1,0 +1,183 @@
+/**
+ * Range-of-motion readings as a clinician reads them: each against the normal value of a chosen
+ * table, against the other side, and against the previous reading of the same motion, where a
+ * difference counts as a change only beyond the measurement error (lib/clinical/rom).
+ */
+import {
+	MOTIONS,
+	NORM_SOURCES,
+	percentOfNormal,
+	percentOfOtherSide,
+	romChange,
+	ROM_CAUTION,
+	type MotionId,
+	type NormSourceId,
+	type PercentOfNormal,
+	type RomChange
+} from '../clinical/rom';
+import { formatDate, formatDegrees } from './words';
+
+/** One stored reading, as follow-up needs it. */
+export interface RomReading {
+	id: string;
+	motion: string;
+	side: 'left' | 'right';
+	mode: 'active' | 'passive';
+	degrees: number;
+	measuredOn: string;
+	note: string;
+}
+
+export interface RomRow extends RomReading {
+	motionLabel: string;
+	/** True for the patient's affected side; null when the patient has none recorded or both. */
+	affected: boolean | null;
+	normal: (PercentOfNormal & { text: string }) | null;
+	/** Why there is no normal value, when there is none. */
+	normalMissing: string | null;
+	otherSide: {
+		degrees: number;
+		measuredOn: string;
+		percent: number | null;
+		difference: number;
+		text: string;
+	} | null;
+	change: (RomChange & { previous: { degrees: number; measuredOn: string }; text: string }) | null;
+}
+
+export function isMotionId(motion: string): motion is MotionId {
+	return Object.hasOwn(MOTIONS, motion);
+}
+
+export function motionLabel(motion: string): string {
+	return isMotionId(motion) ? MOTIONS[motion].label : motion;
+}
+
+/** "active" / "passive" as a clinician writes it next to a reading. */
+export const MODE_LABELS = { active: 'active', passive: 'passive' } as const;
+
+const seriesKey = (r: Pick<RomReading, 'motion' | 'side' | 'mode'>) =>
+	`${r.motion}|${r.side}|${r.mode}`;
+
+const byDate = (a: RomReading, b: RomReading) =>
+	a.measuredOn < b.measuredOn ? -1 : a.measuredOn > b.measuredOn ? 1 : 0;
+
+function confidenceNote(confidence: string): string {
+	if (confidence === 'memory') return ' (from memory — check)';
+	if (confidence === 'secondary') return ' (from a secondary source)';
+	return '';
+}
+
+/**
+ * Every reading with its comparisons, oldest first. `affectedSide` is the patient's ('left',
+ * 'right', 'both' or 'not applicable'); the other side's reading is the latest of the same
+ * motion and mode on or before the same day.
+ */
+export function romRows(
+	readings: readonly RomReading[],
+	options: { source: NormSourceId; affectedSide: string }
+): RomRow[] {
+	const sorted = [...readings].sort(byDate);
+	const sideKnown = options.affectedSide === 'left' || options.affectedSide === 'right';
+	const previousOf = new Map<string, RomReading>();
+	return sorted.map((reading) => {
+		const label = motionLabel(reading.motion);
+		const motion = isMotionId(reading.motion) ? reading.motion : null;
+		const source = NORM_SOURCES[options.source];
+
+		let normal: RomRow['normal'] = null;
+		let normalMissing: string | null = null;
+		const found = motion
+			? percentOfNormal(reading.degrees, motion, { source: options.source })
+			: null;
+		if (found) {
+			const note = confidenceNote(found.normal.confidence);
+			const kind = found.normal.minimum ? 'lower limit of normal' : 'normal';
+			const what =
+				found.percent !== null
+					? `${Math.round(found.percent)}% of the ${found.normal.sourceName} ${kind} ${formatDegrees(found.normal.degrees)}`
+					: found.shortBy === 0
+						? `at the ${found.normal.sourceName} ${kind} ${formatDegrees(found.normal.degrees)}`
+						: `${formatDegrees(Math.abs(found.shortBy))} ${found.shortBy > 0 ? 'short of' : 'beyond'} the ${found.normal.sourceName} ${kind} ${formatDegrees(found.normal.degrees)}`;
+			normal = { ...found, text: `${label} ${formatDegrees(reading.degrees)} = ${what}${note}` };
+		} else {
+			normalMissing = `The ${source.name} table has no value for ${label.toLowerCase()} for this patient.`;
+		}
+
+		let otherSide: RomRow['otherSide'] = null;
+		const otherName = reading.side === 'left' ? 'right' : 'left';
+		const other = sorted
+			.filter(
+				(r) =>
+					r.motion === reading.motion &&
+					r.mode === reading.mode &&
+					r.side === otherName &&
+					r.measuredOn <= reading.measuredOn
+			)
+			.at(-1);
+		const showOther = !sideKnown || reading.side === options.affectedSide;
+		if (other && showOther) {
+			const percent = percentOfOtherSide(reading.degrees, other.degrees);
+			const difference = reading.degrees - other.degrees;
+			const when =
+				other.measuredOn === reading.measuredOn ? '' : `, measured ${formatDate(other.measuredOn)}`;
+			const gap =
+				difference === 0
+					? 'the same as'
+					: `${formatDegrees(Math.abs(difference))} ${difference < 0 ? 'less than' : 'more than'}`;
+			otherSide = {
+				degrees: other.degrees,
+				measuredOn: other.measuredOn,
+				percent,
+				difference,
+				text:
+					percent !== null
+						? `${Math.round(percent)}% of the ${otherName} side (${formatDegrees(other.degrees)}${when})`
+						: `${gap} the ${otherName} side (${formatDegrees(other.degrees)}${when})`
+			};
+		}
+
+		let change: RomRow['change'] = null;
+		const previous = previousOf.get(seriesKey(reading));
+		if (previous && motion) {
+			const result = romChange(previous.degrees, reading.degrees, motion);
+			const since = `since ${formatDate(previous.measuredOn)} (${formatDegrees(previous.degrees)})`;
+			const size = formatDegrees(Math.abs(result.change));
+			let text: string;
+			if (result.change === 0) text = `No change ${since}.`;
+			else if (result.beyondError === null)
+				text = `Change of ${size} ${since}; no measurement error is on our list for this motion, so judge it with care.`;
+			else if (result.beyondError)
+				text = `${result.direction === 'gain' ? 'Gain' : 'Loss'} of ${size} ${since}: more than the measurement error (±${result.error!.degrees}°).`;
+			else
+				text = `Change of ${size} ${since} is within the measurement error (±${result.error!.degrees}°) — not counted as a change.`;
+			change = {
+				...result,
+				previous: { degrees: previous.degrees, measuredOn: previous.measuredOn },
+				text
+			};
+		}
+		previousOf.set(seriesKey(reading), reading);
+
+		return {
+			...reading,
+			motionLabel: label,
+			affected: sideKnown ? reading.side === options.affectedSide : null,
+			normal,
+			normalMissing,
+			otherSide,
+			change
+		};
+	});
+}
+
+/** The newest reading of each motion, side and mode whose change from the one before is a loss beyond the error. */
+export function romLosses(rows: readonly RomRow[]): RomRow[] {
+	const latest = new Map<string, RomRow>();
+	for (const row of rows) latest.set(seriesKey(row), row);
+	return [...latest.values()].filter(
+		(r) => r.change?.beyondError === true && r.change.direction === 'loss'
+	);
+}
+
+export { ROM_CAUTION };

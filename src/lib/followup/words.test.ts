@@ -1,0 +1,74 @@
+import { describe, expect, it } from 'vitest';
+import { adherence } from '../clinical/adherence';
+import { painTrend } from '../clinical/pain';
+import {
+	adherenceCell,
+	adherenceSentence,
+	formatDate,
+	formatDateRange,
+	formatDegrees,
+	painSentence,
+	weekAfterSentence
+} from './words';
+
+describe('dates and degrees in words', () => {
+	it('writes dates and runs of days the British way', () => {
+		expect(formatDate('2026-11-24')).toBe('24 Nov 2026');
+		expect(formatDateRange('2026-11-24', '2026-11-30')).toBe('24–30 Nov 2026');
+		expect(formatDateRange('2026-11-28', '2026-12-04')).toBe('28 Nov – 4 Dec 2026');
+		expect(formatDateRange('2026-12-29', '2027-01-04')).toBe('29 Dec 2026 – 4 Jan 2027');
+		expect(formatDateRange('2026-11-24', '2026-11-24')).toBe('24 Nov 2026');
+	});
+
+	it('writes degrees with a true minus sign and half degrees', () => {
+		expect(formatDegrees(95)).toBe('95°');
+		expect(formatDegrees(-5)).toBe('−5°');
+		expect(formatDegrees(92.5)).toBe('92.5°');
+	});
+});
+
+describe('figures with their basis', () => {
+	const daily = { startDate: '2026-11-23', endDate: null, sessionsPerDay: 1, daysPerWeek: 7 };
+
+	it('says what adherence counted and over which days', () => {
+		const logs = ['2026-11-24', '2026-11-25', '2026-11-26', '2026-11-27', '2026-11-28'];
+		const w = adherence(daily, logs, '2026-11-30', 7);
+		expect(adherenceSentence(w)).toBe('5 of 7 sessions (71%) over 24–30 Nov 2026');
+		expect(adherenceCell(w)).toBe('71%');
+		expect(adherenceCell(adherence(daily, [], '2026-11-01', 7))).toBe('—');
+		expect(adherenceCell(null)).toBe('—');
+	});
+
+	it('states a pain flag with both averages and the 2-point rule (Farrar et al., Pain 2001)', () => {
+		const first = ['2026-11-02', '2026-11-03', '2026-11-04', '2026-11-05'].map((date) => ({
+			date,
+			score: 3
+		}));
+		const recent = [5, 6, 5, 6].map((score, i) => ({ date: `2026-11-2${i + 4}`, score }));
+		const trend = painTrend([...first, ...recent], '2026-11-30');
+		expect(trend.flagged).toBe(true);
+		expect(painSentence(trend)).toBe(
+			'Pain flag: recent average 5.5 is 2.5 above the baseline 3.0 (a rise of 2 points is clinically important — Farrar et al. 2001).'
+		);
+	});
+
+	it('says why a small rise is no flag, and why too few scores are not compared', () => {
+		const first = ['2026-11-02', '2026-11-03', '2026-11-04'].map((date) => ({ date, score: 3 }));
+		const recent = ['2026-11-26', '2026-11-27', '2026-11-28'].map((date) => ({ date, score: 4 }));
+		const small = painTrend([...first, ...recent], '2026-11-30');
+		expect(painSentence(small)).toBe(
+			'No pain flag: recent average 4.0 is 1.0 above the baseline 3.0, under the 2 points that count (Farrar et al. 2001).'
+		);
+		const few = painTrend([{ date: '2026-11-02', score: 3 }], '2026-11-30');
+		expect(painSentence(few)).toMatch(/^Not compared/);
+	});
+
+	it('gives time since an operation in completed weeks and days', () => {
+		expect(weekAfterSentence('2026-10-12', '2026-11-26')).toBe(
+			'6 weeks 3 days after the operation on 12 Oct 2026'
+		);
+		expect(weekAfterSentence('2026-12-03', '2026-11-30')).toBe(
+			'Operation planned for 3 Dec 2026 (in 3 days)'
+		);
+	});
+});

@@ -1,0 +1,88 @@
+/**
+ * Follow-up figures in words. Each sentence carries its basis (what was counted, over which days,
+ * against which source) so that a number never stands alone on a clinician's screen.
+ */
+import { describeAdherence, type AdherenceWindow } from '../clinical/adherence';
+import { describeTimeSince, weeksSince, type LocalDate } from '../clinical/calendar';
+import { PAIN_IMPORTANT_CHANGE, type PainTrend } from '../clinical/pain';
+
+const MONTHS = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec'];
+
+function parts(date: LocalDate): { year: number; month: string; day: number } {
+	const [year, month, day] = date.split('-').map(Number);
+	return { year, month: MONTHS[month - 1], day };
+}
+
+/** '2026-11-24' → '24 Nov 2026'. */
+export function formatDate(date: LocalDate): string {
+	const p = parts(date);
+	return `${p.day} ${p.month} ${p.year}`;
+}
+
+/** '24 Nov' — a date within the current context, year left out. */
+export function formatShortDate(date: LocalDate): string {
+	const p = parts(date);
+	return `${p.day} ${p.month}`;
+}
+
+/** An inclusive run of days: '24–30 Nov 2026', '28 Nov – 4 Dec 2026', '29 Dec 2026 – 4 Jan 2027'. */
+export function formatDateRange(from: LocalDate, to: LocalDate): string {
+	if (from === to) return formatDate(from);
+	const a = parts(from);
+	const b = parts(to);
+	if (a.year !== b.year) return `${formatDate(from)} – ${formatDate(to)}`;
+	if (a.month !== b.month) return `${a.day} ${a.month} – ${b.day} ${b.month} ${b.year}`;
+	return `${a.day}–${b.day} ${b.month} ${b.year}`;
+}
+
+/** A number with at most one decimal, trailing '.0' kept for averages: 5.5, 3.0. */
+export const oneDecimal = (x: number): string => x.toFixed(1);
+
+/** Degrees as written on a measurement form: 95°, 92.5°, −5°. */
+export function formatDegrees(x: number): string {
+	const text = Number.isInteger(x) ? String(Math.abs(x)) : Math.abs(x).toFixed(1);
+	return `${x < 0 ? '−' : ''}${text}°`;
+}
+
+/** "5 of 7 sessions (71%) over 24–30 Nov 2026", or why there is no ratio. */
+export function adherenceSentence(window: AdherenceWindow): string {
+	return `${describeAdherence(window)} over ${formatDateRange(window.from, window.to)}`;
+}
+
+/** A short cell text for a table: "71%" or "—" when nothing was prescribed. */
+export function adherenceCell(window: AdherenceWindow | null): string {
+	return window?.percent === null || !window ? '—' : `${window.percent}%`;
+}
+
+/**
+ * The pain trend in one sentence with its numbers and the threshold's source, e.g. "Pain flag:
+ * recent average 5.5 is 2.5 above the baseline 3.0 (a rise of 2 points is clinically important —
+ * Farrar et al. 2001)".
+ */
+export function painSentence(trend: PainTrend): string {
+	const cite = 'Farrar et al. 2001';
+	if (trend.baseline === null || trend.recent === null || trend.change === null) {
+		return trend.reason;
+	}
+	const baseline = oneDecimal(trend.baseline);
+	const recent = oneDecimal(trend.recent);
+	const size = oneDecimal(Math.abs(trend.change));
+	const rule = `a rise of ${PAIN_IMPORTANT_CHANGE} points is clinically important — ${cite}`;
+	if (trend.flagged) {
+		return `Pain flag: recent average ${recent} is ${size} above the baseline ${baseline} (${rule}).`;
+	}
+	if (trend.direction === 'better') {
+		return `Pain easing: recent average ${recent} is ${size} below the baseline ${baseline}.`;
+	}
+	const relation = trend.change >= 0 ? 'above' : 'below';
+	return `No pain flag: recent average ${recent} is ${size} ${relation} the baseline ${baseline}, under the ${PAIN_IMPORTANT_CHANGE} points that count (${cite}).`;
+}
+
+/** "6 weeks 3 days after the operation on 12 Oct 2026", or how far ahead a planned one is. */
+export function weekAfterSentence(operationDate: LocalDate, today: LocalDate): string {
+	const since = weeksSince(operationDate, today);
+	if (since.days < 0) {
+		return `Operation planned for ${formatDate(operationDate)} (${describeTimeSince(since)})`;
+	}
+	return `${describeTimeSince(since)} after the operation on ${formatDate(operationDate)}`;
+}

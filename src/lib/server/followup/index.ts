@@ -1,0 +1,4 @@
+/** Follow-up: the caseload, a patient's figures and range-of-motion readings, the weekly digest. */
+export * from './caseload';
+export * from './patient';
+export { clinicPatients, figureInput, loadRecords } from './records';
