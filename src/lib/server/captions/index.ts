@@ -17,6 +17,7 @@ import {
 } from '$lib/captions/types';
 import { parseVtt, serializeVtt } from '$lib/captions/vtt';
 import { db } from '../db';
+import { ExportCache } from './export-cache';
 import {
 	captionTracks,
 	captionTrackVersions,
@@ -440,6 +441,12 @@ function fileStem(track: CaptionTrack): string {
 	return `${track.kind}-${track.language}`.replace(/[^A-Za-z0-9-]/g, '');
 }
 
+/**
+ * Files already written, by track, version and format: a `<track>` revalidates on every page
+ * load, and a version never changes once saved. About 50 long (2,000-cue) tracks fit.
+ */
+const exportedFiles = new ExportCache(8 * 1024 * 1024);
+
 /** The track (or one version of it) as WebVTT or SRT; version 0 exports an empty file. */
 export function exportTrack(
 	track: CaptionTrack,
@@ -447,11 +454,18 @@ export function exportTrack(
 	version?: number
 ): Exported | null {
 	const wanted = version ?? track.currentVersion;
-	const row = getVersion(track, wanted);
-	if (wanted > 0 && !row) return null;
-	const cues = row?.cues ?? [];
+	const key = `${track.id}\n${wanted}\n${format}`;
+	let body = exportedFiles.get(key);
+	if (body === undefined) {
+		const row = getVersion(track, wanted);
+		if (wanted > 0 && !row) return null;
+		const cues = row?.cues ?? [];
+		body = format === 'vtt' ? serializeVtt(cues) : serializeSrt(cues);
+		// Only a stored version: version 0 is the empty file and costs nothing to write.
+		if (row) exportedFiles.set(key, body);
+	}
 	return {
-		body: format === 'vtt' ? serializeVtt(cues) : serializeSrt(cues),
+		body,
 		version: wanted,
 		etag: exportTag(track.id, wanted, format),
 		filename: `${fileStem(track)}-v${wanted}.${format}`
