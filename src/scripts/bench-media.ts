@@ -19,30 +19,34 @@
  * (a player asks for far smaller ones; large ones measure streaming rather than request cost).
  * `--build` rebuilds the app first; without it an existing build/ is used as it is.
  */
-import { spawn, type ChildProcess } from 'node:child_process';
 import { createHash, randomFillSync } from 'node:crypto';
-import {
-	cpSync,
-	createReadStream,
-	createWriteStream,
-	existsSync,
-	readFileSync,
-	symlinkSync
-} from 'node:fs';
-import { mkdtemp, rm } from 'node:fs/promises';
+import { createReadStream, createWriteStream, readFileSync } from 'node:fs';
+import { rm } from 'node:fs/promises';
 import { Agent, request as httpRequest } from 'node:http';
-import { loadavg, tmpdir } from 'node:os';
-import { join, resolve } from 'node:path';
-import { createInterface } from 'node:readline';
+import { loadavg } from 'node:os';
+import { join } from 'node:path';
 import type { Readable } from 'node:stream';
+import {
+	argValue,
+	BUCKET,
+	buildIfAsked,
+	copyBuild,
+	cpuSeconds,
+	KEY_ID,
+	printTable,
+	runBench,
+	runCommand,
+	seedClinician,
+	signIn,
+	startApp,
+	startFakes,
+	startRun,
+	stopChild,
+	type BenchRun,
+	type Row
+} from './bench/stack';
 
-const ROOT = resolve(import.meta.dirname, '../..');
-const PORTS = { app: 4273, storage: 4769, smtp: 2725, mailApi: 2726 } as const;
-const ORIGIN = `http://localhost:${PORTS.app}`;
-const APP_URL = `http://127.0.0.1:${PORTS.app}`;
-const STORAGE_URL = `http://127.0.0.1:${PORTS.storage}`;
-const BUCKET = 'kinelume';
-const KEY_ID = 'S3RVER';
+const PORTS = { app: 4273, storage: 4769, smtp: 2725, mailApi: 2726 };
 const MB = 1_000_000;
 const MIB = 1024 * 1024;
 
@@ -54,101 +58,21 @@ const UPLOAD_ROUNDS = 3;
 const UPLOAD_PARALLEL = 3;
 const CLIP_SECONDS = 20;
 
-function argValue(name: string): string | undefined {
-	const prefix = `--${name}=`;
-	return process.argv.find((a) => a.startsWith(prefix))?.slice(prefix.length);
-}
-
-async function runFakes(dataDir: string): Promise<void> {
-	const { startStorageFake } = await import('../../fakes/storage/server');
-	const { startMailFake } = await import('../../fakes/mail/server');
-	const storage = await startStorageFake({
-		port: PORTS.storage,
-		directory: join(dataDir, 'storage'),
-		bucket: BUCKET,
-		accessKeyId: KEY_ID,
-		secretAccessKey: KEY_ID,
-		allowedOrigins: [ORIGIN]
-	});
-	const mail = await startMailFake({
-		smtpPort: PORTS.smtp,
-		apiPort: PORTS.mailApi,
-		directory: join(dataDir, 'mail')
-	});
-	let closing = false;
-	const close = () => {
-		if (closing) return;
-		closing = true;
-		void Promise.allSettled([storage.close(), mail.close()]).then(() => process.exit(0));
-	};
-	process.on('SIGTERM', close);
-	// Ctrl+C reaches the whole process group; the parent decides when the fakes go.
-	process.on('SIGINT', () => {});
-	// The parent holds our stdin open: when it goes, however it went, so do we.
-	process.stdin.on('end', close);
-	process.stdin.resume();
-	process.stdout.write('fakes-ready\n');
-}
-
-interface Row {
-	figure: string;
-	measured: string;
-	reference: string;
-	result: string;
-	goal: string;
-	pass: boolean | null;
-}
-
 async function main(): Promise<void> {
-	process.chdir(ROOT);
 	const seconds = Number(argValue('seconds') ?? 8);
 	if (!(seconds > 0)) throw new Error('--seconds must be a positive number.');
 	if (!(RANGE_BYTES >= 1 && RANGE_BYTES <= OBJECT_BYTES / 2)) {
 		throw new Error('--range-mib must be more than 0 and at most half the 100 MiB object.');
 	}
 
-	const dataDir = await mkdtemp(join(tmpdir(), 'kinelume-bench-'));
-	Object.assign(process.env, {
-		DATABASE_PATH: join(dataDir, 'kinelume.db'),
-		ORIGIN,
-		S3_ENDPOINT: STORAGE_URL,
-		S3_BUCKET: BUCKET,
-		S3_ACCESS_KEY_ID: KEY_ID,
-		S3_SECRET_ACCESS_KEY: KEY_ID,
-		SMTP_PORT: String(PORTS.smtp),
-		DEV_INBOX_URL: `http://127.0.0.1:${PORTS.mailApi}`,
-		MEDIA_WORK_DIR: join(dataDir, 'work'),
-		AUTH_SECRET: 'bench-only-secret-that-is-long-enough-0123456789'
-	});
-
-	let fakes: ChildProcess | undefined;
-	let app: ChildProcess | undefined;
-	const abort = new AbortController();
-	let cleaning: Promise<void> | undefined;
-	const cleanUp = () =>
-		(cleaning ??= (async () => {
-			abort.abort();
-			await Promise.all([stopChild(app), stopChild(fakes)]);
-			await rm(dataDir, { recursive: true, force: true });
-		})());
-	for (const signal of ['SIGINT', 'SIGTERM'] as const) {
-		process.on(signal, () => {
-			// tsx passes the signal on as well, so it can arrive twice.
-			if (abort.signal.aborted) return;
-			console.error(`\n${signal}: stopping and removing ${dataDir}`);
-			void cleanUp().then(() => process.exit(130));
-		});
-	}
-
+	const run = await startRun('bench', PORTS);
 	const loadStart = loadavg()[0];
-	try {
-		if (process.argv.includes('--build') || !existsSync(join(ROOT, 'build/index.js'))) {
-			console.log('Building the app (vite build)…');
-			await runCommand(resolve(ROOT, 'node_modules/.bin/vite'), ['build'], abort.signal);
-		}
+	await runBench(run, async () => {
+		await buildIfAsked(run);
+		const buildCopy = copyBuild(run);
 
-		console.log(`Data in ${dataDir}; starting the storage and mail fakes…`);
-		fakes = await startFakes(dataDir);
+		console.log(`Data in ${run.dataDir}; starting the storage and mail fakes…`);
+		const fakes = await startFakes(run);
 
 		const rows: Row[] = [];
 		const storageModule = await import('../lib/server/storage');
@@ -156,103 +80,39 @@ async function main(): Promise<void> {
 		const { clinicId, recordingId } = await seedRecording();
 		const s3 = await prepareRangeObject(storageModule, clinicId, recordingId);
 		console.log('Starting the app (node build)…');
-		// A copy of the build: another session's `vite build` replaces build/ while it runs.
-		// Its imports find the packages through a node_modules link next to it.
-		cpSync(join(ROOT, 'build'), join(dataDir, 'build'), { recursive: true });
-		symlinkSync(join(ROOT, 'node_modules'), join(dataDir, 'node_modules'), 'dir');
-		app = spawn(process.execPath, [join(dataDir, 'build')], {
-			stdio: ['ignore', 'inherit', 'inherit'],
-			env: { ...process.env, PORT: String(PORTS.app), HOST: '127.0.0.1' }
-		});
-		const appExited = new Promise<never>((_, reject) =>
-			app!.once('exit', (code, signal) =>
-				reject(new Error(`the app (node build) exited early: ${code ?? signal}`))
-			)
-		);
-		appExited.catch(() => {});
-		await Promise.race([waitForHealth(), appExited]);
-		const idleRss = readStatus(app.pid!).rss;
-		const cookie = await signIn();
+		const app = await startApp(run, buildCopy);
+		const idleRss = readStatus(app.child.pid!).rss;
+		const cookie = await signIn(run);
 
 		rows.push(
 			...(await Promise.race([
 				benchRanges({
+					run,
 					key: s3.key,
 					recordingId,
 					cookie,
-					appPid: app.pid!,
+					appPid: app.child.pid!,
 					fakesPid: fakes.pid!,
 					idleRss,
 					seconds,
 					sha256First: s3.sha256First
 				}),
-				appExited
+				app.exited
 			]))
 		);
 		// (b) and (c) do not involve the app; stopping it gives them the whole machine.
-		await stopChild(app);
-		app = undefined;
+		await stopChild(app.child);
 
-		rows.push(await benchRendition(dataDir, abort.signal));
+		rows.push(await benchRendition(run.dataDir, run.signal));
 		rows.push(...(await benchUpload(storageModule)));
 
-		printTable(rows, loadStart);
-	} catch (error) {
-		// After Ctrl+C the failures are only those of processes being stopped.
-		if (!abort.signal.aborted) {
-			console.error(`\nThe benchmark could not finish: ${(error as Error).stack ?? String(error)}`);
-		}
-		process.exitCode = 1;
-	} finally {
-		await cleanUp();
-	}
-}
-
-/**
- * Runs a command to its end, keeping its output only to explain a failure. Not spawnSync: with the
- * event loop blocked, Ctrl+C would end this process before it could clean up.
- */
-function runCommand(command: string, args: string[], signal: AbortSignal): Promise<void> {
-	return new Promise<void>((done, failed) => {
-		const child = spawn(command, args, { stdio: ['ignore', 'pipe', 'pipe'], signal, cwd: ROOT });
-		let output = '';
-		const keep = (chunk: Buffer) => (output = (output + chunk.toString()).slice(-8000));
-		child.stdout!.on('data', keep);
-		child.stderr!.on('data', keep);
-		child.once('error', failed);
-		child.once('close', (code) =>
-			code === 0 ? done() : failed(new Error(`${command} exited with ${code}:\n${output}`))
+		printTable(
+			`Kinelume media benchmark (MB = 10^6 bytes; ranges of ${RANGE_BYTES / MIB} MiB over a 100 MiB object)`,
+			rows,
+			notes,
+			loadStart
 		);
 	});
-}
-
-/** SIGTERM, then SIGKILL if the process is still there after 5 s; resolves once it has exited. */
-async function stopChild(child: ChildProcess | undefined): Promise<void> {
-	if (!child || child.exitCode !== null || child.signalCode !== null) return;
-	const exited = new Promise<void>((done) => child.once('exit', () => done()));
-	child.kill('SIGTERM');
-	const timer = setTimeout(() => child.kill('SIGKILL'), 5000);
-	await exited;
-	clearTimeout(timer);
-}
-
-async function startFakes(dataDir: string): Promise<ChildProcess> {
-	// Node itself with tsx's loader, not the tsx command, which would put a process in between
-	// and leave the CPU and memory readings below to the wrong one.
-	const child = spawn(
-		process.execPath,
-		['--import', 'tsx', import.meta.filename, '--fakes', dataDir],
-		{ stdio: ['pipe', 'pipe', 'inherit'], env: process.env, cwd: ROOT }
-	);
-	await new Promise<void>((ready, failed) => {
-		const lines = createInterface({ input: child.stdout! });
-		lines.on('line', (line) => {
-			if (line === 'fakes-ready') ready();
-			else console.log(`[fakes] ${line}`);
-		});
-		child.once('exit', (code) => failed(new Error(`the fakes exited at start (${code})`)));
-	});
-	return child;
 }
 
 type StorageModule = typeof import('../lib/server/storage');
@@ -293,25 +153,13 @@ async function writeRandomFile(path: string, size: number): Promise<void> {
 
 /** Seeds the demo scenario and adds a ready recording to the demo clinician's clinic. */
 async function seedRecording(): Promise<{ clinicId: string; recordingId: string }> {
-	const { seedDemo } = await import('../lib/server/demo/seed');
 	const { db, schema, closeDatabase } = await import('../lib/server/db');
-	const { eq } = await import('drizzle-orm');
-	await seedDemo();
-	const store = db();
-	const clinician = store.query.users
-		.findFirst({ where: eq(schema.users.email, BENCH_CLINICIAN) })
-		.sync();
-	const membership =
-		clinician &&
-		store.query.memberships
-			.findFirst({ where: eq(schema.memberships.userId, clinician.id) })
-			.sync();
-	if (!clinician || !membership) throw new Error(`The seed has no clinician ${BENCH_CLINICIAN}.`);
-	const recording = store
+	const { clinicId, userId } = await seedClinician();
+	const recording = db()
 		.insert(schema.recordings)
 		.values({
-			clinicId: membership.clinicId,
-			uploadedBy: clinician.id,
+			clinicId,
+			uploadedBy: userId,
 			title: 'Benchmark object',
 			originalFilename: 'bench.mp4',
 			contentType: 'video/mp4',
@@ -331,47 +179,7 @@ async function seedRecording(): Promise<{ clinicId: string; recordingId: string 
 		.get();
 	// The app opens the file itself; two writers are not wanted while it starts.
 	closeDatabase();
-	return { clinicId: membership.clinicId, recordingId: recording.id };
-}
-
-const BENCH_CLINICIAN = 'clinician@alder-street.example';
-
-async function waitForHealth(): Promise<void> {
-	for (let i = 0; i < 150; i++) {
-		try {
-			const res = await fetch(`${APP_URL}/api/health`);
-			if (res.ok) return;
-		} catch {
-			// not listening yet
-		}
-		await new Promise((r) => setTimeout(r, 200));
-	}
-	throw new Error('the app did not report healthy within 30 s');
-}
-
-/** Signs in through the real password form action and returns the cookies it set. */
-async function signIn(): Promise<string> {
-	const { DEMO_PASSWORD } = await import('../lib/server/demo/seed');
-	const res = await fetch(`${APP_URL}/signin?/password`, {
-		method: 'POST',
-		redirect: 'manual',
-		headers: {
-			Origin: ORIGIN,
-			Accept: 'text/html',
-			'Content-Type': 'application/x-www-form-urlencoded'
-		},
-		body: new URLSearchParams({
-			providerId: 'credentials',
-			email: BENCH_CLINICIAN,
-			password: DEMO_PASSWORD,
-			redirectTo: '/home'
-		})
-	});
-	const cookies = res.headers.getSetCookie().map((c) => c.split(';')[0]);
-	if (res.status !== 303 || !cookies.some((c) => c.includes('session-token'))) {
-		throw new Error(`sign-in answered ${res.status} without a session cookie`);
-	}
-	return cookies.join('; ');
+	return { clinicId, recordingId: recording.id };
 }
 
 interface RunResult {
@@ -428,13 +236,6 @@ function readStatus(pid: number): { rss: number; hwm: number } {
 	return { rss: kb('VmRSS') * 1024, hwm: kb('VmHWM') * 1024 };
 }
 
-/** CPU seconds (user + system) a process has used so far. */
-function cpuSeconds(pid: number): number {
-	const fields = readFileSync(`/proc/${pid}/stat`, 'utf8').split(') ')[1].split(' ');
-	// utime and stime are fields 14 and 15 of stat(5), counted here from field 3, in 1/100 s.
-	return (Number(fields[11]) + Number(fields[12])) / 100;
-}
-
 interface CpuUse {
 	app: number;
 	storage: number;
@@ -481,6 +282,7 @@ function combine(runs: [RunResult, CpuUse][]): [RunResult, CpuUse] {
 }
 
 async function benchRanges({
+	run,
 	key,
 	recordingId,
 	cookie,
@@ -490,6 +292,7 @@ async function benchRanges({
 	seconds,
 	sha256First
 }: {
+	run: BenchRun;
 	key: string;
 	recordingId: string;
 	cookie: string;
@@ -505,7 +308,7 @@ async function benchRanges({
 	const agent = () => new Agent({ keepAlive: true, maxSockets: 64 });
 	const s3 = new S3Client({
 		region: 'us-east-1',
-		endpoint: STORAGE_URL,
+		endpoint: run.storageUrl,
 		forcePathStyle: true,
 		credentials: { accessKeyId: KEY_ID, secretAccessKey: KEY_ID },
 		requestChecksumCalculation: 'WHEN_REQUIRED',
@@ -524,7 +327,7 @@ async function benchRanges({
 	const viaApp = (start: number, end: number, hash?: ReturnType<typeof createHash>) =>
 		new Promise<number>((done, failed) => {
 			const req = httpRequest(
-				`${APP_URL}${path}`,
+				`${run.appUrl}${path}`,
 				{ agent: appAgent, headers: { Cookie: cookie, Range: `bytes=${start}-${end}` } },
 				(res) => {
 					if (res.statusCode !== 206) {
@@ -774,54 +577,4 @@ async function benchUpload(storageModule: StorageModule): Promise<Row[]> {
 	];
 }
 
-function printTable(rows: Row[], loadStart: number): void {
-	const header: Row = {
-		figure: 'figure',
-		measured: 'Kinelume',
-		reference: 'reference (same run)',
-		result: 'result',
-		goal: 'goal',
-		pass: null
-	};
-	const cells = (r: Row) => [
-		r.figure,
-		r.measured,
-		r.reference,
-		r.result,
-		r.goal,
-		r.pass === null ? 'verdict' : r.pass ? 'PASS' : 'MISSED'
-	];
-	const all = [header, ...rows].map(cells);
-	const widths = all[0].map((_, i) => Math.max(...all.map((c) => c[i].length)));
-	const line = (c: string[]) => c.map((v, i) => v.padEnd(widths[i])).join('  ');
-	console.log(
-		`\nKinelume media benchmark (MB = 10^6 bytes; ranges of ${RANGE_BYTES / MIB} MiB over a 100 MiB object)\n`
-	);
-	console.log(line(all[0]));
-	console.log(widths.map((w) => '-'.repeat(w)).join('  '));
-	for (const c of all.slice(1)) console.log(line(c));
-	console.log('\nWhere the time went:');
-	for (const note of notes) console.log(`  ${note}`);
-	const [loadEnd] = loadavg();
-	console.log(
-		`  load average ${loadStart.toFixed(2)} at the start, ${loadEnd.toFixed(2)} at the end` +
-			(loadStart > 0.5 ? ' (other work was running: figures are less reliable)' : '')
-	);
-	const missed = rows.filter((r) => r.pass === false).length;
-	console.log(
-		`\n${missed === 0 ? 'Every goal met.' : `${missed} of ${rows.length} goals missed.`} ` +
-			'A measurement, not a test: the exit code does not depend on the goals.'
-	);
-}
-
-// Last, so that every constant above is initialised before either mode runs.
-/*
- * The fakes run in a child process of their own (this file again, with --fakes). In this process
- * the storage fake would share one event loop with the benchmark's clients, so the direct
- * reference would be slowed by its own client and the ratio would flatter the app.
- */
-if (process.argv.includes('--fakes')) {
-	await runFakes(process.argv[process.argv.indexOf('--fakes') + 1]);
-} else {
-	await main();
-}
+await main();
