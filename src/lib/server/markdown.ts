@@ -93,10 +93,11 @@ const OPTIONS: sanitizeHtml.IOptions = {
 		h5: 'h4',
 		h6: 'h4',
 		// sanitize-html then drops any href whose scheme is not allowed.
-		a: (tagName, attribs) => ({
-			tagName,
-			attribs: attribs.href ? { href: attribs.href, rel: 'noopener noreferrer' } : {}
-		})
+		a: (tagName, attribs) => {
+			const kept: sanitizeHtml.Attributes = {};
+			if (attribs.href) Object.assign(kept, { href: attribs.href, rel: 'noopener noreferrer' });
+			return { tagName, attribs: kept };
+		}
 	}
 };
 

@@ -1,0 +1,117 @@
+/**
+ * What an exercise is made of, checked at the edge (form actions, JSON) with messages a clinician
+ * can act on. The dosage parts come from $lib/dosage, so an exercise and a programme item are
+ * checked alike.
+ */
+import { z } from 'zod';
+import {
+	DOSAGE_FIELD_LABELS,
+	dosageBoundsSchema,
+	dosageSchema,
+	outOfBounds,
+	PROGRESSED_FIELD,
+	progressionSchema
+} from '$lib/dosage';
+import {
+	EXERCISE_SIDES,
+	EXERCISE_STATUSES,
+	MOVEMENT_TYPES,
+	PHASE_NUMBERS,
+	POSITIONS
+} from './vocabulary';
+
+export const LIMITS = {
+	title: 120,
+	description: 2000,
+	bodyRegion: 60,
+	equipment: 10,
+	equipmentItem: 40,
+	cues: 20,
+	cueText: 200,
+	safetyNotes: 5000,
+	tags: 20,
+	tag: 120,
+	/** Longest a cue may point into a segment, in seconds (a demonstration is minutes, not hours). */
+	cueAt: 3600
+} as const;
+
+const text = (what: string, max: number) =>
+	z.string().trim().max(max, `Keep ${what} under ${max} characters.`);
+
+export const coachingCueSchema = z.object({
+	text: z
+		.string()
+		.trim()
+		.min(1, 'A coaching cue needs its words.')
+		.max(LIMITS.cueText, `Keep each coaching cue under ${LIMITS.cueText} characters.`),
+	atSeconds: z
+		.number('A cue’s time must be minutes and seconds, for example 0:12.')
+		.min(0, 'A cue’s time cannot be before the start.')
+		.max(LIMITS.cueAt, 'A cue’s time must lie within the demonstration.')
+		.optional()
+});
+
+export const exerciseInputSchema = z
+	.object({
+		title: text('the title', LIMITS.title).min(1, 'Give the exercise a title.'),
+		description: text('the description', LIMITS.description),
+		bodyRegion: text('the body region', LIMITS.bodyRegion).min(
+			1,
+			'Say which body region the exercise is for, for example Knee.'
+		),
+		side: z.enum(EXERCISE_SIDES, 'Choose which side the exercise works.'),
+		position: z.enum(POSITIONS, 'Choose the starting position.'),
+		movementType: z.enum(MOVEMENT_TYPES, 'Choose the movement type.'),
+		equipment: z
+			.array(text('each piece of equipment', LIMITS.equipmentItem).min(1))
+			.max(LIMITS.equipment, `List at most ${LIMITS.equipment} pieces of equipment.`),
+		phase: z
+			.number('Choose the phase.')
+			.int('Choose the phase.')
+			.min(1, 'Choose the phase.')
+			.max(PHASE_NUMBERS.length, 'Choose the phase.'),
+		coachingCues: z
+			.array(coachingCueSchema)
+			.max(LIMITS.cues, `Keep to ${LIMITS.cues} coaching cues or fewer.`),
+		safetyNotes: text('the safety notes', LIMITS.safetyNotes),
+		precautionTags: z
+			.array(text('each precaution tag', LIMITS.tag).min(1))
+			.max(LIMITS.tags, `Keep to ${LIMITS.tags} precaution tags or fewer.`),
+		dosage: dosageSchema,
+		bounds: dosageBoundsSchema,
+		progression: progressionSchema,
+		secondsPerRep: z
+			.number('Seconds per rep must be a number, for example 4.')
+			.min(0.5, 'Seconds per rep must be from 0.5 to 120.')
+			.max(120, 'Seconds per rep must be from 0.5 to 120.')
+			.nullable(),
+		segmentId: z.uuid('Choose a demonstration segment.').nullable(),
+		status: z.enum(EXERCISE_STATUSES, 'Choose draft, ready or retired.')
+	})
+	.superRefine((e, ctx) => {
+		const field = PROGRESSED_FIELD[e.progression.kind];
+		if (field && e.progression.kind !== 'none' && e.progression.ceiling < e.dosage[field]) {
+			ctx.addIssue({
+				code: 'custom',
+				path: ['progression', 'ceiling'],
+				message: `The most it rises to (${e.progression.ceiling}) is below where it starts (${e.dosage[field]}). Raise the most, or lower the starting ${DOSAGE_FIELD_LABELS[field].toLowerCase()}.`
+			});
+		}
+		for (const issue of outOfBounds(e.dosage, e.bounds)) {
+			ctx.addIssue({
+				code: 'custom',
+				path: ['dosage', issue.field],
+				message: `The default dosage is outside the exercise's own range: ${issue.message}`
+			});
+		}
+		if (e.status === 'ready' && !e.segmentId) {
+			ctx.addIssue({
+				code: 'custom',
+				path: ['segmentId'],
+				message:
+					'Choose the demonstration segment before marking the exercise ready: patients replay it.'
+			});
+		}
+	});
+
+export type ExerciseInput = z.infer<typeof exerciseInputSchema>;
