@@ -1,0 +1,117 @@
+/**
+ * The library's files. Approval copies a segment's clip and posters from the clinic's private
+ * keys to `library/<published version>/…`, so every public URL reads a copy made for the
+ * public and none reaches a clinic's own keys. Public endpoints stream only those copies.
+ */
+import { CopyObjectCommand } from '@aws-sdk/client-s3';
+import type { LibrarySubmission, LibraryVersion, SegmentRow } from '../db/schema';
+import { bucketName, deletePrefix, headObject, storage } from '../storage';
+import { libraryKeys, recordingKeys } from '../storage/keys';
+
+export interface CopiedMedia {
+	posterCount: number;
+	clipSize: number;
+}
+
+async function copyObject(from: string, to: string, contentType: string): Promise<void> {
+	await storage().send(
+		new CopyObjectCommand({
+			Bucket: bucketName(),
+			Key: to,
+			CopySource: `${bucketName()}/${from.split('/').map(encodeURIComponent).join('/')}`,
+			ContentType: contentType,
+			MetadataDirective: 'REPLACE'
+		})
+	);
+}
+
+/**
+ * Copies the segment's clip and posters under the version's own prefix. Throws when the clip
+ * is missing (its recording may have been deleted since the submission); a poster that is
+ * missing is left out rather than failing the approval.
+ */
+export async function copySegmentToLibrary(
+	segment: SegmentRow,
+	versionId: string
+): Promise<CopiedMedia> {
+	const source = recordingKeys(segment.clinicId, segment.recordingId);
+	const target = libraryKeys(versionId);
+	const clip = await headObject(source.segment(segment.id));
+	if (!clip) {
+		throw new Error(`The clip of segment ${segment.id} is missing from storage.`);
+	}
+	await copyObject(source.segment(segment.id), target.segment(segment.id), 'video/mp4');
+	let posterCount = 0;
+	for (let index = 0; index < segment.posterCount; index++) {
+		const from = source.segmentPoster(segment.id, index);
+		if (!(await headObject(from))) break;
+		await copyObject(from, target.poster(index), 'image/jpeg');
+		posterCount++;
+	}
+	return { posterCount, clipSize: clip.contentLength };
+}
+
+/** Removes every copy a version made (a failed approval, or a retired exercise). */
+export async function deleteVersionMedia(versionId: string): Promise<void> {
+	await deletePrefix(libraryKeys(versionId).prefix);
+}
+
+export interface StoredAsset {
+	key: string;
+	type: string;
+}
+
+const POSTER = /^poster-(\d{1,2})\.jpg$/;
+
+/** The public copy an asset name of a published version stands for; null for no such asset. */
+export function versionAsset(version: LibraryVersion, asset: string): StoredAsset | null {
+	const keys = libraryKeys(version.id);
+	if (asset === 'clip.mp4')
+		return { key: keys.segment(version.snapshot.segment.id), type: 'video/mp4' };
+	const poster = POSTER.exec(asset);
+	if (poster && Number(poster[1]) < version.posterCount) {
+		return { key: keys.poster(Number(poster[1])), type: 'image/jpeg' };
+	}
+	return null;
+}
+
+/**
+ * The clinic's own file behind a submission, for the educator reviewing it (never public);
+ * null for no such asset or a segment that is gone.
+ */
+export function submissionAsset(
+	submission: LibrarySubmission,
+	segment: SegmentRow | null,
+	asset: string
+): StoredAsset | null {
+	if (!segment || segment.id !== submission.segmentId || segment.clinicId !== submission.clinicId) {
+		return null;
+	}
+	const keys = recordingKeys(segment.clinicId, segment.recordingId);
+	if (asset === 'clip.mp4') return { key: keys.segment(segment.id), type: 'video/mp4' };
+	const poster = POSTER.exec(asset);
+	if (poster && Number(poster[1]) < segment.posterCount) {
+		return { key: keys.segmentPoster(segment.id, Number(poster[1])), type: 'image/jpeg' };
+	}
+	return null;
+}
+
+/** Where a published version's files are served, for pages and Open Graph tags. */
+export function versionUrls(version: Pick<LibraryVersion, 'id' | 'posterCount'>) {
+	const base = `/api/library/versions/${version.id}`;
+	return {
+		clip: `${base}/clip.mp4`,
+		captions: `${base}/captions.vtt`,
+		posters: Array.from({ length: version.posterCount }, (_, i) => `${base}/poster-${i}.jpg`)
+	};
+}
+
+/** Where a submission's files are served to the educator reviewing it. */
+export function submissionUrls(submissionId: string, posterCount: number) {
+	const base = `/api/library/submissions/${submissionId}`;
+	return {
+		clip: `${base}/clip.mp4`,
+		captions: `${base}/captions.vtt`,
+		posters: Array.from({ length: posterCount }, (_, i) => `${base}/poster-${i}.jpg`)
+	};
+}

@@ -1,0 +1,416 @@
+/**
+ * An educator's decisions: approve (which publishes a new, immutable version), request
+ * changes or reject — each e-mailed to the clinician — and, for what is already public,
+ * unpublish, publish again and retire.
+ */
+import { and, desc, eq, max } from 'drizzle-orm';
+import { judgementTicked, JUDGEMENT_ITEMS, type Checklist } from '$lib/library/checklist';
+import { slugify, uniqueSlug } from '$lib/library/slug';
+import type { Decision } from '$lib/library/types';
+import { config } from '../config';
+import { db } from '../db';
+import {
+	libraryCollectionItems,
+	libraryExercises,
+	libraryReviews,
+	librarySubmissions,
+	libraryVersions,
+	users,
+	type LibraryExercise,
+	type LibraryVersion
+} from '../db/schema';
+import { sendMail } from '../mail';
+import { decisionMail } from './mail';
+import { copySegmentToLibrary, deleteVersionMedia } from './media';
+import { forgetFilterOptions } from './public';
+import { reindexEntry } from './search-index';
+import { LibraryError, submissionForReview } from './submissions';
+
+export interface Reviewer {
+	id: string;
+	name: string;
+}
+
+export interface DecisionInput {
+	decision: Decision;
+	comment: string;
+	judgement: string[];
+}
+
+export interface DecisionResult {
+	decision: Decision;
+	/** Set on approval: the public address and the version made. */
+	slug?: string;
+	versionId?: string;
+	/** Whether the clinician's e-mail went out (a failure does not undo the decision). */
+	mailed: boolean;
+}
+
+/** The reasons an approval cannot go ahead, in words for the educator; empty when it can. */
+export function approvalBlockers(checklist: Checklist, judgement: readonly string[]): string[] {
+	const blockers = checklist.items
+		.filter((i) => !i.passed)
+		.map((i) => `Not yet met: ${i.label.toLowerCase()}.`);
+	const ticked = judgementTicked(judgement);
+	for (const item of JUDGEMENT_ITEMS) {
+		if (!ticked.includes(item.id)) blockers.push(`Confirm: ${item.label.toLowerCase()}.`);
+	}
+	return blockers;
+}
+
+function entryIsTaken(slug: string): boolean {
+	return (
+		db()
+			.select({ id: libraryExercises.id })
+			.from(libraryExercises)
+			.where(eq(libraryExercises.slug, slug))
+			.get() !== undefined
+	);
+}
+
+/**
+ * Decides a waiting submission. Approval copies the clip and posters to the library first
+ * (storage is not part of the database transaction), then in one transaction — which checks
+ * again that nobody decided meanwhile — adds the version, points the public exercise at it and
+ * reindexes it. If that transaction fails, the copies are removed again.
+ */
+export async function decideSubmission(
+	submissionId: string,
+	reviewer: Reviewer,
+	input: DecisionInput
+): Promise<DecisionResult> {
+	const found = submissionForReview(submissionId);
+	if (!found) throw new LibraryError(404, 'Not found.');
+	const { submission, checklist, segment } = found;
+	if (submission.status !== 'waiting') {
+		throw new LibraryError(409, 'This submission was already decided; reload to see the decision.');
+	}
+	const comment = input.comment.trim();
+	if (input.decision !== 'approved' && comment.length < 5) {
+		throw new LibraryError(400, 'Write the clinician a comment: say what to change or why.');
+	}
+	const judgement = judgementTicked(input.judgement);
+
+	let published: { version: LibraryVersion; entry: LibraryExercise } | null = null;
+	if (input.decision === 'approved') {
+		const blockers = approvalBlockers(checklist, judgement);
+		if (blockers.length > 0) throw new LibraryError(400, blockers.join(' '));
+		if (!segment || segment.status !== 'ready') {
+			throw new LibraryError(
+				409,
+				'The clip behind this submission is no longer there (its recording may have been deleted). Request changes so the clinician can submit again.'
+			);
+		}
+		const versionId = crypto.randomUUID();
+		let media;
+		try {
+			media = await copySegmentToLibrary(segment, versionId);
+		} catch (error) {
+			await deleteVersionMedia(versionId).catch(() => undefined);
+			console.error(`[library] copying media for ${submission.id} failed:`, error);
+			throw new LibraryError(
+				503,
+				'The clip could not be copied to the library just now; nothing was published. Try again in a moment.'
+			);
+		}
+		try {
+			published = publishVersion(
+				submission.id,
+				versionId,
+				reviewer,
+				comment,
+				judgement,
+				checklist,
+				media
+			);
+		} catch (error) {
+			await deleteVersionMedia(versionId).catch(() => undefined);
+			throw error;
+		}
+	} else {
+		db().transaction(
+			(tx) => {
+				const current = tx
+					.select({ status: librarySubmissions.status })
+					.from(librarySubmissions)
+					.where(eq(librarySubmissions.id, submission.id))
+					.get();
+				if (current?.status !== 'waiting') {
+					throw new LibraryError(
+						409,
+						'This submission was already decided; reload to see the decision.'
+					);
+				}
+				tx.insert(libraryReviews)
+					.values({
+						submissionId: submission.id,
+						reviewerId: reviewer.id,
+						decision: input.decision,
+						comment,
+						checklist,
+						judgement
+					})
+					.run();
+				tx.update(librarySubmissions)
+					.set({ status: input.decision, decidedAt: new Date() })
+					.where(eq(librarySubmissions.id, submission.id))
+					.run();
+			},
+			{ behavior: 'immediate' }
+		);
+	}
+
+	const mailed = await mailClinician(found.submitter?.email ?? null, {
+		decision: input.decision,
+		title: submission.snapshot.title,
+		reviewerName: reviewer.name,
+		comment,
+		url: published
+			? `${config().ORIGIN}/library/exercises/${published.entry.slug}`
+			: submission.exerciseId
+				? `${config().ORIGIN}/exercises/${submission.exerciseId}/submit`
+				: `${config().ORIGIN}/exercises`
+	});
+	return {
+		decision: input.decision,
+		slug: published?.entry.slug,
+		versionId: published?.version.id,
+		mailed
+	};
+}
+
+function publishVersion(
+	submissionId: string,
+	versionId: string,
+	reviewer: Reviewer,
+	comment: string,
+	judgement: string[],
+	checklist: Checklist,
+	media: { posterCount: number; clipSize: number }
+): { version: LibraryVersion; entry: LibraryExercise } {
+	return db().transaction(
+		(tx) => {
+			const submission = tx
+				.select()
+				.from(librarySubmissions)
+				.where(eq(librarySubmissions.id, submissionId))
+				.get();
+			if (!submission || submission.status !== 'waiting') {
+				throw new LibraryError(
+					409,
+					'This submission was already decided; reload to see the decision.'
+				);
+			}
+			const snapshot = submission.snapshot;
+			let entry = submission.libraryExerciseId
+				? tx
+						.select()
+						.from(libraryExercises)
+						.where(eq(libraryExercises.id, submission.libraryExerciseId))
+						.get()
+				: undefined;
+			// A retired exercise stays retired (its address answers 410); approving anew starts another.
+			if (!entry || entry.status === 'retired') {
+				entry = tx
+					.insert(libraryExercises)
+					.values({
+						slug: uniqueSlug(slugify(snapshot.title), entryIsTaken),
+						clinicId: submission.clinicId,
+						sourceExerciseId: submission.exerciseId,
+						status: 'published'
+					})
+					.returning()
+					.get();
+			}
+			const latest =
+				tx
+					.select({ n: max(libraryVersions.version) })
+					.from(libraryVersions)
+					.where(eq(libraryVersions.libraryExerciseId, entry.id))
+					.get()?.n ?? 0;
+			const version = tx
+				.insert(libraryVersions)
+				.values({
+					id: versionId,
+					libraryExerciseId: entry.id,
+					version: latest + 1,
+					submissionId: submission.id,
+					title: snapshot.title,
+					bodyRegion: snapshot.bodyRegion,
+					position: snapshot.position,
+					movementType: snapshot.movementType,
+					phase: snapshot.phase,
+					equipment: snapshot.equipment,
+					snapshot,
+					licence: submission.licence,
+					attribution: submission.attribution,
+					posterCount: media.posterCount,
+					clipDurationSeconds: snapshot.segment.durationSeconds,
+					clipSize: media.clipSize,
+					publishedBy: reviewer.id
+				})
+				.returning()
+				.get();
+			entry = tx
+				.update(libraryExercises)
+				.set({ currentVersionId: version.id, status: 'published', updatedAt: new Date() })
+				.where(eq(libraryExercises.id, entry.id))
+				.returning()
+				.get();
+			tx.insert(libraryReviews)
+				.values({
+					submissionId: submission.id,
+					reviewerId: reviewer.id,
+					decision: 'approved',
+					comment,
+					checklist,
+					judgement
+				})
+				.run();
+			tx.update(librarySubmissions)
+				.set({ status: 'approved', decidedAt: new Date(), libraryExerciseId: entry.id })
+				.where(eq(librarySubmissions.id, submission.id))
+				.run();
+			reindexEntry(entry.id);
+			forgetFilterOptions();
+			return { version, entry };
+		},
+		{ behavior: 'immediate' }
+	);
+}
+
+async function mailClinician(
+	email: string | null,
+	content: Parameters<typeof decisionMail>[0]
+): Promise<boolean> {
+	if (!email) return false;
+	try {
+		await sendMail({ to: email, ...decisionMail(content) });
+		return true;
+	} catch (error) {
+		console.error(`[library] the decision e-mail to ${email} failed:`, error);
+		return false;
+	}
+}
+
+/** A public exercise by id, for the educator's table; null if unknown. */
+export function findEntry(id: string): LibraryExercise | null {
+	return db().select().from(libraryExercises).where(eq(libraryExercises.id, id)).get() ?? null;
+}
+
+/** Takes a published exercise off the public pages (its address answers 404) until published again. */
+export function unpublishEntry(id: string): LibraryExercise {
+	return setEntryStatus(id, ['published'], 'unpublished');
+}
+
+/** Puts an unpublished exercise back, with the version it had. */
+export function republishEntry(id: string): LibraryExercise {
+	return setEntryStatus(id, ['unpublished'], 'published');
+}
+
+/**
+ * Withdraws an exercise for good: its address answers 410, it leaves every collection, and
+ * its public copies are deleted. A later approval of the same exercise starts a new address.
+ */
+export async function retireEntry(id: string): Promise<LibraryExercise> {
+	const entry = setEntryStatus(id, ['published', 'unpublished'], 'retired', () => {
+		db()
+			.delete(libraryCollectionItems)
+			.where(eq(libraryCollectionItems.libraryExerciseId, id))
+			.run();
+	});
+	const versions = db()
+		.select({ id: libraryVersions.id })
+		.from(libraryVersions)
+		.where(eq(libraryVersions.libraryExerciseId, id))
+		.all();
+	for (const v of versions) {
+		await deleteVersionMedia(v.id).catch((error) =>
+			console.error(`[library] deleting the copies of version ${v.id} failed:`, error)
+		);
+	}
+	return entry;
+}
+
+function setEntryStatus(
+	id: string,
+	from: LibraryExercise['status'][],
+	to: LibraryExercise['status'],
+	alsoInTransaction?: () => void
+): LibraryExercise {
+	return db().transaction(
+		(tx) => {
+			const entry = tx.select().from(libraryExercises).where(eq(libraryExercises.id, id)).get();
+			if (!entry) throw new LibraryError(404, 'Not found.');
+			if (!from.includes(entry.status)) {
+				throw new LibraryError(
+					409,
+					`This exercise is ${entry.status}; it cannot become ${to} from there.`
+				);
+			}
+			if (to === 'published' && !entry.currentVersionId) {
+				throw new LibraryError(409, 'This exercise has no approved version to show.');
+			}
+			const updated = tx
+				.update(libraryExercises)
+				.set({
+					status: to,
+					updatedAt: new Date(),
+					...(to === 'retired' ? { retiredAt: new Date() } : {})
+				})
+				.where(and(eq(libraryExercises.id, id), eq(libraryExercises.status, entry.status)))
+				.returning()
+				.get();
+			alsoInTransaction?.();
+			reindexEntry(id);
+			forgetFilterOptions();
+			return updated;
+		},
+		{ behavior: 'immediate' }
+	);
+}
+
+export interface EntryRow {
+	id: string;
+	slug: string;
+	title: string;
+	status: LibraryExercise['status'];
+	version: number;
+	bodyRegion: string;
+	publishedAt: Date;
+	publishedBy: string;
+	clinicName: string;
+}
+
+/** Every public exercise with its current version, for the educator's table (newest first). */
+export function listEntries(): EntryRow[] {
+	const rows = db()
+		.select({
+			entry: libraryExercises,
+			version: libraryVersions,
+			publisherName: users.name,
+			publisherEmail: users.email
+		})
+		.from(libraryExercises)
+		.innerJoin(libraryVersions, eq(libraryVersions.id, libraryExercises.currentVersionId))
+		.leftJoin(users, eq(users.id, libraryVersions.publishedBy))
+		.orderBy(desc(libraryVersions.publishedAt))
+		.all();
+	const clinicNames = new Map(
+		db()
+			.query.clinics.findMany({ columns: { id: true, name: true } })
+			.sync()
+			.map((c) => [c.id, c.name])
+	);
+	return rows.map(({ entry, version, publisherName, publisherEmail }) => ({
+		id: entry.id,
+		slug: entry.slug,
+		title: version.title,
+		status: entry.status,
+		version: version.version,
+		bodyRegion: version.bodyRegion,
+		publishedAt: version.publishedAt,
+		publishedBy: publisherName ?? publisherEmail ?? 'An educator',
+		clinicName: clinicNames.get(entry.clinicId) ?? ''
+	}));
+}
