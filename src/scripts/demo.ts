@@ -101,6 +101,14 @@ console.log(
 );
 console.log('Press Ctrl+C to stop.\n');
 
+// The demo recordings' segments, once the app has made their web versions (it runs the cuts too).
+const { confirmDemoSegments } = await import('../lib/server/demo/segments');
+confirmDemoSegments('clinician@alder-street.example', (line) => console.log(line))
+	.then((n) => {
+		if (n > 0) console.log(`Segments confirmed for ${n} demonstration recording(s).`);
+	})
+	.catch((error: unknown) => console.error('The demo segments could not be made:', error));
+
 let stopping = false;
 async function stop(code = 0) {
 	if (stopping) return;
