@@ -11,6 +11,7 @@ import {
 	type MatrixRole
 } from './support';
 import { E2E } from './ports';
+import { studio } from './matrix/studio';
 import {
 	clinicianApi,
 	everyone,
@@ -21,7 +22,7 @@ import {
 } from './matrix/types';
 
 /** Each domain keeps its rows in its own file under matrix/; list it here. */
-const PARTS: MatrixPart[] = [];
+const PARTS: MatrixPart[] = [studio];
 
 /**
  * The role matrix: every route that exists × every role (and the signed-out public) → the

@@ -12,6 +12,7 @@ import {
 	moveCue,
 	newCueAt,
 	nudgeEdge,
+	parseTypedTime,
 	removeCue,
 	resizeCue,
 	secondsNeeded,
@@ -294,4 +295,19 @@ describe('every edit keeps the order, makes no overlap and no negative duration'
 			);
 		});
 	}
+});
+
+describe('parseTypedTime', () => {
+	it('reads the ways people write times', () => {
+		expect(parseTypedTime('1:02.5')).toBe(62.5);
+		expect(parseTypedTime('00:01:02.500')).toBe(62.5);
+		expect(parseTypedTime(' 62,5 ')).toBe(62.5);
+		expect(parseTypedTime('90')).toBe(90);
+		expect(parseTypedTime('1:00:00')).toBe(3600);
+	});
+	it('refuses what is not a time', () => {
+		for (const text of ['', 'soon', '1:75', '1:60:00', '1.2.3', '-1', '1::2', '0.1234']) {
+			expect(parseTypedTime(text), text).toBeNull();
+		}
+	});
 });

@@ -434,3 +434,18 @@ export function applyFix(
 	const moved = order.findIndex((o) => o.k === index);
 	return { cues: sorted, index: moved, changed: true };
 }
+
+/**
+ * Seconds for a time typed by a person: "1:02.5", "00:01:02.500", "62.5" or "62,5"; null when
+ * it is not a time. More lenient than a WebVTT timestamp, which needs exactly three decimals.
+ */
+export function parseTypedTime(text: string): number | null {
+	const parts = text.trim().replace(',', '.').split(':');
+	if (parts.length > 3 || parts.some((p) => p === '')) return null;
+	const seconds = parts.pop()!;
+	if (!/^\d+(\.\d{1,3})?$/.test(seconds) || parts.some((p) => !/^\d+$/.test(p))) return null;
+	const [hours, minutes] = parts.length === 2 ? parts.map(Number) : [0, Number(parts[0] ?? 0)];
+	if (parts.length > 0 && Number(seconds) >= 60) return null;
+	if (parts.length === 2 && minutes >= 60) return null;
+	return toMillis(hours * 3600 + minutes * 60 + Number(seconds));
+}
