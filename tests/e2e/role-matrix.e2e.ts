@@ -12,6 +12,7 @@ import {
 } from './support';
 import { E2E } from './ports';
 import { studio } from './matrix/studio';
+import { segmentsPart } from './matrix/segments';
 import {
 	clinicianApi,
 	everyone,
@@ -22,7 +23,7 @@ import {
 } from './matrix/types';
 
 /** Each domain keeps its rows in its own file under matrix/; list it here. */
-const PARTS: MatrixPart[] = [studio];
+const PARTS: MatrixPart[] = [studio, segmentsPart];
 
 /**
  * The role matrix: every route that exists × every role (and the signed-out public) → the

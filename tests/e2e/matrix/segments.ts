@@ -1,0 +1,135 @@
+import { ACCOUNTS, seedCaptionTrack, seedReadyRecording } from '../support';
+import { seedReadySegment } from '../segments-support';
+import { clinicianApi, onlyPage, type MatrixPart, type Row } from './types';
+
+/**
+ * Segments: the clinician's segments page and its endpoints, and the segment files that patients
+ * also reach. The matrix's patient has no programme using these segments, so every segment row
+ * answers them 404, as for any id that is not theirs; segments.e2e.ts signs in a patient whose
+ * published programme does use one and checks the 200s.
+ */
+
+/** Clinicians of the clinic; the patient gets "not found" (no programme of theirs uses it). */
+const segmentFile = (clinician: number) => ({ ...clinicianApi(clinician), patient: 404 });
+
+const segmentRows = (route: string, file: (id: string) => string, own: number = 200): Row[] => [
+	{
+		route,
+		note: "own clinic's segment, in no programme of the patient's",
+		path: (f) => file(f.extra.segmentId),
+		expect: segmentFile(own)
+	},
+	{
+		route,
+		note: "another clinic's segment",
+		path: (f) => file(f.extra.otherClinicSegmentId),
+		expect: segmentFile(404)
+	}
+];
+
+export const segmentsPart: MatrixPart = {
+	async seed(f) {
+		const segmentId = await seedReadySegment(f.recordingId, { title: 'Matrix heel slides' });
+		const otherClinicSegmentId = await seedReadySegment(f.otherClinicRecordingId, {
+			title: 'Matrix ankle pumps'
+		});
+		const cuttingSegmentId = await seedReadySegment(f.recordingId, {
+			title: 'Matrix still cutting',
+			status: 'cutting'
+		});
+		const chaptersRecordingId = await seedReadyRecording(ACCOUNTS.clinician);
+		seedCaptionTrack(
+			chaptersRecordingId,
+			[{ id: 'chapter-1', start: 0, end: 1, text: 'Heel slides' }],
+			{ kind: 'chapters', language: 'en-GB' }
+		);
+		return { segmentId, otherClinicSegmentId, cuttingSegmentId, chaptersRecordingId };
+	},
+	rows: [
+		{
+			route: '/(clinician)/recordings/[id=id]/segments',
+			note: "own clinic's recording",
+			path: (f) => `/recordings/${f.recordingId}/segments`,
+			expect: onlyPage('clinician')
+		},
+		{
+			route: '/(clinician)/recordings/[id=id]/segments',
+			note: "another clinic's recording",
+			path: (f) => `/recordings/${f.otherClinicRecordingId}/segments`,
+			expect: { ...onlyPage('clinician'), clinician: 404 }
+		},
+		{
+			route: '/api/recordings/[id=id]/segments',
+			note: "own clinic's recording",
+			path: (f) => `/api/recordings/${f.recordingId}/segments`,
+			expect: clinicianApi(200)
+		},
+		{
+			route: '/api/recordings/[id=id]/segments',
+			note: "another clinic's recording",
+			path: (f) => `/api/recordings/${f.otherClinicRecordingId}/segments`,
+			expect: clinicianApi(404)
+		},
+		{
+			route: '/api/recordings/[id=id]/segment-suggestions',
+			note: "own clinic's recording (its stand-in rendition leaves the captions alone)",
+			path: (f) => `/api/recordings/${f.recordingId}/segment-suggestions`,
+			expect: clinicianApi(200)
+		},
+		{
+			route: '/api/recordings/[id=id]/segment-suggestions',
+			note: "another clinic's recording",
+			path: (f) => `/api/recordings/${f.otherClinicRecordingId}/segment-suggestions`,
+			expect: clinicianApi(404)
+		},
+		{
+			route: '/api/recordings/[id=id]/chapters.vtt',
+			note: "own clinic's recording with chapters",
+			path: (f) => `/api/recordings/${f.extra.chaptersRecordingId}/chapters.vtt`,
+			expect: clinicianApi(200)
+		},
+		{
+			route: '/api/recordings/[id=id]/chapters.vtt',
+			note: "own clinic's recording without chapters",
+			path: (f) => `/api/recordings/${f.recordingId}/chapters.vtt`,
+			expect: clinicianApi(404)
+		},
+		{
+			route: '/api/recordings/[id=id]/chapters.vtt',
+			note: "another clinic's recording",
+			path: (f) => `/api/recordings/${f.otherClinicRecordingId}/chapters.vtt`,
+			expect: clinicianApi(404)
+		},
+		...segmentRows('/api/segments/[id=id]/clip.mp4', (id) => `/api/segments/${id}/clip.mp4`),
+		{
+			route: '/api/segments/[id=id]/clip.mp4',
+			note: 'a segment still being cut',
+			path: (f) => `/api/segments/${f.extra.cuttingSegmentId}/clip.mp4`,
+			expect: segmentFile(404)
+		},
+		{
+			route: '/api/segments/[id=id]/clip.mp4',
+			note: 'an id that is no segment',
+			path: () => `/api/segments/${crypto.randomUUID()}/clip.mp4`,
+			expect: segmentFile(404)
+		},
+		...segmentRows(
+			'/api/segments/[id=id]/poster-[n].jpg',
+			(id) => `/api/segments/${id}/poster-0.jpg`
+		),
+		{
+			route: '/api/segments/[id=id]/poster-[n].jpg',
+			note: 'a poster the segment does not have',
+			path: (f) => `/api/segments/${f.extra.segmentId}/poster-5.jpg`,
+			expect: segmentFile(404)
+		},
+		...segmentRows(
+			'/api/segments/[id=id]/captions.vtt',
+			(id) => `/api/segments/${id}/captions.vtt`
+		),
+		...segmentRows(
+			'/api/segments/[id=id]/transcript.json',
+			(id) => `/api/segments/${id}/transcript.json`
+		)
+	]
+};
