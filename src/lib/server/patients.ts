@@ -71,7 +71,7 @@ export async function invitePatient(
 		email: string;
 		affectedSide: Patient['affectedSide'];
 		condition: string;
-	}
+	} & Partial<Pick<Patient, 'operationDate' | 'protocol' | 'precautions' | 'timeZone'>>
 ): Promise<Patient> {
 	const email = normaliseEmail(input.email);
 	const existing = db()
@@ -89,7 +89,11 @@ export async function invitePatient(
 				fullName: input.fullName,
 				email,
 				affectedSide: input.affectedSide,
-				condition: input.condition
+				condition: input.condition,
+				operationDate: input.operationDate ?? null,
+				protocol: input.protocol ?? '',
+				precautions: input.precautions ?? [],
+				...(input.timeZone ? { timeZone: input.timeZone } : {})
 			})
 			.returning()
 			.get();
@@ -123,4 +127,34 @@ export async function resendPatientInvitation(
 		patientId,
 		invitedBy: clinician
 	});
+}
+
+/** The clinical details a clinician keeps up to date on a patient's record. */
+export type PatientDetailsUpdate = Pick<
+	Patient,
+	| 'fullName'
+	| 'affectedSide'
+	| 'condition'
+	| 'operationDate'
+	| 'protocol'
+	| 'precautions'
+	| 'timeZone'
+>;
+
+/** Saves a patient's details; null when the patient is not in the clinician's clinic. */
+export function updatePatientDetails(
+	clinician: Principal,
+	patientId: string,
+	details: PatientDetailsUpdate
+): Patient | null {
+	return (
+		db()
+			.update(schema.patients)
+			.set(details)
+			.where(
+				and(eq(schema.patients.id, patientId), eq(schema.patients.clinicId, clinician.clinicId))
+			)
+			.returning()
+			.get() ?? null
+	);
 }

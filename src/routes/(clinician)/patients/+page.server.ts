@@ -1,6 +1,5 @@
 import { fail } from '@sveltejs/kit';
 import { z } from 'zod';
-import { SIDES } from '$lib/server/db/schema/patients';
 import { requireRole } from '$lib/server/auth/guard';
 import { emailHasRole } from '$lib/server/members';
 import { normaliseEmail } from '$lib/server/invitations';
@@ -10,18 +9,21 @@ import {
 	PatientError,
 	resendPatientInvitation
 } from '$lib/server/patients';
+import { detailsDraftFromForm, emptyDetailsDraft, parseDetails } from '$lib/patients/form';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = () => {
 	const clinician = requireRole('clinician');
 	return {
 		clinicName: clinician.clinicName,
+		blank: emptyDetailsDraft(),
 		patients: listPatients(clinician.clinicId).map((p) => ({
 			id: p.id,
 			fullName: p.fullName,
 			email: p.email,
 			affectedSide: p.affectedSide,
 			condition: p.condition,
+			operationDate: p.operationDate,
 			status: p.status,
 			clinicians: p.clinicians,
 			invitedAt: p.invitedAt?.toISOString() ?? null
@@ -29,41 +31,42 @@ export const load: PageServerLoad = () => {
 	};
 };
 
-const inviteForm = z.object({
-	fullName: z.string().trim().min(1, "Enter the patient's name.").max(120),
-	email: z.email('Enter a valid e-mail address.').max(320).transform(normaliseEmail),
-	affectedSide: z.enum(SIDES, 'Choose the affected side.'),
-	condition: z.string().trim().max(200, 'Keep the condition under 200 characters.')
-});
+const emailField = z.email('Enter a valid e-mail address.').max(320).transform(normaliseEmail);
 
 export const actions: Actions = {
 	invite: async ({ request }) => {
 		const clinician = requireRole('clinician');
-		const raw = Object.fromEntries(await request.formData());
-		const values = {
-			fullName: String(raw.fullName ?? ''),
-			email: String(raw.email ?? ''),
-			affectedSide: String(raw.affectedSide ?? ''),
-			condition: String(raw.condition ?? '')
-		};
-		const parsed = inviteForm.safeParse(values);
-		if (!parsed.success)
-			return fail(400, { action: 'invite', message: parsed.error.issues[0].message, values });
-		if (emailHasRole(parsed.data.email)) {
+		const form = await request.formData();
+		const details = detailsDraftFromForm(form);
+		const email = String(form.get('email') ?? '');
+		const values = { ...details, email };
+		const parsedEmail = emailField.safeParse(email);
+		if (!parsedEmail.success)
+			return fail(400, {
+				action: 'invite',
+				message: parsedEmail.error.issues[0].message,
+				path: 'email',
+				values
+			});
+		const parsed = parseDetails(details);
+		if (!parsed.ok)
+			return fail(400, { action: 'invite', message: parsed.message, path: parsed.path, values });
+		if (emailHasRole(parsedEmail.data)) {
 			return fail(409, {
 				action: 'invite',
 				message: 'That address already has an account in a clinic.',
+				path: 'email',
 				values
 			});
 		}
 		try {
-			await invitePatient(clinician, parsed.data);
+			await invitePatient(clinician, { ...parsed.details, email: parsedEmail.data });
 		} catch (e) {
 			if (e instanceof PatientError)
-				return fail(409, { action: 'invite', message: e.message, values });
+				return fail(409, { action: 'invite', message: e.message, path: 'email', values });
 			throw e;
 		}
-		return { action: 'invite', sent: parsed.data.email };
+		return { action: 'invite', sent: parsedEmail.data };
 	},
 	resend: async ({ request }) => {
 		const clinician = requireRole('clinician');

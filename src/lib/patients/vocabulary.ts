@@ -1,0 +1,37 @@
+/** Words for a patient's record, shared by the invitation form and the details page. */
+import { PROTOCOL_IDS, PROTOCOLS } from '$lib/clinical/phases';
+
+export { PRECAUTIONS, type PrecautionId } from '$lib/clinical/precautions';
+
+export const PROTOCOL_IDS_LIST = PROTOCOL_IDS;
+
+/** Protocol choices for a select: none, then the phase tables we ship. */
+export const PROTOCOL_CHOICES: { value: string; label: string }[] = [
+	{ value: '', label: 'None: no phase table (follow the surgeon’s protocol)' },
+	...PROTOCOL_IDS.map((id) => ({
+		value: id,
+		label: `${PROTOCOLS[id].name} (${PROTOCOLS[id].confidence === 'published' ? 'published weeks' : 'common-practice weeks'})`
+	}))
+];
+
+export const SIDE_LABELS: Record<string, string> = {
+	left: 'Left',
+	right: 'Right',
+	both: 'Both',
+	'not applicable': 'Not applicable'
+};
+
+/** A short list first; the field accepts any IANA zone name. */
+export const COMMON_TIME_ZONES = [
+	'Europe/London',
+	'Europe/Dublin',
+	'Europe/Lisbon',
+	'Europe/Paris',
+	'Europe/Berlin',
+	'America/New_York',
+	'America/Chicago',
+	'America/Denver',
+	'America/Los_Angeles',
+	'Australia/Sydney',
+	'Pacific/Auckland'
+] as const;
