@@ -4,6 +4,7 @@ import { painTrend } from '../clinical/pain';
 import {
 	adherenceCell,
 	adherenceSentence,
+	daysAgo,
 	formatDate,
 	formatDateRange,
 	formatDegrees,
@@ -18,6 +19,12 @@ describe('dates and degrees in words', () => {
 		expect(formatDateRange('2026-11-28', '2026-12-04')).toBe('28 Nov – 4 Dec 2026');
 		expect(formatDateRange('2026-12-29', '2027-01-04')).toBe('29 Dec 2026 – 4 Jan 2027');
 		expect(formatDateRange('2026-11-24', '2026-11-24')).toBe('24 Nov 2026');
+	});
+
+	it('says how long ago a session was, from the patient’s today', () => {
+		expect(daysAgo('2026-11-30', '2026-11-30')).toBe('Today');
+		expect(daysAgo('2026-11-29', '2026-11-30')).toBe('Yesterday');
+		expect(daysAgo('2026-11-25', '2026-11-30')).toBe('5 days ago');
 	});
 
 	it('writes degrees with a true minus sign and half degrees', () => {

@@ -86,3 +86,12 @@ export function weekAfterSentence(operationDate: LocalDate, today: LocalDate): s
 	}
 	return `${describeTimeSince(since)} after the operation on ${formatDate(operationDate)}`;
 }
+
+/** "today", "yesterday", "5 days ago" — a date seen from the patient's today. */
+export function daysAgo(date: LocalDate, today: LocalDate): string {
+	const days = weeksSince(date, today).days;
+	if (days === 0) return 'Today';
+	if (days === 1) return 'Yesterday';
+	if (days < 0) return formatDate(date);
+	return `${days} days ago`;
+}
