@@ -13,6 +13,7 @@ import {
 import { E2E } from './ports';
 import { studio } from './matrix/studio';
 import { segmentsPart } from './matrix/segments';
+import { followupPart } from './matrix/followup';
 import {
 	clinicianApi,
 	everyone,
@@ -23,7 +24,7 @@ import {
 } from './matrix/types';
 
 /** Each domain keeps its rows in its own file under matrix/; list it here. */
-const PARTS: MatrixPart[] = [studio, segmentsPart];
+const PARTS: MatrixPart[] = [studio, segmentsPart, followupPart];
 
 /**
  * The role matrix: every route that exists × every role (and the signed-out public) → the
