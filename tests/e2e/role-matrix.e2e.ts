@@ -14,6 +14,7 @@ import { E2E } from './ports';
 import { studio } from './matrix/studio';
 import { segmentsPart } from './matrix/segments';
 import { followupPart } from './matrix/followup';
+import { patientPart } from './matrix/patient';
 import {
 	clinicianApi,
 	everyone,
@@ -24,7 +25,7 @@ import {
 } from './matrix/types';
 
 /** Each domain keeps its rows in its own file under matrix/; list it here. */
-const PARTS: MatrixPart[] = [studio, segmentsPart, followupPart];
+const PARTS: MatrixPart[] = [studio, segmentsPart, followupPart, patientPart];
 
 /**
  * The role matrix: every route that exists × every role (and the signed-out public) → the

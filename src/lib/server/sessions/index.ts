@@ -1,0 +1,454 @@
+/**
+ * The patient's side of a home programme: today's exercises, one exercise to replay, session
+ * logs, safety acknowledgements and the caption look. Every function takes the patient's own
+ * record (found from the session, never from a URL), so another patient's ids match nothing.
+ */
+import { and, desc, eq, inArray, isNotNull } from 'drizzle-orm';
+import { plainText } from '$lib/captions/text';
+import { scheduledWeekdays } from '$lib/clinical/adherence';
+import { addDays, localDateOf, programmeWeek, type LocalDate } from '$lib/clinical/calendar';
+import { describeDosage, dosageForWeek, type Dosage } from '$lib/dosage';
+import { effectiveCaptionStyle, type CaptionStyle } from '$lib/sessions/caption-style';
+import type { SessionLogData, StoredSessionLog } from '$lib/sessions/log';
+import type { TranscriptLine } from '$lib/sessions/replay';
+import {
+	describeWeekdays,
+	itemDayStatus,
+	itemSchedule,
+	pauseOn,
+	summariseDay,
+	type DaySummary,
+	type ItemDayStatus
+} from '$lib/sessions/schedule';
+import { db, schema } from '../db';
+import type { Patient } from '../db/schema/patients';
+import type { Exercise, Programme, ProgrammeItem, SessionLog } from '../db/schema/programmes';
+import type { SegmentRow } from '../db/schema/segments';
+import type { CalendarInput } from './calendar';
+
+/** The patient's current programme: the most recently published one still in force. */
+export function currentProgramme(patientId: string): Programme | undefined {
+	return db()
+		.select()
+		.from(schema.programmes)
+		.where(
+			and(eq(schema.programmes.patientId, patientId), eq(schema.programmes.status, 'published'))
+		)
+		.orderBy(desc(schema.programmes.publishedAt), desc(schema.programmes.createdAt))
+		.get();
+}
+
+function pausesOf(programmeId: string) {
+	return db()
+		.select()
+		.from(schema.programmePauses)
+		.where(eq(schema.programmePauses.programmeId, programmeId))
+		.all();
+}
+
+export function dosageOf(row: Dosage): Dosage {
+	return {
+		sets: row.sets,
+		reps: row.reps,
+		holdSeconds: row.holdSeconds,
+		restSeconds: row.restSeconds,
+		sessionsPerDay: row.sessionsPerDay,
+		daysPerWeek: row.daysPerWeek
+	};
+}
+
+/** The item's dosage on a date: its own dosage risen by its progression to that programme week. */
+export function dosageOn(programme: Programme, item: ProgrammeItem, date: LocalDate): Dosage {
+	const week = Math.max(1, programmeWeek(programme.startDate, date));
+	return dosageForWeek(dosageOf(item), item.progression, week);
+}
+
+/** The media of a segment, through the segment endpoints (which check the viewer themselves). */
+export function segmentMedia(segment: Pick<SegmentRow, 'id' | 'posterCount'>) {
+	const base = `/api/segments/${segment.id}`;
+	return {
+		clip: `${base}/clip.mp4`,
+		captions: `${base}/captions.vtt`,
+		transcript: `${base}/transcript.json`,
+		poster: segment.posterCount > 0 ? `${base}/poster-0.jpg` : null
+	};
+}
+
+interface ItemRow {
+	item: ProgrammeItem;
+	exercise: Exercise;
+	segment: SegmentRow | null;
+}
+
+function itemsOf(programmeId: string): ItemRow[] {
+	return db()
+		.select({
+			item: schema.programmeItems,
+			exercise: schema.exercises,
+			segment: schema.segments
+		})
+		.from(schema.programmeItems)
+		.innerJoin(schema.exercises, eq(schema.exercises.id, schema.programmeItems.exerciseId))
+		.leftJoin(schema.segments, eq(schema.segments.id, schema.exercises.segmentId))
+		.where(eq(schema.programmeItems.programmeId, programmeId))
+		.orderBy(schema.programmeItems.position)
+		.all();
+}
+
+export interface TodayItem {
+	id: string;
+	title: string;
+	position: string;
+	equipment: string[];
+	dosage: Dosage;
+	dosageWords: string;
+	status: ItemDayStatus;
+	/** The weekdays it is for, in words ("every day", "Monday, Wednesday and Friday"). */
+	weekdays: string;
+	poster: string | null;
+	hasVideo: boolean;
+}
+
+export interface TodayView {
+	today: LocalDate;
+	timeZone: string;
+	programme: {
+		id: string;
+		title: string;
+		note: string;
+		startDate: LocalDate;
+		endDate: LocalDate | null;
+		week: number;
+	} | null;
+	/** Why no sessions are due today, when none are. */
+	restDay: {
+		kind: 'not-started' | 'ended' | 'paused';
+		reason?: string;
+		resumes?: LocalDate;
+	} | null;
+	items: TodayItem[];
+	summary: DaySummary;
+}
+
+/** Everything the Today page shows, for the patient's calendar day at `now`. */
+export function todayFor(patient: Patient, now: number = Date.now()): TodayView {
+	const today = localDateOf(now, patient.timeZone);
+	const programme = currentProgramme(patient.id);
+	const empty: DaySummary = { done: 0, due: 0, next: null };
+	if (!programme) {
+		return {
+			today,
+			timeZone: patient.timeZone,
+			programme: null,
+			restDay: null,
+			items: [],
+			summary: empty
+		};
+	}
+	const pauses = pausesOf(programme.id);
+	const pause = pauseOn({ pauses }, today);
+	const restDay: TodayView['restDay'] =
+		today < programme.startDate
+			? { kind: 'not-started' }
+			: programme.endDate && today > programme.endDate
+				? { kind: 'ended' }
+				: pause
+					? { kind: 'paused', reason: pause.reason, resumes: addDays(pause.toDate, 1) }
+					: null;
+
+	const rows = itemsOf(programme.id);
+	const logs = rows.length
+		? db()
+				.select({ itemId: schema.sessionLogs.programmeItemId })
+				.from(schema.sessionLogs)
+				.where(
+					and(
+						eq(schema.sessionLogs.patientId, patient.id),
+						inArray(
+							schema.sessionLogs.programmeItemId,
+							rows.map((r) => r.item.id)
+						),
+						eq(schema.sessionLogs.localDate, today)
+					)
+				)
+				.all()
+		: [];
+
+	const days = { startDate: programme.startDate, endDate: programme.endDate, pauses };
+	const items: TodayItem[] = rows.map(({ item, exercise, segment }) => {
+		const dosage = dosageOn(programme, item, today);
+		const doneToday = logs.filter((l) => l.itemId === item.id).length;
+		const status = itemDayStatus(itemSchedule(days, dosage), today, doneToday);
+		const ready = segment?.status === 'ready';
+		return {
+			id: item.id,
+			title: exercise.title,
+			position: exercise.position,
+			equipment: exercise.equipment,
+			dosage,
+			dosageWords: describeDosage(dosage),
+			status,
+			weekdays: describeWeekdays(scheduledWeekdays(itemSchedule(days, dosage))),
+			poster: ready && segment ? segmentMedia(segment).poster : null,
+			hasVideo: ready
+		};
+	});
+
+	return {
+		today,
+		timeZone: patient.timeZone,
+		programme: {
+			id: programme.id,
+			title: programme.title,
+			note: programme.note,
+			startDate: programme.startDate,
+			endDate: programme.endDate,
+			week: Math.max(1, programmeWeek(programme.startDate, today))
+		},
+		restDay,
+		items,
+		summary: restDay ? empty : summariseDay(items.map((i) => i.status))
+	};
+}
+
+export interface ReplayItem {
+	programme: Programme;
+	item: ProgrammeItem;
+	exercise: Exercise;
+	segment: SegmentRow | null;
+}
+
+/**
+ * One exercise of the patient's published programme, by programme item id; undefined for any
+ * other id (another patient's item, a draft or ended programme's), which the routes answer 404.
+ */
+export function findReplayItem(patientId: string, itemId: string): ReplayItem | undefined {
+	const row = db()
+		.select({
+			programme: schema.programmes,
+			item: schema.programmeItems,
+			exercise: schema.exercises,
+			segment: schema.segments
+		})
+		.from(schema.programmeItems)
+		.innerJoin(schema.programmes, eq(schema.programmes.id, schema.programmeItems.programmeId))
+		.innerJoin(schema.exercises, eq(schema.exercises.id, schema.programmeItems.exerciseId))
+		.leftJoin(schema.segments, eq(schema.segments.id, schema.exercises.segmentId))
+		.where(
+			and(
+				eq(schema.programmeItems.id, itemId),
+				eq(schema.programmes.patientId, patientId),
+				eq(schema.programmes.status, 'published')
+			)
+		)
+		.get();
+	return row ?? undefined;
+}
+
+/** The segment's cues as transcript lines of plain words (tags dropped, never rendered as HTML). */
+export function transcriptLines(segment: SegmentRow | null): TranscriptLine[] {
+	if (!segment) return [];
+	return segment.cues.map((cue) => ({
+		id: cue.id,
+		start: cue.start,
+		end: cue.end,
+		text: plainText(cue.text)
+	}));
+}
+
+/** Sessions of one item logged on a date. */
+export function sessionsLoggedOn(patientId: string, itemId: string, date: LocalDate): number {
+	return db()
+		.select({ id: schema.sessionLogs.id })
+		.from(schema.sessionLogs)
+		.where(
+			and(
+				eq(schema.sessionLogs.patientId, patientId),
+				eq(schema.sessionLogs.programmeItemId, itemId),
+				eq(schema.sessionLogs.localDate, date)
+			)
+		)
+		.all().length;
+}
+
+/** Where one exercise of the patient stands today, and the weekdays it is for, in words. */
+export function itemToday(
+	patientId: string,
+	programme: Programme,
+	item: ProgrammeItem,
+	today: LocalDate
+): { status: ItemDayStatus; weekdays: string } {
+	const days = {
+		startDate: programme.startDate,
+		endDate: programme.endDate,
+		pauses: pausesOf(programme.id)
+	};
+	const schedule = itemSchedule(days, dosageOn(programme, item, today));
+	return {
+		status: itemDayStatus(schedule, today, sessionsLoggedOn(patientId, item.id, today)),
+		weekdays: describeWeekdays(scheduledWeekdays(schedule))
+	};
+}
+
+// ---- Safety acknowledgement -------------------------------------------------------------
+
+export function hasAcknowledged(patientId: string, exerciseId: string): boolean {
+	return !!db()
+		.select({ at: schema.safetyAcknowledgements.acknowledgedAt })
+		.from(schema.safetyAcknowledgements)
+		.where(
+			and(
+				eq(schema.safetyAcknowledgements.patientId, patientId),
+				eq(schema.safetyAcknowledgements.exerciseId, exerciseId)
+			)
+		)
+		.get();
+}
+
+/** Records that the patient read an exercise's safety notes; a second time changes nothing. */
+export function acknowledgeSafety(patientId: string, exerciseId: string): void {
+	db()
+		.insert(schema.safetyAcknowledgements)
+		.values({ patientId, exerciseId })
+		.onConflictDoNothing()
+		.run();
+}
+
+// ---- Session logs ----------------------------------------------------------------------
+
+export class SessionLogError extends Error {
+	constructor(
+		readonly status: 404 | 422,
+		message: string
+	) {
+		super(message);
+	}
+}
+
+/** How far ahead of the server a device's clock may run before a log's time is refused. */
+const FUTURE_ALLOWANCE_MS = 24 * 3_600_000;
+
+function stored(row: SessionLog): StoredSessionLog {
+	return {
+		id: row.id,
+		clientId: row.clientId,
+		programmeItemId: row.programmeItemId,
+		doneAt: row.doneAt.toISOString(),
+		localDate: row.localDate,
+		setsDone: row.setsDone,
+		repsDone: row.repsDone,
+		pain: row.pain,
+		note: row.note
+	};
+}
+
+/**
+ * Stores one session log for the patient, once per device-made clientId: sending the same log
+ * again returns the stored one with `created: false`. The item must be in one of the patient's
+ * programmes that was published (an ended one too — a log made offline before it ended is kept).
+ * The calendar day is the patient's own, from `doneAt` in their time zone.
+ */
+export function recordSession(
+	patient: Patient,
+	input: SessionLogData,
+	now: number = Date.now()
+): { log: StoredSessionLog; created: boolean } {
+	const store = db();
+	return store.transaction(
+		(tx) => {
+			const existing = tx
+				.select()
+				.from(schema.sessionLogs)
+				.where(
+					and(
+						eq(schema.sessionLogs.patientId, patient.id),
+						eq(schema.sessionLogs.clientId, input.clientId)
+					)
+				)
+				.get();
+			if (existing) return { log: stored(existing), created: false };
+
+			const item = tx
+				.select({ id: schema.programmeItems.id })
+				.from(schema.programmeItems)
+				.innerJoin(schema.programmes, eq(schema.programmes.id, schema.programmeItems.programmeId))
+				.where(
+					and(
+						eq(schema.programmeItems.id, input.programmeItemId),
+						eq(schema.programmes.patientId, patient.id),
+						isNotNull(schema.programmes.publishedAt)
+					)
+				)
+				.get();
+			if (!item) throw new SessionLogError(404, 'That exercise is not in your programme.');
+
+			const doneAt = new Date(input.doneAt);
+			if (doneAt.getTime() > now + FUTURE_ALLOWANCE_MS) {
+				throw new SessionLogError(
+					422,
+					"The session's time is in the future. Please check the date and time on your device."
+				);
+			}
+			const row = tx
+				.insert(schema.sessionLogs)
+				.values({
+					clinicId: patient.clinicId,
+					patientId: patient.id,
+					programmeItemId: input.programmeItemId,
+					clientId: input.clientId,
+					doneAt,
+					localDate: localDateOf(doneAt, patient.timeZone),
+					setsDone: input.setsDone,
+					repsDone: input.repsDone,
+					pain: input.pain,
+					note: input.note
+				})
+				.returning()
+				.get();
+			return { log: stored(row), created: true };
+		},
+		{ behavior: 'immediate' }
+	);
+}
+
+// ---- Caption style ----------------------------------------------------------------------
+
+export function captionStyleOf(patient: Patient): CaptionStyle {
+	return effectiveCaptionStyle(patient.captionStyle);
+}
+
+/** Saves the patient's caption look; the caller has validated it (contrast included). */
+export function saveCaptionStyle(patientId: string, style: CaptionStyle): void {
+	db()
+		.update(schema.patients)
+		.set({ captionStyle: style })
+		.where(eq(schema.patients.id, patientId))
+		.run();
+}
+
+// ---- Calendar reminders -----------------------------------------------------------------
+
+/** What the reminders file is made from, or null when the patient has no programme. */
+export function calendarInputFor(
+	patient: Patient,
+	origin: string,
+	now: number = Date.now()
+): CalendarInput | null {
+	const programme = currentProgramme(patient.id);
+	if (!programme) return null;
+	return {
+		programmeId: programme.id,
+		title: programme.title,
+		timeZone: patient.timeZone,
+		startDate: programme.startDate,
+		endDate: programme.endDate,
+		pauses: pausesOf(programme.id),
+		today: localDateOf(now, patient.timeZone),
+		origin,
+		items: itemsOf(programme.id).map(({ item, exercise }) => ({
+			title: exercise.title,
+			dosage: dosageOf(item),
+			progression: item.progression
+		}))
+	};
+}

@@ -1,0 +1,133 @@
+import { describe, expect, it } from 'vitest';
+import {
+	clockTime,
+	longDate,
+	instantAt,
+	describeWeekdays,
+	itemDayStatus,
+	itemSchedule,
+	pauseOn,
+	sessionMinutes,
+	summariseDay
+} from './schedule';
+
+describe('session times through the day (09:00–19:00, common practice)', () => {
+	it('spreads sessions evenly, to the quarter hour', () => {
+		expect(sessionMinutes(1).map(clockTime)).toEqual(['09:00']);
+		expect(sessionMinutes(2).map(clockTime)).toEqual(['09:00', '19:00']);
+		expect(sessionMinutes(3).map(clockTime)).toEqual(['09:00', '14:00', '19:00']);
+		expect(sessionMinutes(4).map(clockTime)).toEqual(['09:00', '12:15', '15:45', '19:00']);
+		expect(sessionMinutes(0)).toEqual([]);
+	});
+});
+
+describe('a local time as an instant', () => {
+	it('is 09:00 local in winter and summer in London (GMT, then BST)', () => {
+		expect(new Date(instantAt('2026-01-15', 540, 'Europe/London')).toISOString()).toBe(
+			'2026-01-15T09:00:00.000Z'
+		);
+		expect(new Date(instantAt('2026-07-15', 540, 'Europe/London')).toISOString()).toBe(
+			'2026-07-15T08:00:00.000Z'
+		);
+	});
+
+	it('stays on the wall clock on the day clocks go forward (London, 29 March 2026)', () => {
+		// The tz database: the UK changes at 01:00 UTC on the last Sunday of March (from memory).
+		expect(new Date(instantAt('2026-03-29', 540, 'Europe/London')).toISOString()).toBe(
+			'2026-03-29T08:00:00.000Z'
+		);
+		expect(new Date(instantAt('2026-03-29', 19 * 60, 'Europe/London')).toISOString()).toBe(
+			'2026-03-29T18:00:00.000Z'
+		);
+	});
+
+	it('works east of Greenwich and across the date line', () => {
+		expect(new Date(instantAt('2026-06-01', 540, 'Pacific/Auckland')).toISOString()).toBe(
+			'2026-05-31T21:00:00.000Z'
+		);
+		expect(new Date(instantAt('2026-06-01', 540, 'America/Los_Angeles')).toISOString()).toBe(
+			'2026-06-01T16:00:00.000Z'
+		);
+	});
+
+	it('moves a time the clocks skip an hour later (New York, 8 March 2026, 02:30)', () => {
+		expect(new Date(instantAt('2026-03-08', 150, 'America/New_York')).toISOString()).toBe(
+			'2026-03-08T07:30:00.000Z'
+		);
+	});
+});
+
+describe('programme days', () => {
+	const programme = {
+		startDate: '2026-03-02',
+		endDate: '2026-03-29',
+		pauses: [{ fromDate: '2026-03-10', toDate: '2026-03-11', reason: 'Review visit' }]
+	};
+
+	it('names the pause a date falls in', () => {
+		expect(pauseOn(programme, '2026-03-09')).toBeUndefined();
+		expect(pauseOn(programme, '2026-03-11')?.reason).toBe('Review visit');
+	});
+
+	it('asks for sessions within the dates, on scheduled weekdays, outside pauses', () => {
+		const daily = itemSchedule(programme, { sessionsPerDay: 3, daysPerWeek: 7 });
+		expect(itemDayStatus(daily, '2026-03-01', 0).kind).toBe('rest');
+		expect(itemDayStatus(daily, '2026-03-02', 0)).toEqual({ kind: 'due', done: 0, of: 3 });
+		expect(itemDayStatus(daily, '2026-03-10', 0).kind).toBe('rest');
+		expect(itemDayStatus(daily, '2026-03-29', 0).kind).toBe('due');
+		expect(itemDayStatus(daily, '2026-03-30', 0).kind).toBe('rest');
+		expect(
+			itemDayStatus(itemSchedule({ ...programme, endDate: null }, daily), '2027-01-01', 0).kind
+		).toBe('due');
+	});
+});
+
+describe("today's sessions", () => {
+	const programme = { startDate: '2026-03-02', endDate: null, pauses: [] };
+
+	it('counts sessions done against sessions a day', () => {
+		const daily = itemSchedule(programme, { sessionsPerDay: 3, daysPerWeek: 7 });
+		expect(itemDayStatus(daily, '2026-03-05', 2)).toEqual({ kind: 'due', done: 2, of: 3 });
+		expect(itemDayStatus(daily, '2026-03-05', 3)).toEqual({ kind: 'done', done: 3, of: 3 });
+		// An extra session does not count past what was asked.
+		expect(itemDayStatus(daily, '2026-03-05', 5)).toEqual({ kind: 'done', done: 3, of: 3 });
+	});
+
+	it('asks for a 3-days-a-week exercise on the weekdays adherence counts (Mon, Wed, Fri)', () => {
+		const three = itemSchedule(programme, { sessionsPerDay: 1, daysPerWeek: 3 });
+		// 2026-03-04 is a Wednesday, 2026-03-05 a Thursday.
+		expect(itemDayStatus(three, '2026-03-04', 0).kind).toBe('due');
+		expect(itemDayStatus(three, '2026-03-05', 1)).toEqual({
+			kind: 'rest',
+			weekdays: [1, 3, 5],
+			done: 1
+		});
+		expect(describeWeekdays([1, 3, 5])).toBe('Monday, Wednesday and Friday');
+		expect(describeWeekdays([1, 4])).toBe('Monday and Thursday');
+		expect(describeWeekdays([1])).toBe('Monday');
+		expect(describeWeekdays([1, 2, 3, 4, 5, 6, 7])).toBe('every day');
+	});
+
+	it('sums the day and names the next session with its time', () => {
+		expect(
+			summariseDay([
+				{ kind: 'due', done: 1, of: 3 },
+				{ kind: 'done', done: 2, of: 2 },
+				{ kind: 'rest', weekdays: [1, 3, 5], done: 0 }
+			])
+		).toEqual({ done: 3, due: 5, next: { number: 2, of: 3, minutes: 14 * 60 } });
+		expect(summariseDay([{ kind: 'done', done: 2, of: 2 }])).toEqual({
+			done: 2,
+			due: 2,
+			next: null
+		});
+		expect(summariseDay([])).toEqual({ done: 0, due: 0, next: null });
+	});
+});
+
+describe('dates in words', () => {
+	it('names the weekday and month (2 March 2026 is a Monday)', () => {
+		expect(longDate('2026-03-02')).toBe('Monday 2 March');
+		expect(longDate('2026-03-02', true)).toBe('Monday 2 March 2026');
+	});
+});

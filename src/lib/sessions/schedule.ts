@@ -1,0 +1,179 @@
+/**
+ * When a patient's sessions fall: which days a programme runs, the times of day its sessions are
+ * suggested at (the calendar reminders use the same times), and how far through today the
+ * patient is. Dates are the patient's own 'YYYY-MM-DD'; instants are epoch milliseconds.
+ */
+import { scheduledWeekdays, sessionsPrescribedOn, type Schedule } from '$lib/clinical/adherence';
+import { localDateOf, startOfLocalDay, type LocalDate, type Weekday } from '$lib/clinical/calendar';
+
+/** Sessions are spread over the waking day, from 09:00 to 19:00 (common practice). */
+export const FIRST_SESSION_MINUTE = 9 * 60;
+export const LAST_SESSION_MINUTE = 19 * 60;
+
+/**
+ * Minutes after local midnight of each of `count` sessions: one at 09:00, two at 09:00 and
+ * 19:00, three at 09:00, 14:00 and 19:00 …, evenly spaced and rounded to a quarter hour.
+ */
+export function sessionMinutes(count: number): number[] {
+	if (!Number.isInteger(count) || count < 1) return [];
+	if (count === 1) return [FIRST_SESSION_MINUTE];
+	const span = LAST_SESSION_MINUTE - FIRST_SESSION_MINUTE;
+	return Array.from(
+		{ length: count },
+		(_, i) => FIRST_SESSION_MINUTE + Math.round((span * i) / (count - 1) / 15) * 15
+	);
+}
+
+/** "09:00", "14:15" — a time of day on the 24-hour clock. */
+export function clockTime(minutes: number): string {
+	const h = Math.floor(minutes / 60);
+	const m = minutes % 60;
+	return `${String(h).padStart(2, '0')}:${String(m).padStart(2, '0')}`;
+}
+
+function minutesIntoDay(instant: number, timeZone: string): number {
+	const parts = new Intl.DateTimeFormat('en-GB', {
+		timeZone,
+		hourCycle: 'h23',
+		hour: '2-digit',
+		minute: '2-digit'
+	}).formatToParts(instant);
+	const get = (type: string) => Number(parts.find((p) => p.type === type)?.value ?? 0);
+	return get('hour') * 60 + get('minute');
+}
+
+/**
+ * The instant a local wall-clock time happens on a date in a time zone. Counting from the start
+ * of the local day would be an hour out on the days clocks change, so the guess is corrected by
+ * what the clock really reads then. A time the clocks skip (02:30 on a spring-forward night)
+ * comes out an hour later, as calendar programs do.
+ */
+export function instantAt(date: LocalDate, minutes: number, timeZone: string): number {
+	const dayStart = startOfLocalDay(date, timeZone);
+	let instant = dayStart + minutes * 60_000;
+	for (let i = 0; i < 2; i++) {
+		const sameDay = localDateOf(instant, timeZone) === date;
+		const seen = sameDay ? minutesIntoDay(instant, timeZone) : minutes + 24 * 60;
+		if (seen === minutes) break;
+		instant += (minutes - seen) * 60_000;
+	}
+	return instant;
+}
+
+export interface ProgrammeDays {
+	startDate: LocalDate;
+	endDate: LocalDate | null;
+	pauses: { fromDate: LocalDate; toDate: LocalDate }[];
+}
+
+/** The pause a date falls in, if any. */
+export function pauseOn<P extends { fromDate: LocalDate; toDate: LocalDate }>(
+	programme: { pauses: P[] },
+	date: LocalDate
+): P | undefined {
+	return programme.pauses.find((p) => p.fromDate <= date && date <= p.toDate);
+}
+
+/**
+ * One exercise's schedule in the terms of lib/clinical/adherence, so the patient is asked for
+ * exactly the sessions their clinician's adherence figures count (3 days a week → Monday,
+ * Wednesday and Friday).
+ */
+export function itemSchedule(
+	programme: ProgrammeDays,
+	dosage: { sessionsPerDay: number; daysPerWeek: number }
+): Schedule {
+	return {
+		startDate: programme.startDate,
+		endDate: programme.endDate,
+		sessionsPerDay: dosage.sessionsPerDay,
+		daysPerWeek: dosage.daysPerWeek,
+		pauses: programme.pauses.map((p) => ({ from: p.fromDate, to: p.toDate }))
+	};
+}
+
+export type ItemDayStatus =
+	/** Sessions are asked for today and not all are done. */
+	| { kind: 'due'; done: number; of: number }
+	/** Today's sessions are all done. */
+	| { kind: 'done'; done: number; of: number }
+	/** No sessions are asked for today (another weekday's exercise); `done` counts any logged. */
+	| { kind: 'rest'; weekdays: Weekday[]; done: number };
+
+/** Where one exercise stands today, from its schedule and the sessions logged today. */
+export function itemDayStatus(
+	schedule: Schedule,
+	today: LocalDate,
+	doneToday: number
+): ItemDayStatus {
+	const of = sessionsPrescribedOn(schedule, today);
+	if (of === 0) return { kind: 'rest', weekdays: scheduledWeekdays(schedule), done: doneToday };
+	const done = Math.min(doneToday, of);
+	return done >= of ? { kind: 'done', done, of } : { kind: 'due', done, of };
+}
+
+const WEEKDAY_NAMES = [
+	'Monday',
+	'Tuesday',
+	'Wednesday',
+	'Thursday',
+	'Friday',
+	'Saturday',
+	'Sunday'
+];
+
+/** "every day", "Monday, Wednesday and Friday". */
+export function describeWeekdays(weekdays: readonly Weekday[]): string {
+	if (weekdays.length === 7) return 'every day';
+	const names = weekdays.map((d) => WEEKDAY_NAMES[d - 1]);
+	return names.length === 1 ? names[0] : `${names.slice(0, -1).join(', ')} and ${names.at(-1)}`;
+}
+
+export interface DaySummary {
+	/** Sessions logged today, over all exercises due today (capped at each one's sessions). */
+	done: number;
+	/** Sessions due today, over all exercises. */
+	due: number;
+	/**
+	 * The next session, numbered from 1 among the day's sessions, with its suggested time;
+	 * null when today's are all done. Session k is done when every exercise due today with at
+	 * least k sessions has k logged.
+	 */
+	next: { number: number; of: number; minutes: number } | null;
+}
+
+/** How far through today a patient is, from each exercise's status. */
+export function summariseDay(statuses: ItemDayStatus[]): DaySummary {
+	let done = 0;
+	let due = 0;
+	let sessions = 0;
+	let nextNumber = Infinity;
+	for (const status of statuses) {
+		if (status.kind === 'rest') continue;
+		done += status.done;
+		due += status.of;
+		sessions = Math.max(sessions, status.of);
+		if (status.done < status.of) nextNumber = Math.min(nextNumber, status.done + 1);
+	}
+	if (!Number.isFinite(nextNumber)) return { done, due, next: null };
+	return {
+		done,
+		due,
+		next: { number: nextNumber, of: sessions, minutes: sessionMinutes(sessions)[nextNumber - 1] }
+	};
+}
+
+/** A patient's date in words: "Monday 2 March 2026" (British English, as the demo clinic writes). */
+export function longDate(date: LocalDate, withYear = false): string {
+	const parts = new Intl.DateTimeFormat('en-GB', {
+		timeZone: 'UTC',
+		weekday: 'long',
+		day: 'numeric',
+		month: 'long',
+		year: 'numeric'
+	}).formatToParts(new Date(`${date}T12:00:00Z`));
+	const get = (type: string) => parts.find((p) => p.type === type)?.value ?? '';
+	const words = [get('weekday'), get('day'), get('month')];
+	if (withYear) words.push(get('year'));
+	return words.join(' ');
+}
