@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { isTimeZone } from '../clinical/calendar';
 
 /**
  * Every environment variable Kinelume reads, in one place, with defaults for the one-machine
@@ -73,7 +74,15 @@ const schema = z.object({
 		.int()
 		.min(1)
 		.max(24 * 60 * 60)
-		.default(1800)
+		.default(1800),
+	// The clinicians' weekly digest: due from this ISO weekday (1 = Monday) and hour, local time.
+	DIGEST_WEEKDAY: z.coerce.number().int().min(1).max(7).default(1),
+	DIGEST_HOUR: z.coerce.number().int().min(0).max(23).default(7),
+	DIGEST_TIME_ZONE: z
+		.string()
+		.refine(isTimeZone, 'must be an IANA time zone such as Europe/London')
+		.default('Europe/London'),
+	DIGEST_ENABLED: bool.default(true)
 });
 
 export type Config = z.infer<typeof schema>;

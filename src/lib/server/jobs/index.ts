@@ -1,10 +1,11 @@
 import { config } from '../config';
+import { startDigestSchedule } from '../followup/digest';
 import { processRecordingHandler } from '../recordings/process';
 import { startUploadSweep } from '../recordings/uploads';
 import { cutSegmentHandler } from '../segments/job';
 import { startWorker, type Worker, type WorkerOptions } from './worker';
 
-let running: { worker: Worker; stopSweep: () => void } | undefined;
+let running: { worker: Worker; stopSweep: () => void; stopDigest: () => void } | undefined;
 
 /** Every kind of job this codebase knows how to run. */
 export const HANDLERS: WorkerOptions['handlers'] = {
@@ -13,14 +14,16 @@ export const HANDLERS: WorkerOptions['handlers'] = {
 };
 
 /**
- * Starts this process's media worker and the abandoned-upload sweep, once. The app calls it from
- * its `init` hook unless WORKER_IN_APP=false; `npm run worker` calls it on its own.
+ * Starts this process's media worker, the abandoned-upload sweep and the hourly check for the
+ * weekly digest, once. The app calls it from its `init` hook unless WORKER_IN_APP=false;
+ * `npm run worker` calls it on its own.
  */
 export function startBackgroundWork(options: Partial<WorkerOptions> = {}): Worker {
 	if (running) return running.worker;
 	const worker = startWorker({ handlers: HANDLERS, ...options });
 	const stopSweep = startUploadSweep();
-	running = { worker, stopSweep };
+	const stopDigest = startDigestSchedule();
+	running = { worker, stopSweep, stopDigest };
 	return worker;
 }
 
@@ -31,9 +34,10 @@ export function nudgeWorker(): void {
 
 export async function stopBackgroundWork(): Promise<void> {
 	if (!running) return;
-	const { worker, stopSweep } = running;
+	const { worker, stopSweep, stopDigest } = running;
 	running = undefined;
 	stopSweep();
+	stopDigest();
 	await worker.stop();
 }
 

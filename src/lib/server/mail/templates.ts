@@ -78,6 +78,90 @@ export function patientInvitationMail(input: {
 	};
 }
 
+/** One patient's lines in a clinician's weekly digest. */
+export interface DigestPatient {
+	name: string;
+	url: string;
+	/** Each flag with the numbers behind it. */
+	flags: { label: string; detail: string }[];
+	adherence: string;
+	pain: string | null;
+	lastSession: string;
+}
+
+/**
+ * A clinician's weekly digest: flagged patients first, each flag with its numbers, then everyone
+ * else's adherence; the basis of the figures and the usual caution close it.
+ */
+export function weeklyDigestMail(input: {
+	clinicianName: string;
+	clinicName: string;
+	weekLabel: string;
+	asOf: string;
+	patients: DigestPatient[];
+	caseloadUrl: string;
+	basis: string[];
+}): MailContent {
+	const flagged = input.patients.filter((p) => p.flags.length > 0);
+	const others = input.patients.filter((p) => p.flags.length === 0);
+	const count = (n: number, one: string, many: string) => `${n} ${n === 1 ? one : many}`;
+	const subject = `Your Kinelume week of ${input.weekLabel}: ${count(flagged.length, 'patient', 'patients')} flagged`;
+	const intro = [
+		`Hello ${input.clinicianName},`,
+		`Here is how your ${count(input.patients.length, 'patient', 'patients')} at ${input.clinicName} stood on ${input.asOf}. ${flagged.length === 0 ? 'No one is flagged this week.' : `${count(flagged.length, 'patient is', 'patients are')} flagged.`}`
+	];
+	const facts = (p: DigestPatient) => [
+		`Adherence, 7 days: ${p.adherence}`,
+		...(p.pain ? [`Pain: ${p.pain}`] : []),
+		`Last session: ${p.lastSession}`
+	];
+	const closing = [
+		...input.basis,
+		'These figures count what patients log; they replace no assessment. The treating clinician and the surgeon’s protocol decide what changes.'
+	];
+
+	const textPatient = (p: DigestPatient) =>
+		[
+			`${p.name} — ${p.url}`,
+			...p.flags.map((f) => `  ! ${f.label}: ${f.detail}`),
+			...facts(p).map((line) => `  ${line}`)
+		].join('\n');
+	const text = [
+		...intro,
+		...(flagged.length ? ['FLAGGED', ...flagged.map(textPatient)] : []),
+		...(others.length ? ['NO FLAGS', ...others.map(textPatient)] : []),
+		`Open the caseload: ${input.caseloadUrl}`,
+		...closing
+	].join('\n\n');
+
+	const htmlPatient = (p: DigestPatient) =>
+		`<li style="margin:0 0 16px"><a href="${escapeHtml(p.url)}" style="color:#3b4f7a;font-weight:bold">${escapeHtml(p.name)}</a>` +
+		p.flags
+			.map(
+				(f) =>
+					`<div style="margin:4px 0;padding:6px 8px;border:2px solid #7a5c12;border-radius:6px"><strong style="color:#7a5c12">Flag: ${escapeHtml(f.label)}</strong><br>${escapeHtml(f.detail)}</div>`
+			)
+			.join('') +
+		facts(p)
+			.map((line) => `<div style="font-size:16px">${escapeHtml(line)}</div>`)
+			.join('') +
+		'</li>';
+	const section = (title: string, list: DigestPatient[]) =>
+		list.length
+			? `<h2 style="font-size:20px;margin:24px 0 8px">${escapeHtml(title)}</h2><ul style="padding-left:20px;margin:0">${list.map(htmlPatient).join('')}</ul>`
+			: '';
+	const html = `<!doctype html><html lang="en"><body style="margin:0;padding:24px;background:#faf8f4;color:#1c2230;font-family:Arial,sans-serif;font-size:18px;line-height:1.5">
+<div style="max-width:640px;margin:0 auto">
+<p style="margin:0 0 24px;font-weight:bold;color:#1f4d3e">Kinelume</p>
+<h1 style="font-size:24px;margin:0 0 16px">${escapeHtml(subject)}</h1>
+${intro.map((p) => `<p style="margin:0 0 16px">${escapeHtml(p)}</p>`).join('')}
+${section('Flagged', flagged)}${section('No flags', others)}
+<p style="margin:24px 0"><a href="${escapeHtml(input.caseloadUrl)}" style="display:inline-block;background:#1f4d3e;color:#ffffff;padding:12px 20px;border-radius:8px;text-decoration:none;font-weight:bold">Open the caseload</a></p>
+${closing.map((p) => `<p style="margin:0 0 12px;color:#5a6272;font-size:16px">${escapeHtml(p)}</p>`).join('')}
+</div></body></html>`;
+	return { subject, text: `${text}\n`, html };
+}
+
 export function signInLinkMail(input: { url: string; expiresAt: Date }): MailContent {
 	const subject = 'Your Kinelume sign-in link';
 	const lines = [

@@ -1,0 +1,367 @@
+import { testEnv } from './env';
+import { mkdtempSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { eq } from 'drizzle-orm';
+import { beforeAll, describe, expect, it } from 'vitest';
+
+// A database of this file's own: the digest goes to every clinician in it, and rows are counted.
+process.env.DATABASE_PATH = join(mkdtempSync(join(tmpdir(), 'kinelume-followup-')), 'followup.db');
+
+const { db, schema } = await import('../../src/lib/server/db');
+const { addDays, datesFrom } = await import('../../src/lib/clinical/calendar');
+const { addRomMeasurement, deleteRomMeasurement, listCaseload, patientFollowup, RomError } =
+	await import('../../src/lib/server/followup');
+const { sendWeeklyDigests } = await import('../../src/lib/server/followup/digest');
+const { listInbox, readInboxMessage } = await import('../../src/lib/server/mail/inbox');
+
+// Monday 30 November 2026, 12:00 in London (GMT): the patients' today is 30 Nov.
+const NOW = new Date('2026-11-30T12:00:00Z');
+const SCHEDULE = { weekday: 1, hour: 7, timeZone: 'Europe/London' } as const;
+const tag = Math.random().toString(36).slice(2, 8);
+
+function makeClinic(name: string) {
+	return db().insert(schema.clinics).values({ name }).returning().get();
+}
+
+function makeClinician(clinicId: string, name: string) {
+	const email = `${name.toLowerCase().replace(/\W+/g, '.')}.${tag}@followup-test.example`;
+	const user = db().insert(schema.users).values({ email, name }).returning().get();
+	db().insert(schema.memberships).values({ userId: user.id, clinicId, role: 'clinician' }).run();
+	return { id: user.id, email, clinicId };
+}
+
+function makePatient(
+	clinician: { id: string; clinicId: string },
+	fullName: string,
+	extra: Partial<typeof schema.patients.$inferInsert> = {}
+) {
+	const patient = db()
+		.insert(schema.patients)
+		.values({
+			clinicId: clinician.clinicId,
+			fullName,
+			email: `${fullName.toLowerCase().replace(/\W+/g, '.')}.${tag}@followup-test.example`,
+			affectedSide: 'left',
+			condition: 'Left total knee replacement',
+			operationDate: '2026-10-19',
+			protocol: 'knee-replacement',
+			...extra
+		})
+		.returning()
+		.get();
+	db()
+		.insert(schema.patientClinicians)
+		.values({ patientId: patient.id, clinicianUserId: clinician.id })
+		.run();
+	return patient;
+}
+
+/** A published programme of one exercise done once a day, every day, from `startDate`. */
+function publishProgramme(patient: { id: string; clinicId: string }, startDate: string) {
+	const exercise = db()
+		.insert(schema.exercises)
+		.values({
+			clinicId: patient.clinicId,
+			title: 'Heel slides',
+			bodyRegion: 'knee',
+			position: 'supine',
+			movementType: 'active',
+			sets: 1,
+			reps: 10,
+			sessionsPerDay: 1,
+			daysPerWeek: 7,
+			status: 'ready'
+		})
+		.returning()
+		.get();
+	const programme = db()
+		.insert(schema.programmes)
+		.values({
+			clinicId: patient.clinicId,
+			patientId: patient.id,
+			title: 'Knee home programme',
+			status: 'published',
+			startDate,
+			publishedAt: new Date(`${startDate}T08:00:00Z`)
+		})
+		.returning()
+		.get();
+	const item = db()
+		.insert(schema.programmeItems)
+		.values({
+			programmeId: programme.id,
+			exerciseId: exercise.id,
+			position: 0,
+			sets: 1,
+			reps: 10,
+			sessionsPerDay: 1,
+			daysPerWeek: 7
+		})
+		.returning()
+		.get();
+	return { programme, item };
+}
+
+function logSessions(
+	patient: { id: string; clinicId: string },
+	itemId: string,
+	days: { date: string; pain: number }[]
+) {
+	for (const { date, pain } of days) {
+		db()
+			.insert(schema.sessionLogs)
+			.values({
+				clinicId: patient.clinicId,
+				patientId: patient.id,
+				programmeItemId: itemId,
+				clientId: crypto.randomUUID(),
+				doneAt: new Date(`${date}T10:00:00Z`),
+				localDate: date,
+				setsDone: 1,
+				repsDone: 10,
+				pain
+			})
+			.run();
+	}
+}
+
+const query = {
+	sort: 'name' as const,
+	dir: 'asc' as const,
+	flag: 'all' as const,
+	q: '',
+	mine: false,
+	page: 1,
+	pageSize: 25
+};
+
+let clinicA: { id: string };
+let clinicianA: ReturnType<typeof makeClinician>;
+let colleagueA: ReturnType<typeof makeClinician>;
+let clinicianB: ReturnType<typeof makeClinician>;
+let rising: ReturnType<typeof makePatient>;
+let steady: ReturnType<typeof makePatient>;
+let otherClinicPatient: ReturnType<typeof makePatient>;
+
+beforeAll(() => {
+	expect(testEnv.DEV_INBOX_URL).toMatch(/^http/);
+	clinicA = makeClinic('Invented Follow-up Clinic');
+	const clinicB = makeClinic('Invented Other Clinic');
+	clinicianA = makeClinician(clinicA.id, 'Ada Quill');
+	colleagueA = makeClinician(clinicA.id, 'Bo Fennel');
+	clinicianB = makeClinician(clinicB.id, 'Cy Marram');
+
+	// Every day from 2 Nov: pain 2 in the first week, 3 after, 5 in the last 7 days → flagged.
+	rising = makePatient(clinicianA, 'Rhoda Rise');
+	const r = publishProgramme(rising, '2026-11-02');
+	logSessions(rising, r.item.id, [
+		...datesFrom('2026-11-02', '2026-11-08').map((date) => ({ date, pain: 2 })),
+		...datesFrom('2026-11-09', '2026-11-23').map((date) => ({ date, pain: 3 })),
+		...datesFrom('2026-11-24', '2026-11-30').map((date) => ({ date, pain: 5 }))
+	]);
+
+	// Five of the last seven days, pain steady at 2.
+	steady = makePatient(colleagueA, 'Sam Steady');
+	const s = publishProgramme(steady, '2026-11-02');
+	logSessions(steady, s.item.id, [
+		...datesFrom('2026-11-02', '2026-11-23').map((date) => ({ date, pain: 2 })),
+		...['2026-11-24', '2026-11-25', '2026-11-27', '2026-11-28', '2026-11-29'].map((date) => ({
+			date,
+			pain: 2
+		}))
+	]);
+
+	otherClinicPatient = makePatient(clinicianB, 'Rhoda Elsewhere');
+	const o = publishProgramme(otherClinicPatient, '2026-11-02');
+	logSessions(otherClinicPatient, o.item.id, [{ date: '2026-11-29', pain: 9 }]);
+});
+
+describe('the caseload', () => {
+	it('lists only the clinic’s own patients, with figures computed from their logs', () => {
+		const caseload = listCaseload(clinicianA, query, NOW);
+		expect(caseload.rows.map((r) => r.fullName)).toEqual(['Rhoda Rise', 'Sam Steady']);
+		const [rise, stay] = caseload.rows;
+		expect(rise.adherence7).toMatchObject({ prescribed: 7, counted: 7, percent: 100 });
+		expect(rise.adherence28).toMatchObject({ from: '2026-11-03', prescribed: 28, counted: 28 });
+		expect(rise.pain).toMatchObject({ baseline: 2, recent: 5, flagged: true });
+		expect(rise.flags.map((f) => f.kind)).toEqual(['pain-rise']);
+		// Today (Monday) has nothing yet, so it does not count against Sam: 5 of the 6 days before.
+		expect(stay.adherence7).toMatchObject({ prescribed: 6, counted: 5, percent: 83 });
+		expect(stay.adherence7?.text).toBe('5 of 6 sessions (83%) over 24–30 Nov 2026');
+		expect(stay.flags).toEqual([]);
+		expect(stay.sinceOperation).toMatchObject({ weeks: 6 });
+		expect(caseload.counts).toMatchObject({ all: 2, flagged: 1, 'pain-rise': 1, 'no-flags': 1 });
+	});
+
+	it('never shows another clinic’s patient, by search or by id', () => {
+		expect(listCaseload(clinicianA, { ...query, q: 'elsewhere' }, NOW).rows).toEqual([]);
+		expect(listCaseload(clinicianB, query, NOW).rows.map((r) => r.fullName)).toEqual([
+			'Rhoda Elsewhere'
+		]);
+		expect(patientFollowup(clinicA.id, otherClinicPatient.id, { now: NOW })).toBeNull();
+		expect(patientFollowup(clinicA.id, rising.id, { now: NOW })?.logs).toHaveLength(29);
+	});
+
+	it('filters by flag, by name and by who looks after the patient', () => {
+		const flagged = listCaseload(clinicianA, { ...query, flag: 'pain-rise' }, NOW);
+		expect(flagged.rows.map((r) => r.fullName)).toEqual(['Rhoda Rise']);
+		expect(listCaseload(clinicianA, { ...query, q: 'SAM' }, NOW).rows).toHaveLength(1);
+		expect(listCaseload(clinicianA, { ...query, mine: true }, NOW).rows.map((r) => r.id)).toEqual([
+			rising.id
+		]);
+	});
+
+	it('sorts by a figure with patients lacking it last, and pages by 25', () => {
+		const pageClinic = makeClinic('Invented Busy Clinic');
+		const busy = makeClinician(pageClinic.id, 'Di Busy');
+		for (let i = 1; i <= 30; i++) {
+			const p = makePatient(busy, `Patient ${String(i).padStart(2, '0')}`);
+			if (i <= 3) {
+				const { item } = publishProgramme(p, '2026-11-23');
+				// Patient 01 logged 1 of the 7 days, 02 logged 2, 03 logged 3.
+				logSessions(
+					p,
+					item.id,
+					datesFrom('2026-11-23', addDays('2026-11-23', i - 1)).map((date) => ({ date, pain: 1 }))
+				);
+			}
+		}
+		const byAdherence = listCaseload(
+			busy,
+			{ ...query, sort: 'adherence7', dir: 'desc', pageSize: 25 },
+			NOW
+		);
+		expect(byAdherence.total).toBe(30);
+		expect(byAdherence.pageCount).toBe(2);
+		expect(byAdherence.rows).toHaveLength(25);
+		expect(byAdherence.rows.slice(0, 4).map((r) => r.fullName)).toEqual([
+			'Patient 03',
+			'Patient 02',
+			'Patient 01',
+			'Patient 04'
+		]);
+		const second = listCaseload(busy, { ...query, page: 2 }, NOW);
+		expect(second.rows.map((r) => r.fullName)).toEqual([
+			'Patient 26',
+			'Patient 27',
+			'Patient 28',
+			'Patient 29',
+			'Patient 30'
+		]);
+		// An address past the last page shows the last page.
+		expect(listCaseload(busy, { ...query, page: 9 }, NOW).page).toBe(2);
+	});
+});
+
+describe('range-of-motion readings', () => {
+	it('are kept per clinic, compared with the other side and the previous reading', () => {
+		const entry = {
+			motion: 'knee-flexion' as const,
+			mode: 'active' as const,
+			note: ''
+		};
+		addRomMeasurement(
+			clinicianA,
+			rising.id,
+			{ ...entry, side: 'right', degrees: 130, measuredOn: '2026-11-16' },
+			NOW
+		);
+		addRomMeasurement(
+			clinicianA,
+			rising.id,
+			{ ...entry, side: 'left', degrees: 90, measuredOn: '2026-11-16' },
+			NOW
+		);
+		const later = addRomMeasurement(
+			clinicianA,
+			rising.id,
+			{ ...entry, side: 'left', degrees: 96, measuredOn: '2026-11-30' },
+			NOW
+		);
+		const rows = patientFollowup(clinicA.id, rising.id, { now: NOW })!.figures.rom;
+		const last = rows.find((r) => r.id === later.id)!;
+		expect(last.normal?.text).toBe(
+			'Knee flexion 96° = 71% of the AAOS normal 135° (from memory — check)'
+		);
+		expect(last.otherSide?.text).toBe('74% of the right side (130°, measured 16 Nov 2026)');
+		expect(last.change?.beyondError).toBe(false);
+
+		expect(() =>
+			addRomMeasurement(
+				clinicianB,
+				rising.id,
+				{ ...entry, side: 'left', degrees: 1, measuredOn: '2026-11-30' },
+				NOW
+			)
+		).toThrow(RomError);
+		expect(() =>
+			addRomMeasurement(
+				clinicianA,
+				rising.id,
+				{ ...entry, side: 'left', degrees: 1, measuredOn: '2026-12-01' },
+				NOW
+			)
+		).toThrow('after today');
+		expect(deleteRomMeasurement(clinicianB, rising.id, later.id)).toBe(false);
+		expect(deleteRomMeasurement(clinicianA, rising.id, later.id)).toBe(true);
+		expect(
+			db()
+				.select()
+				.from(schema.romMeasurements)
+				.where(eq(schema.romMeasurements.id, later.id))
+				.all()
+		).toEqual([]);
+	});
+});
+
+describe('the weekly digest', () => {
+	it('sends each clinician with patients one e-mail a week, read back from the mail fake', async () => {
+		const first = await sendWeeklyDigests({ now: NOW, schedule: SCHEDULE });
+		expect(first.weekStart).toBe('2026-11-30');
+		expect(first.failed).toEqual([]);
+		expect(first.sent).toEqual(
+			expect.arrayContaining([clinicianA.email, colleagueA.email, clinicianB.email])
+		);
+
+		const inbox = await listInbox();
+		const toA = inbox.filter((m) => m.to.includes(clinicianA.email));
+		expect(toA).toHaveLength(1);
+		expect(toA[0].subject).toBe('Your Kinelume week of 30 Nov 2026: 1 patient flagged');
+		const message = await readInboxMessage(toA[0].id);
+		expect(message?.text).toContain('Rhoda Rise');
+		expect(message?.text).toContain(
+			'Pain flag: recent average 5.0 is 3.0 above the baseline 2.0 (a rise of 2 points is clinically important — Farrar et al. 2001).'
+		);
+		expect(message?.text).toContain(
+			'Adherence, 7 days: 7 of 7 sessions (100%) over 24–30 Nov 2026'
+		);
+		expect(message?.text).not.toContain('Sam Steady');
+		expect(message?.text).not.toContain('Rhoda Elsewhere');
+		expect(message?.html).toContain(`/patients/${rising.id}`);
+
+		// Later the same week — a restart, a second worker, `npm run digest` — sends nothing more.
+		const again = await sendWeeklyDigests({
+			now: new Date('2026-12-03T09:00:00Z'),
+			schedule: SCHEDULE
+		});
+		expect(again.sent).toEqual([]);
+		expect(again.alreadySent).toBe(first.sent.length);
+		expect((await listInbox()).filter((m) => m.to.includes(clinicianA.email))).toHaveLength(1);
+		const rows = db()
+			.select()
+			.from(schema.weeklyDigests)
+			.where(eq(schema.weeklyDigests.userId, clinicianA.id))
+			.all();
+		expect(rows.map((r) => r.weekStart)).toEqual(['2026-11-30']);
+
+		// The next week is a new digest.
+		const next = await sendWeeklyDigests({
+			now: new Date('2026-12-07T08:00:00Z'),
+			schedule: SCHEDULE
+		});
+		expect(next.weekStart).toBe('2026-12-07');
+		expect(next.sent).toContain(clinicianA.email);
+		expect((await listInbox()).filter((m) => m.to.includes(clinicianA.email))).toHaveLength(2);
+	});
+});
