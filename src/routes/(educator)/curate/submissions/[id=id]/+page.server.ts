@@ -1,0 +1,150 @@
+import { error, fail, redirect } from '@sveltejs/kit';
+import { z } from 'zod';
+import { plainText } from '$lib/captions/text';
+import { describeDosage } from '$lib/dosage';
+import { JUDGEMENT_ITEMS } from '$lib/library/checklist';
+import { DECISIONS, LICENCE_LABELS, type ExerciseSnapshot } from '$lib/library/types';
+import { requireRole } from '$lib/server/auth/guard';
+import { db } from '$lib/server/db';
+import { libraryVersions } from '$lib/server/db/schema';
+import { submissionUrls } from '$lib/server/library/media';
+import { approvalBlockers, decideSubmission } from '$lib/server/library/publishing';
+import { LibraryError, submissionForReview } from '$lib/server/library/submissions';
+import { renderSafetyNotes } from '$lib/server/markdown';
+import { eq } from 'drizzle-orm';
+import type { Actions, PageServerLoad } from './$types';
+
+/** The fields that differ between what is public and what was submitted, in words. */
+function changedFields(before: ExerciseSnapshot, after: ExerciseSnapshot): string[] {
+	const fields: [string, (s: ExerciseSnapshot) => unknown][] = [
+		['Title', (s) => s.title],
+		['Description', (s) => s.description],
+		[
+			'Body region, position, movement type or side',
+			(s) => [s.bodyRegion, s.position, s.movementType, s.side]
+		],
+		['Phase', (s) => s.phase],
+		['Equipment', (s) => s.equipment],
+		['Dosage', (s) => s.dosage],
+		['Coaching cues', (s) => s.coachingCues],
+		['Safety notes', (s) => s.safetyNotes],
+		['Demonstration (segment)', (s) => s.segment.id],
+		['Captions', (s) => s.cues]
+	];
+	return fields
+		.filter(([, read]) => JSON.stringify(read(before)) !== JSON.stringify(read(after)))
+		.map(([name]) => name);
+}
+
+export const load: PageServerLoad = ({ params }) => {
+	requireRole('educator');
+	const found = submissionForReview(params.id);
+	if (!found) error(404, 'Not found.');
+	const { submission: s, checklist, segment, entry } = found;
+	const snapshot = s.snapshot;
+	const current = entry?.currentVersionId
+		? db()
+				.select()
+				.from(libraryVersions)
+				.where(eq(libraryVersions.id, entry.currentVersionId))
+				.get()
+		: undefined;
+	return {
+		submission: {
+			id: s.id,
+			status: s.status,
+			createdAt: s.createdAt.toISOString(),
+			clinicName: found.clinicName,
+			submitter: found.submitter,
+			noteToReviewer: s.noteToReviewer,
+			consentConfirmed: s.consentConfirmed,
+			consentDetails: s.consentDetails,
+			licence: LICENCE_LABELS[s.licence],
+			attribution: s.attribution
+		},
+		exercise: {
+			title: snapshot.title,
+			description: snapshot.description,
+			bodyRegion: snapshot.bodyRegion,
+			side: snapshot.side,
+			position: snapshot.position,
+			movementType: snapshot.movementType,
+			phase: snapshot.phase,
+			equipment: snapshot.equipment,
+			precautionTags: snapshot.precautionTags,
+			dosage: describeDosage(snapshot.dosage),
+			coachingCues: snapshot.coachingCues,
+			safetyHtml: renderSafetyNotes(snapshot.safetyNotes)
+		},
+		media: segment
+			? {
+					...submissionUrls(s.id, segment.posterCount),
+					language: snapshot.segment.captionsLanguage
+				}
+			: null,
+		lines: snapshot.cues.map((c) => ({ start: c.start, end: c.end, text: plainText(c.text) })),
+		checklist,
+		blockers: approvalBlockers(
+			checklist,
+			JUDGEMENT_ITEMS.map((j) => j.id)
+		),
+		judgementItems: JUDGEMENT_ITEMS,
+		reviews: found.reviews.map((r) => ({
+			id: r.id,
+			decision: r.decision,
+			comment: r.comment,
+			reviewerName: r.reviewerName,
+			createdAt: r.createdAt.toISOString()
+		})),
+		published: entry
+			? {
+					slug: entry.slug,
+					status: entry.status,
+					version: current?.version ?? null,
+					changes: current ? changedFields(current.snapshot, snapshot) : []
+				}
+			: null
+	};
+};
+
+const decisionForm = z.object({
+	decision: z.enum(DECISIONS, { error: 'Choose approve, request changes or reject.' }),
+	comment: z.string().max(4000, 'Keep the comment under 4,000 characters.')
+});
+
+export const actions: Actions = {
+	decide: async ({ params, request }) => {
+		const educator = requireRole('educator');
+		const form = await request.formData();
+		const judgement = form.getAll('judgement').map(String);
+		const raw = {
+			decision: String(form.get('decision') ?? ''),
+			comment: String(form.get('comment') ?? '')
+		};
+		const parsed = decisionForm.safeParse(raw);
+		if (!parsed.success) {
+			return fail(400, { ...raw, judgement, message: parsed.error.issues[0].message });
+		}
+		let result;
+		try {
+			result = await decideSubmission(
+				params.id,
+				{ id: educator.id, name: educator.name },
+				{
+					...parsed.data,
+					judgement
+				}
+			);
+		} catch (e) {
+			if (e instanceof LibraryError) {
+				if (e.status === 404) error(404, 'Not found.');
+				return fail(e.status, { ...raw, judgement, message: e.message });
+			}
+			throw e;
+		}
+		redirect(
+			303,
+			`/curate/submissions/${params.id}?decided=${result.decision}${result.mailed ? '' : '&unmailed=1'}`
+		);
+	}
+};
