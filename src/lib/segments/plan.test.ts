@@ -7,7 +7,9 @@ import {
 	draftSegments,
 	emptyDraft,
 	formatTime,
+	linkSuggestions,
 	moveBoundary,
+	orderedSignals,
 	planFromDraft,
 	planProblems,
 	removeBoundary,
@@ -125,6 +127,23 @@ describe('showing confirmed segments again', () => {
 			{ title: 'Heel slides', start: 30, end: 60 }
 		]);
 	});
+
+	it('links each boundary to the nearest suggestion under a second away, once', () => {
+		const draft = draftFromSegments(
+			[
+				{ title: 'Ankle pumps', start: 10, end: 30 },
+				{ title: 'Heel slides', start: 30, end: 60 }
+			],
+			DURATION
+		);
+		const linked = linkSuggestions(draft, [
+			{ time: 30.4 },
+			{ time: 10 },
+			{ time: 10.2 },
+			{ time: 45 }
+		]);
+		expect(linked.sources).toEqual([1, 0]);
+	});
 });
 
 describe('checking a plan before it is confirmed', () => {
@@ -196,6 +215,23 @@ describe('words for the page', () => {
 			'gap 3.1 s between cues',
 			'2.4 s silence',
 			'scene change'
+		]);
+	});
+
+	it('orders signals: words first, then the picture, then the quiet', () => {
+		const kinds = orderedSignals([
+			{ kind: 'silence', detail: '' },
+			{ kind: 'scene-change', detail: '' },
+			{ kind: 'exercise-name-change', detail: '' },
+			{ kind: 'long-gap', detail: '' },
+			{ kind: 'ordinal', detail: '' }
+		]).map((s) => s.kind);
+		expect(kinds).toEqual([
+			'ordinal',
+			'exercise-name-change',
+			'scene-change',
+			'silence',
+			'long-gap'
 		]);
 	});
 

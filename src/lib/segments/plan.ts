@@ -168,6 +168,28 @@ export function draftFromSuggestions(
 }
 
 /**
+ * Marks boundaries that sit within MIN_SEGMENT_SECONDS of a suggestion as taken from it (nearest
+ * first), so a draft rebuilt from confirmed segments shows its suggestions as accepted.
+ */
+export function linkSuggestions(
+	draft: Draft,
+	suggestions: readonly Pick<Suggestion, 'time'>[]
+): Draft {
+	const sources = [...draft.sources];
+	const pairs = suggestions
+		.flatMap((s, i) => draft.boundaries.map((b, k) => ({ i, k, distance: Math.abs(b - s.time) })))
+		.filter((p) => p.distance < MIN_SEGMENT_SECONDS)
+		.sort((a, b) => a.distance - b.distance);
+	const taken = new Set(sources.filter((x) => x !== null));
+	for (const { i, k } of pairs) {
+		if (sources[k] !== null || taken.has(i)) continue;
+		sources[k] = i;
+		taken.add(i);
+	}
+	return { ...draft, sources };
+}
+
+/**
  * A draft that shows confirmed segments again, for adjusting: a boundary at every start and end
  * inside the recording; the stretches between segments are left-out parts.
  */
@@ -244,6 +266,20 @@ export function formatTime(seconds: number): string {
 	const text = formatTimestamp(Math.round(s * 10) / 10, { hours: 'auto' });
 	// 00:12.300 → 0:12.3
 	return text.replace(/^0(\d:)/, '$1').replace(/(\.\d)\d\d$/, '$1');
+}
+
+const SIGNAL_ORDER: Signal['kind'][] = [
+	'announcing-phrase',
+	'ordinal',
+	'exercise-name-change',
+	'scene-change',
+	'silence',
+	'long-gap'
+];
+
+/** A suggestion's signals for reading: what was said first, then the picture, then the quiet. */
+export function orderedSignals(signals: readonly Signal[]): Signal[] {
+	return [...signals].sort((a, b) => SIGNAL_ORDER.indexOf(a.kind) - SIGNAL_ORDER.indexOf(b.kind));
 }
 
 /** A signal in a few words, for the list beside each suggestion. */
