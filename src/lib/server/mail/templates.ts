@@ -174,3 +174,37 @@ export function signInLinkMail(input: { url: string; expiresAt: Date }): MailCon
 		html: layout(subject, lines, { url: input.url, label: 'Sign in to Kinelume' })
 	};
 }
+
+/** A patient's home programme was published, or changed after publishing. */
+export function programmePublishedMail(input: {
+	clinicName: string;
+	patientName: string;
+	clinicianName: string;
+	title: string;
+	startDate: string;
+	exercises: { title: string; dosage: string }[];
+	url: string;
+	changed: boolean;
+	/** False while the patient has not yet accepted their invitation. */
+	hasAccount: boolean;
+}): MailContent {
+	const subject = input.changed
+		? `Your home programme from ${input.clinicName} has changed`
+		: `Your home programme from ${input.clinicName} is ready`;
+	const lines = [
+		`Hello ${input.patientName},`,
+		input.changed
+			? `${input.clinicianName} has changed your home programme "${input.title}". Please follow the new version from now on.`
+			: `${input.clinicianName} has set up your home programme "${input.title}", starting on ${input.startDate}.`,
+		...input.exercises.map((e, i) => `${i + 1}. ${e.title}: ${e.dosage}`),
+		input.hasAccount
+			? 'Open it to replay each exercise with captions and to log your sessions.'
+			: 'To open it, first set up your account with the invitation e-mail we sent to this address (ask the clinic for a new one if it has expired).',
+		'If anything in your programme causes sharp or worsening pain, new numbness or swelling, stop and contact your clinician. This programme was prescribed for you and replaces no assessment.'
+	];
+	return {
+		subject,
+		text: `${lines.join('\n\n')}\n\nOpen your programme: ${input.url}\n`,
+		html: layout(subject, lines, { url: input.url, label: 'Open my programme' })
+	};
+}

@@ -1,0 +1,194 @@
+/**
+ * The programme builder's state as typed (numbers kept as text until saved, so a refused save
+ * loses nothing), and the moves it makes: add, remove, reorder. Shared by the page (live, in the
+ * browser) and the form action (the same moves without JavaScript).
+ */
+import {
+	DOSAGE_FIELDS,
+	type Dosage,
+	type DosageBounds,
+	type DosageField,
+	type Progression
+} from '$lib/dosage';
+import { progressionDraft, progressionFromDraft, type ProgressionDraft } from '$lib/exercises/form';
+import type { MovementType, Position } from '$lib/exercises/vocabulary';
+import { moveBy } from '$lib/forms/reorder';
+
+/** An exercise as the builder offers it. */
+export interface BuilderExercise {
+	id: string;
+	title: string;
+	bodyRegion: string;
+	position: Position;
+	movementType: MovementType;
+	phase: number;
+	equipment: string[];
+	precautionTags: string[];
+	dosageBounds: DosageBounds | null;
+	secondsPerRep: number | null;
+	segmentSeconds: number | null;
+	defaultDosage: Dosage;
+	defaultProgression: Progression;
+	posterUrl: string | null;
+	status: 'draft' | 'ready' | 'retired';
+	hasSegment: boolean;
+}
+
+export interface ItemDraft {
+	/** Stable within the page, for keyed lists and focus. */
+	key: string;
+	/** The saved item's id; empty for a row not saved yet. */
+	id: string;
+	exerciseId: string;
+	dosage: Record<DosageField, string>;
+	progression: ProgressionDraft;
+	logCount: number;
+}
+
+export interface ProgrammeDraft {
+	title: string;
+	startDate: string;
+	endDate: string;
+	note: string;
+	items: ItemDraft[];
+}
+
+export function dosageText(d: Dosage): Record<DosageField, string> {
+	return Object.fromEntries(DOSAGE_FIELDS.map((f) => [f, String(d[f])])) as Record<
+		DosageField,
+		string
+	>;
+}
+
+let counter = 0;
+/** A key for a new row, unique within the page. */
+export function newKey(): string {
+	counter += 1;
+	return `new-${counter}`;
+}
+
+/** A row for an exercise, starting at the exercise's default dosage and progression. */
+export function itemFromExercise(exercise: BuilderExercise, key = newKey()): ItemDraft {
+	return {
+		key,
+		id: '',
+		exerciseId: exercise.id,
+		dosage: dosageText(exercise.defaultDosage),
+		progression: progressionDraft(exercise.defaultProgression),
+		logCount: 0
+	};
+}
+
+/** A saved item as a row. */
+export function itemFromSaved(item: {
+	id: string;
+	exerciseId: string;
+	dosage: Dosage;
+	progression: Progression;
+	logCount: number;
+}): ItemDraft {
+	return {
+		key: item.id,
+		id: item.id,
+		exerciseId: item.exerciseId,
+		dosage: dosageText(item.dosage),
+		progression: progressionDraft(item.progression),
+		logCount: item.logCount
+	};
+}
+
+/** The draft in the shape programmeSaveSchema checks. */
+export function draftToInput(draft: ProgrammeDraft) {
+	return {
+		title: draft.title,
+		startDate: draft.startDate,
+		endDate: draft.endDate,
+		note: draft.note,
+		items: draft.items.map((item) => ({
+			...(item.id ? { id: item.id } : {}),
+			exerciseId: item.exerciseId,
+			dosage: item.dosage,
+			progression: progressionFromDraft(item.progression)
+		}))
+	};
+}
+
+/** What a button of the form asks for, without JavaScript. */
+export type Intent =
+	| { kind: 'save' }
+	| { kind: 'publish' }
+	| { kind: 'add'; exerciseId: string }
+	| { kind: 'remove'; index: number }
+	| { kind: 'move'; index: number; delta: -1 | 1 };
+
+export function parseIntent(value: string): Intent {
+	const [kind, arg] = value.split(':');
+	const index = Number(arg);
+	if (kind === 'publish') return { kind: 'publish' };
+	if (kind === 'add' && arg) return { kind: 'add', exerciseId: arg };
+	if (kind === 'remove' && Number.isInteger(index)) return { kind: 'remove', index };
+	if ((kind === 'up' || kind === 'down') && Number.isInteger(index))
+		return { kind: 'move', index, delta: kind === 'up' ? -1 : 1 };
+	return { kind: 'save' };
+}
+
+/** The draft after a move; adding an exercise that is not offered changes nothing. */
+export function applyIntent(
+	draft: ProgrammeDraft,
+	intent: Intent,
+	catalogue: BuilderExercise[]
+): ProgrammeDraft {
+	switch (intent.kind) {
+		case 'add': {
+			const exercise = catalogue.find((e) => e.id === intent.exerciseId);
+			return exercise ? { ...draft, items: [...draft.items, itemFromExercise(exercise)] } : draft;
+		}
+		case 'remove':
+			return { ...draft, items: draft.items.filter((_, i) => i !== intent.index) };
+		case 'move':
+			return { ...draft, items: moveBy(draft.items, intent.index, intent.delta) };
+		default:
+			return draft;
+	}
+}
+
+/** Form fields of one row are named `item-<index>-<field>`; this reads them all back. */
+export function draftFromForm(form: FormData): { draft: ProgrammeDraft; intent: Intent } {
+	const get = (name: string) => {
+		const v = form.get(name);
+		return typeof v === 'string' ? v : '';
+	};
+	const count = Math.min(Math.max(0, Number(get('itemCount')) || 0), 100);
+	const items: ItemDraft[] = [];
+	for (let i = 0; i < count; i++) {
+		const p = (field: string) => get(`item-${i}-${field}`);
+		const id = p('id');
+		items.push({
+			key: id || `row-${i}`,
+			id,
+			exerciseId: p('exerciseId'),
+			dosage: Object.fromEntries(DOSAGE_FIELDS.map((f) => [f, p(f)])) as Record<
+				DosageField,
+				string
+			>,
+			progression: {
+				kind: p('progressionKind') || 'none',
+				addPerWeek: p('progressionAddPerWeek'),
+				ceiling: p('progressionCeiling'),
+				addAfterWeeks: p('progressionAddAfterWeeks'),
+				add: p('progressionAdd')
+			},
+			logCount: 0
+		});
+	}
+	return {
+		draft: {
+			title: get('title'),
+			startDate: get('startDate'),
+			endDate: get('endDate'),
+			note: get('note'),
+			items
+		},
+		intent: parseIntent(get('intent'))
+	};
+}

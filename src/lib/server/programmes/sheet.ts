@@ -1,0 +1,59 @@
+import QRCode from 'qrcode';
+import { describeDosage, describeProgression, type Progression } from '$lib/dosage';
+import { MOVEMENT_LABELS, POSITION_LABELS, SIDE_LABELS } from '$lib/exercises/vocabulary';
+import { config } from '../config';
+import { renderSafetyNotes } from '../markdown';
+import type { ProgrammeView } from './index';
+
+/** The replay page a printed code opens: one programme item (the patient's own dosage). */
+export function replayUrl(itemId: string): string {
+	return new URL(`/replay/${itemId}`, config().ORIGIN).toString();
+}
+
+/** Most cues a printed sheet shows per exercise; the replay page has them all. */
+export const SHEET_CUES = 4;
+
+/** Everything a printed programme sheet shows, with a QR code per exercise as inline SVG. */
+export async function programmeSheet(view: ProgrammeView) {
+	const items = await Promise.all(
+		view.items.map(async (item, i) => {
+			const url = replayUrl(item.id);
+			const qrSvg = await QRCode.toString(url, {
+				type: 'svg',
+				margin: 1,
+				errorCorrectionLevel: 'M',
+				color: { dark: '#1c2230', light: '#ffffff' }
+			});
+			const e = item.exercise;
+			return {
+				id: item.id,
+				number: i + 1,
+				title: e.title,
+				posterUrl: e.segment?.posterUrl ?? null,
+				position: POSITION_LABELS[e.position],
+				movement: MOVEMENT_LABELS[e.movementType],
+				side: SIDE_LABELS[e.side],
+				equipment: e.equipment,
+				dosage: describeDosage(item),
+				progression:
+					(item.progression as Progression).kind === 'none'
+						? null
+						: describeProgression(item.progression as Progression),
+				cues: e.coachingCues.slice(0, SHEET_CUES).map((c) => c.text),
+				moreCues: Math.max(0, e.coachingCues.length - SHEET_CUES),
+				safetyHtml: renderSafetyNotes(e.safetyNotes),
+				url,
+				qrSvg
+			};
+		})
+	);
+	return {
+		title: view.programme.title,
+		status: view.programme.status,
+		startDate: view.programme.startDate,
+		endDate: view.programme.endDate,
+		note: view.programme.note,
+		patientName: view.patient.fullName,
+		items
+	};
+}
