@@ -15,6 +15,7 @@ import { studio } from './matrix/studio';
 import { segmentsPart } from './matrix/segments';
 import { followupPart } from './matrix/followup';
 import { patientPart } from './matrix/patient';
+import { programmesPart } from './matrix/programmes';
 import {
 	clinicianApi,
 	everyone,
@@ -25,7 +26,7 @@ import {
 } from './matrix/types';
 
 /** Each domain keeps its rows in its own file under matrix/; list it here. */
-const PARTS: MatrixPart[] = [studio, segmentsPart, followupPart, patientPart];
+const PARTS: MatrixPart[] = [studio, segmentsPart, followupPart, patientPart, programmesPart];
 
 /**
  * The role matrix: every route that exists × every role (and the signed-out public) → the
