@@ -77,8 +77,8 @@ interface CacheEntry {
 }
 
 // Detection takes seconds (two ffmpeg passes over the rendition); a page reload, or a second
-// clinician, should not pay again for the same rendition and captions. Keyed by recording and
-// captions version, so a caption save makes fresh suggestions.
+// clinician, should not pay again for the same rendition and captions. Keyed by recording,
+// rendition and captions version, so a caption save makes fresh suggestions.
 const CACHE_MAX = 50;
 const cache = new Map<string, CacheEntry>();
 // One detection at a time: each already keeps both cores busy.
@@ -149,7 +149,8 @@ export async function suggestionsFor(
 		throw new SegmentError(409, 'The recording is not ready yet; suggestions follow once it is.');
 	}
 	const captions = currentCaptions(recording);
-	const key = `${recording.id}:${captions.track?.id ?? '-'}:${captions.version}`;
+	// readyAt changes when the recording is processed again, and with it the rendition.
+	const key = `${recording.id}:${recording.readyAt?.getTime() ?? 0}:${captions.track?.id ?? '-'}:${captions.version}`;
 	let entry = cache.get(key);
 	if (!entry) {
 		const run = detecting.then(() => detect(recording, captions.cues, captions.version));
