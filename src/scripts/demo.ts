@@ -104,8 +104,14 @@ console.log('Press Ctrl+C to stop.\n');
 // The demo recordings' segments, once the app has made their web versions (it runs the cuts too).
 const { confirmDemoSegments } = await import('../lib/server/demo/segments');
 confirmDemoSegments('clinician@alder-street.example', (line) => console.log(line))
-	.then((n) => {
+	.then(async (n) => {
 		if (n > 0) console.log(`Segments confirmed for ${n} demonstration recording(s).`);
+		// Exercises on those segments, and the demo patient's programmes, once the cuts are done.
+		const { seedDemoExercises } = await import('../lib/server/demo/exercises');
+		const made = await seedDemoExercises('clinician@alder-street.example', (line) =>
+			console.log(line)
+		);
+		console.log(`Demo exercises ready: ${made.exercises}.`);
 	})
 	.catch((error: unknown) => console.error('The demo segments could not be made:', error));
 
