@@ -31,7 +31,8 @@ export function clockTime(minutes: number): string {
 	return `${String(h).padStart(2, '0')}:${String(m).padStart(2, '0')}`;
 }
 
-function minutesIntoDay(instant: number, timeZone: string): number {
+/** Minutes since local midnight at an instant, on the patient's wall clock. */
+export function minutesIntoDay(instant: number, timeZone: string): number {
 	const parts = new Intl.DateTimeFormat('en-GB', {
 		timeZone,
 		hourCycle: 'h23',

@@ -15,6 +15,7 @@ import {
 	describeWeekdays,
 	itemDayStatus,
 	itemSchedule,
+	minutesIntoDay,
 	pauseOn,
 	summariseDay,
 	type DaySummary,
@@ -111,6 +112,8 @@ export interface TodayItem {
 
 export interface TodayView {
 	today: LocalDate;
+	/** Minutes since the patient's local midnight, to say whether the next session is due now. */
+	nowMinutes: number;
 	timeZone: string;
 	programme: {
 		id: string;
@@ -133,11 +136,13 @@ export interface TodayView {
 /** Everything the Today page shows, for the patient's calendar day at `now`. */
 export function todayFor(patient: Patient, now: number = Date.now()): TodayView {
 	const today = localDateOf(now, patient.timeZone);
+	const nowMinutes = minutesIntoDay(now, patient.timeZone);
 	const programme = currentProgramme(patient.id);
 	const empty: DaySummary = { done: 0, due: 0, next: null };
 	if (!programme) {
 		return {
 			today,
+			nowMinutes,
 			timeZone: patient.timeZone,
 			programme: null,
 			restDay: null,
@@ -196,6 +201,7 @@ export function todayFor(patient: Patient, now: number = Date.now()): TodayView 
 
 	return {
 		today,
+		nowMinutes,
 		timeZone: patient.timeZone,
 		programme: {
 			id: programme.id,
