@@ -11,9 +11,8 @@ import {
 } from '$lib/server/programmes';
 import type { Actions, PageServerLoad } from './$types';
 
-function patientFrom(url: URL) {
+function patientFrom(id: string) {
 	const clinician = requireRole('clinician');
-	const id = url.searchParams.get('patient') ?? '';
 	const patient = z.uuid().safeParse(id).success
 		? findPatientInClinic(clinician.clinicId, id)
 		: undefined;
@@ -22,7 +21,7 @@ function patientFrom(url: URL) {
 }
 
 export const load: PageServerLoad = ({ url }) => {
-	const { clinician, patient } = patientFrom(url);
+	const { clinician, patient } = patientFrom(url.searchParams.get('patient') ?? '');
 	return {
 		patient: { id: patient.id, fullName: patient.fullName, condition: patient.condition },
 		today: patientToday(patient),
@@ -56,9 +55,10 @@ const form = z
 	});
 
 export const actions: Actions = {
-	create: async ({ url, request }) => {
-		const { clinician, patient } = patientFrom(url);
+	create: async ({ request }) => {
 		const raw = Object.fromEntries(await request.formData());
+		// The patient comes with the form: the action's address has no room for it.
+		const { clinician, patient } = patientFrom(String(raw.patient ?? ''));
 		const values = {
 			title: String(raw.title ?? ''),
 			startDate: String(raw.startDate ?? ''),
