@@ -65,6 +65,14 @@ describe('moveCue', () => {
 		expect(moveCue(cues, 1, 2.1, { ...whole, snap }).cues[1]).toMatchObject({ start: 2, end: 3 });
 		expect(moveCue(cues, 1, 4.9, { ...whole, snap }).cues[1]).toMatchObject({ start: 5, end: 6 });
 		expect(moveCue(cues, 1, 4.5, { ...whole, snap }).cues[1]).toMatchObject({ start: 4.5 });
+		// A start near a target snaps even when the end, far from any, does not (found by dragging).
+		const far = { targets: [1, 2], tolerance: 0.175 };
+		expect(
+			moveCue([cue('a', 1, 2), cue('b', 6, 8)], 1, 2.066, { ...whole, snap: far }).cues[1]
+		).toMatchObject({
+			start: 2,
+			end: 4
+		});
 	});
 	it('leaves an overlap that was already there, without making it worse', () => {
 		const overlapping = [cue('a', 0, 3.5), cue('b', 3, 4)];

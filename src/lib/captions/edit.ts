@@ -137,12 +137,13 @@ export function moveCue(
 	const length = Math.max(0, cue.end - cue.start);
 	let wanted = start;
 	if (options.snap) {
-		const byStart = snapTime(start, options.snap);
-		const byEnd = snapTime(start + length, options.snap) - length;
-		const dStart = Math.abs(byStart - start);
-		const dEnd = Math.abs(byEnd - start);
-		if (byStart !== start && (byEnd === start || dStart <= dEnd)) wanted = byStart;
-		else if (byEnd !== start) wanted = byEnd;
+		// Whichever edge lands nearer a target decides; an edge near none has no say.
+		const startTo = snapTime(start, options.snap);
+		const endTo = snapTime(start + length, options.snap);
+		const dStart = startTo === start ? Infinity : Math.abs(startTo - start);
+		const dEnd = endTo === start + length ? Infinity : Math.abs(endTo - (start + length));
+		if (dStart <= dEnd && dStart !== Infinity) wanted = startTo;
+		else if (dEnd !== Infinity) wanted = endTo - length;
 	}
 	// Whole milliseconds, so rounding can never push the end past the room it was given.
 	const { low, high } = room(cues, index, options.duration);

@@ -68,7 +68,7 @@ export class Autosave {
 			case 'saved':
 				return this.version > 0 ? `Saved as version ${this.version}` : 'Nothing saved yet';
 			case 'waiting':
-				return `Not saved yet${kept}; saving in a moment`;
+				return this.deviceCopy ? 'Kept on this device; saving soon' : 'Not saved yet; saving soon';
 			case 'saving':
 				return 'Saving…';
 			case 'failed':
@@ -145,7 +145,8 @@ export class Autosave {
 		}
 		const newest = drafts[0];
 		if (!newest) return null;
-		if (newest.baseVersion === this.version && this.#saved && sameCues(newest.cues, this.#saved)) {
+		// The same cues as the server's current version: saved after all (say, as the page closed).
+		if (this.#saved && sameCues(newest.cues, this.#saved)) {
 			this.#drop();
 			return null;
 		}

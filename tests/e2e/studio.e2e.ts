@@ -1,0 +1,410 @@
+import { expect, test, type Page } from '@playwright/test';
+import { execFile } from 'node:child_process';
+import { mkdtemp, readFile, rm } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { promisify } from 'node:util';
+import { PutObjectCommand, S3Client } from '@aws-sdk/client-s3';
+import ffmpegInstaller from '@ffmpeg-installer/ffmpeg';
+import { makeClip } from '../integration/recordings-support';
+import {
+	ACCOUNTS,
+	database,
+	expectNoAxeViolations,
+	seedCaptionTrack,
+	seedReadyRecording,
+	signedInRequest,
+	signInWithPassword
+} from './support';
+import { E2E } from './ports';
+
+const run = promisify(execFile);
+const SECONDS = 20;
+const shots = join(import.meta.dirname, '../.run/e2e-results');
+
+let dir: string;
+let recordingId: string;
+
+/** Puts a thumbnail strip and waveform peaks beside the seeded rendition, as processing would. */
+async function addTimelineMedia(clip: string) {
+	const sprite = join(dir, 'sprite.jpg');
+	await run(ffmpegInstaller.path, [
+		'-hide_banner',
+		'-loglevel',
+		'error',
+		'-y',
+		'-i',
+		clip,
+		'-vf',
+		'fps=1,scale=80:60,tile=10x2',
+		'-frames:v',
+		'1',
+		sprite
+	]);
+	const db = database();
+	let clinicId: string;
+	try {
+		clinicId = (
+			db.prepare('select clinic_id as c from recording where id = ?').get(recordingId) as {
+				c: string;
+			}
+		).c;
+		const prefix = `clinics/${clinicId}/recordings/${recordingId}/`;
+		db.prepare(
+			'update recording set frame_rate = 25, sprite = ?, waveform_key = ? where id = ?'
+		).run(
+			JSON.stringify({
+				columns: 10,
+				rows: 2,
+				intervalSeconds: 1,
+				tileWidth: 80,
+				tileHeight: 60,
+				count: 20
+			}),
+			`${prefix}waveform.json`,
+			recordingId
+		);
+		const s3 = new S3Client({
+			region: 'us-east-1',
+			endpoint: `http://127.0.0.1:${E2E.storagePort}`,
+			forcePathStyle: true,
+			credentials: { accessKeyId: 'S3RVER', secretAccessKey: 'S3RVER' },
+			requestChecksumCalculation: 'WHEN_REQUIRED',
+			responseChecksumValidation: 'WHEN_REQUIRED'
+		});
+		// The clip's tone is steady; a gentle swell makes the drawing easy to recognise.
+		const peaks = Array.from({ length: SECONDS * 20 }, (_, i) => 0.3 + 0.2 * Math.sin(i / 6));
+		for (const [key, body, type] of [
+			['sprite.jpg', await readFile(sprite), 'image/jpeg'],
+			['waveform.json', JSON.stringify({ peaksPerSecond: 20, peaks }), 'application/json']
+		] as const) {
+			await s3.send(
+				new PutObjectCommand({
+					Bucket: 'kinelume',
+					Key: prefix + key,
+					Body: body,
+					ContentType: type
+				})
+			);
+		}
+		s3.destroy();
+	} finally {
+		db.close();
+	}
+}
+
+test.beforeAll(async () => {
+	dir = await mkdtemp(join(tmpdir(), 'kinelume-e2e-studio-'));
+	const clip = join(dir, 'heel-slides.mp4');
+	await makeClip(clip, { seconds: SECONDS });
+	recordingId = await seedReadyRecording(ACCOUNTS.clinician, {
+		rendition: await readFile(clip),
+		durationSeconds: SECONDS,
+		title: 'Heel slides, lying on the back'
+	});
+	await addTimelineMedia(clip);
+});
+
+test.afterAll(async () => {
+	await rm(dir, { recursive: true, force: true });
+});
+
+async function openStudio(page: Page, trackId: string) {
+	await page.goto(`/recordings/${recordingId}/studio?track=${trackId}`);
+	await expect(page.getByTestId('studio')).toHaveAttribute('data-ready', 'true');
+}
+
+const saveState = (page: Page) => page.getByTestId('save-state');
+
+async function serverVersion(trackId: string) {
+	const clinician = await signedInRequest(ACCOUNTS.clinician);
+	const body = await (await clinician.get(`/api/tracks/${trackId}/versions`)).json();
+	await clinician.dispose();
+	return body.current as { version: number; cues: { start: number; end: number; text: string }[] };
+}
+
+/** The text of the cues the video shows at `seconds`, read from its text track after seeking. */
+function shownAt(page: Page, seconds: number) {
+	return page.getByTestId('studio-video').evaluate(
+		(element, at) =>
+			new Promise<string[]>((resolve) => {
+				const video = element as HTMLVideoElement;
+				const track = video.textTracks[0];
+				const read = () => Array.from(track.activeCues ?? []).map((cue) => (cue as VTTCue).text);
+				video.addEventListener(
+					'seeked',
+					() => requestAnimationFrame(() => requestAnimationFrame(() => resolve(read()))),
+					{ once: true }
+				);
+				video.currentTime = at;
+			}),
+		seconds
+	);
+}
+
+test('a clinician writes three cues with the keyboard while the video plays, and they are saved and shown', async ({
+	page
+}) => {
+	test.setTimeout(90_000);
+	const trackId = seedCaptionTrack(recordingId, [], { language: 'en-GB' });
+	await signInWithPassword(page, ACCOUNTS.clinician);
+	await page.goto(`/recordings/${recordingId}`);
+	await page.getByRole('link', { name: 'Caption studio' }).click();
+	await expect(page.getByRole('heading', { name: 'Caption studio', level: 1 })).toBeVisible();
+	await expect(page.getByTestId('studio')).toHaveAttribute('data-ready', 'true');
+	await expect(page).toHaveURL(new RegExp(`/recordings/${recordingId}/studio$`));
+	await expect(saveState(page)).toHaveText('Saved as version 1');
+	await expect(page.getByRole('table').filter({ hasText: 'Mark end' })).toBeVisible();
+
+	const video = page.getByTestId('studio-video');
+	await video.evaluate(
+		(v) =>
+			new Promise<void>((resolve) => {
+				const element = v as HTMLVideoElement;
+				if (element.readyState >= 2) resolve();
+				else element.addEventListener('loadeddata', () => resolve(), { once: true });
+			})
+	);
+	await page.getByRole('heading', { name: 'Caption studio', level: 1 }).click();
+	await page.keyboard.press(' ');
+	await expect
+		.poll(() => video.evaluate((v) => (v as HTMLVideoElement).currentTime))
+		.toBeGreaterThan(0.3);
+
+	const words = ['Lie on your back.', 'Slide your heel up.', 'Slowly back down.'];
+	for (const text of words) {
+		await page.keyboard.press('[');
+		await page.waitForTimeout(900);
+		await page.keyboard.press(']');
+		await page.keyboard.press('Enter');
+		await expect(page.locator('textarea:focus')).toHaveCount(1);
+		await page.keyboard.type(text);
+		await page.keyboard.press('Enter');
+		await expect(page.locator('textarea:focus')).toHaveCount(0);
+		await page.waitForTimeout(300);
+	}
+	expect(await video.evaluate((v) => (v as HTMLVideoElement).paused)).toBe(false);
+	await page.keyboard.press('k');
+	await expect.poll(() => video.evaluate((v) => (v as HTMLVideoElement).paused)).toBe(true);
+
+	for (const [i, text] of words.entries()) {
+		await expect(page.getByLabel(`Words of cue ${i + 1}`)).toHaveValue(text);
+	}
+	await expect(saveState(page)).toHaveText('Saved as version 2', { timeout: 15_000 });
+	const saved = await serverVersion(trackId);
+	expect(saved.version).toBe(2);
+	expect(saved.cues.map((c) => c.text)).toEqual(words);
+	saved.cues.forEach((cue, i) => {
+		expect(cue.end - cue.start).toBeGreaterThan(0.5);
+		if (i > 0) expect(cue.start).toBeGreaterThanOrEqual(saved.cues[i - 1].end);
+	});
+
+	// What the video shows is what was typed, at the times that were marked.
+	const middle = (i: number) => (saved.cues[i].start + saved.cues[i].end) / 2;
+	expect(await shownAt(page, middle(1))).toEqual([words[1]]);
+	expect(await shownAt(page, middle(2))).toEqual([words[2]]);
+	expect(await shownAt(page, saved.cues[2].end + 0.5)).toEqual([]);
+
+	// Undo takes the last words away, on the video too; redo brings them back.
+	await page.getByRole('heading', { name: 'Caption studio', level: 1 }).click();
+	await page.keyboard.press('Control+z');
+	await expect(page.getByLabel('Words of cue 3')).toHaveValue('');
+	await page.keyboard.press('Control+Shift+z');
+	await expect(page.getByLabel('Words of cue 3')).toHaveValue(words[2]);
+	expect(await shownAt(page, middle(2))).toEqual([words[2]]);
+
+	await expectNoAxeViolations(page);
+	await page.screenshot({ path: join(shots, 'studio-written.png'), fullPage: true });
+});
+
+test('a finding’s fix lengthens a cue read too fast, and the finding goes', async ({ page }) => {
+	const trackId = seedCaptionTrack(
+		recordingId,
+		[
+			{
+				id: 'heel',
+				start: 1,
+				end: 2,
+				text: 'Keep your heel on the bed\nand slide it up towards you.'
+			},
+			{ id: 'rest', start: 9, end: 11, text: 'Now rest.' }
+		],
+		{ kind: 'subtitles', language: 'en' }
+	);
+	await signInWithPassword(page, ACCOUNTS.clinician);
+	await openStudio(page, trackId);
+	// The clinic's choice may have been changed by another test; these numbers are the BBC's.
+	await page.getByLabel('Check against').selectOption('bbc');
+	const cue = page.getByRole('list', { name: 'Checks of cue 1' });
+	await expect(cue).toContainText('Error: Reading rate 720 words per minute');
+	await expect(page.getByTestId('findings')).toContainText('Cue 1 · Error: Reading rate');
+	await expectNoAxeViolations(page);
+	await page.screenshot({ path: join(shots, 'studio-findings.png'), fullPage: true });
+
+	// Choosing a finding in the checks panel selects its cue.
+	await page.getByTestId('findings').getByRole('button').first().click();
+	await expect(page.getByText('Cue 1 selected')).toBeVisible();
+
+	await cue.getByRole('button', { name: /Fix: Lengthen into the gap/ }).click();
+	await expect(page.getByRole('list', { name: 'Checks of cue 1' })).toHaveCount(0);
+	await expect(page.getByTestId('checks-summary')).toContainText('No findings');
+	// 12 words at the BBC's 180 words per minute need 4 s (BBC Subtitle Guidelines, reading rate).
+	await expect(page.getByLabel('End', { exact: true }).first()).toHaveValue('00:05.000');
+	await page.keyboard.press('Control+s');
+	await expect(saveState(page)).toHaveText('Saved as version 2');
+	expect((await serverVersion(trackId)).cues[0]).toMatchObject({ start: 1, end: 5 });
+
+	// Other guidelines are a choice of this page only, and find what their own numbers find.
+	const select = page.getByLabel('Check against');
+	const notTheClinics = await select
+		.locator('option')
+		.filter({ hasNotText: 'clinic’s choice' })
+		.getAttribute('value');
+	await select.selectOption(notTheClinics!);
+	await expect(page.getByText('Only this page changes')).toBeVisible();
+	await select.selectOption('dcmp');
+	await expect(page.getByTestId('checks-summary')).toContainText('DCMP Captioning Key');
+});
+
+test('a save that meets a newer version shows both side by side and overwrites nothing', async ({
+	page
+}) => {
+	const trackId = seedCaptionTrack(
+		recordingId,
+		[
+			{ id: 'a', start: 1, end: 3.5, text: 'Bend your knee.' },
+			{ id: 'b', start: 5, end: 8, text: 'Hold for five.' }
+		],
+		{ kind: 'subtitles', language: 'cy' }
+	);
+	await signInWithPassword(page, ACCOUNTS.clinician);
+	const other = await signedInRequest(ACCOUNTS.clinician);
+	await openStudio(page, trackId);
+	await page.getByLabel('Words of cue 2').fill('Hold for ten.');
+
+	// Someone else saves version 2 before this page does (its autosave waits a few seconds).
+	const theirs = await other.post(`/api/tracks/${trackId}/versions`, {
+		data: {
+			baseVersion: 1,
+			cues: [
+				{ id: 'a', start: 1, end: 3.5, text: 'Bend your knee slowly.' },
+				{ id: 'b', start: 5, end: 8, text: 'Hold for five.' }
+			]
+		},
+		headers: { Origin: E2E.origin }
+	});
+	expect(theirs.status()).toBe(201);
+	await other.dispose();
+
+	await page.keyboard.press('Control+s');
+	const conflict = page.getByTestId('conflict');
+	await expect(conflict).toBeVisible();
+	await expect(saveState(page)).toHaveText(/^Not saved — version 2 was saved elsewhere/);
+	await expect(conflict.getByRole('heading')).toHaveText(
+		'Version 2 was saved while you were editing'
+	);
+	await expect(conflict.getByRole('columnheader')).toHaveText([
+		'Version 2 (saved)',
+		'Yours (on this device)'
+	]);
+	const rows = conflict.getByRole('row');
+	await expect(rows.filter({ hasText: 'Bend your knee slowly.' })).toContainText('Bend your knee.');
+	await expect(rows.filter({ hasText: 'Hold for ten.' })).toContainText('Hold for five.');
+	expect((await serverVersion(trackId)).version).toBe(2);
+	await expectNoAxeViolations(page);
+	await conflict.screenshot({ path: join(shots, 'studio-conflict.png') });
+
+	await conflict.getByRole('button', { name: 'Keep mine (save them as version 3)' }).click();
+	await expect(saveState(page)).toHaveText('Saved as version 3');
+	await expect(conflict).toHaveCount(0);
+	expect((await serverVersion(trackId)).cues.map((c) => c.text)).toEqual([
+		'Bend your knee.',
+		'Hold for ten.'
+	]);
+});
+
+test('changes whose save failed are kept on the device and restored after a reload', async ({
+	page
+}) => {
+	const trackId = seedCaptionTrack(
+		recordingId,
+		[{ id: '', start: 2, end: 5, text: 'Breathe in.' }],
+		{ kind: 'descriptions', language: 'en-GB' }
+	);
+	await signInWithPassword(page, ACCOUNTS.clinician);
+	await openStudio(page, trackId);
+	await page.route('**/versions', (route) =>
+		route.request().method() === 'POST' ? route.abort() : route.continue()
+	);
+	await page.getByLabel('Words of cue 1').fill('Breathe in, and relax your shoulders.');
+	await page.keyboard.press('Control+s');
+	await expect(saveState(page)).toHaveText('Not saved — kept on this device');
+	await expect(page.getByText('The connection to Kinelume dropped.')).toBeVisible();
+	expect((await serverVersion(trackId)).version).toBe(1);
+
+	await page.unroute('**/versions');
+	await page.reload();
+	await expect(page.getByTestId('studio')).toHaveAttribute('data-ready', 'true');
+	const offer = page.getByRole('region', { name: 'Changes kept on this device' });
+	await expect(offer).toContainText('never reached Kinelume (1 cue, started from version 1)');
+	await expectNoAxeViolations(page);
+	await page.screenshot({ path: join(shots, 'studio-offer.png') });
+	await offer.getByRole('button', { name: 'Restore my changes' }).click();
+	await expect(page.getByLabel('Words of cue 1')).toHaveValue(
+		'Breathe in, and relax your shoulders.'
+	);
+	await expect(saveState(page)).toHaveText('Saved as version 2', { timeout: 15_000 });
+	expect((await serverVersion(trackId)).cues[0].text).toBe('Breathe in, and relax your shoulders.');
+
+	// Saved: nothing is offered any more.
+	await page.reload();
+	await expect(page.getByTestId('studio')).toHaveAttribute('data-ready', 'true');
+	await expect(page.getByRole('region', { name: 'Changes kept on this device' })).toHaveCount(0);
+});
+
+test('a cue dragged along the timeline snaps to its neighbour, and one undo puts it back', async ({
+	page
+}) => {
+	const trackId = seedCaptionTrack(
+		recordingId,
+		[
+			{ id: 'lift', start: 1, end: 3, text: 'Lift.' },
+			{ id: 'lower', start: 8, end: 10, text: 'Lower.' }
+		],
+		{ kind: 'chapters', language: 'en' }
+	);
+	await signInWithPassword(page, ACCOUNTS.clinician);
+	await openStudio(page, trackId);
+	await page.getByRole('button', { name: 'Zoom in' }).click();
+	const timeline = page.locator('.timeline');
+	await timeline.scrollIntoViewIfNeeded();
+	const blocks = timeline.locator('[data-cue]');
+	const first = (await blocks.nth(0).boundingBox())!;
+	const second = (await blocks.nth(1).boundingBox())!;
+
+	// Let go 3 px after the first cue's end: close enough to snap onto it.
+	const y = second.y + second.height / 2;
+	await page.mouse.move(second.x + second.width / 2, y);
+	await page.mouse.down();
+	await page.mouse.move(second.x + second.width / 2 - 40, y, { steps: 4 });
+	await page.mouse.move(first.x + first.width + 3 + second.width / 2, y, { steps: 4 });
+	await page.mouse.up();
+	const starts = page.getByLabel('Start', { exact: true });
+	const ends = page.getByLabel('End', { exact: true });
+	await expect(starts.nth(1)).toHaveValue('00:03.000');
+	await expect(ends.nth(1)).toHaveValue('00:05.000');
+
+	// The end of the first cue, pulled past the second's start, stops there.
+	const moved = (await blocks.nth(0).boundingBox())!;
+	await page.mouse.move(moved.x + moved.width - 2, moved.y + 10);
+	await page.mouse.down();
+	await page.mouse.move(moved.x + moved.width + 60, moved.y + 10, { steps: 4 });
+	await page.mouse.up();
+	await expect(ends.nth(0)).toHaveValue('00:03.000');
+
+	// That changed nothing, so the one undo step is the move.
+	await page.getByRole('button', { name: 'Undo' }).click();
+	await expect(starts.nth(1)).toHaveValue('00:08.000');
+	await expect(saveState(page)).toHaveText('Saved as version 1');
+	await timeline.screenshot({ path: join(shots, 'studio-timeline.png') });
+});
