@@ -107,8 +107,25 @@ function seedExercise(segment: string, title: string) {
 	}
 }
 
+/** The id of a row found by `sql`, or null. */
+function find(sql: string, ...params: unknown[]): string | null {
+	const db = database();
+	try {
+		return (db.prepare(sql).get(...params) as { id: string } | undefined)?.id ?? null;
+	} finally {
+		db.close();
+	}
+}
+
+// Playwright runs this again in a fresh worker after a failure: seed only once.
 test.beforeAll(async () => {
 	dir = await mkdtemp(join(tmpdir(), 'kinelume-e2e-programmes-'));
+	const seeded = find("select id from segment where title = 'Kneeling reach segment'");
+	if (seeded) {
+		segmentId = seeded;
+		secondSegmentId = find("select id from segment where title = 'Ankle pumps segment'")!;
+		return;
+	}
 	const posterPath = join(dir, 'poster.jpg');
 	await realPoster(posterPath);
 	const poster = await readFile(posterPath);
