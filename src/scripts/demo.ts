@@ -112,6 +112,16 @@ confirmDemoSegments('clinician@alder-street.example', (line) => console.log(line
 			console.log(line)
 		);
 		console.log(`Demo exercises ready: ${made.exercises}.`);
+		// The public library: a few of those exercises reviewed and published, one still waiting.
+		const { seedDemoLibrary } = await import('../lib/server/demo/library');
+		const library = await seedDemoLibrary(
+			'clinician@alder-street.example',
+			'educator@alder-street.example',
+			(line) => console.log(line)
+		);
+		console.log(
+			`Demo library: ${library.published} exercise(s) published, ${library.waiting} waiting for review (${origin}/library).`
+		);
 	})
 	.catch((error: unknown) => console.error('The demo segments could not be made:', error));
 

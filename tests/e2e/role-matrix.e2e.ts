@@ -16,6 +16,7 @@ import { segmentsPart } from './matrix/segments';
 import { followupPart } from './matrix/followup';
 import { patientPart } from './matrix/patient';
 import { programmesPart } from './matrix/programmes';
+import { libraryPart } from './matrix/library';
 import {
 	clinicianApi,
 	everyone,
@@ -26,7 +27,14 @@ import {
 } from './matrix/types';
 
 /** Each domain keeps its rows in its own file under matrix/; list it here. */
-const PARTS: MatrixPart[] = [studio, segmentsPart, followupPart, patientPart, programmesPart];
+const PARTS: MatrixPart[] = [
+	studio,
+	segmentsPart,
+	followupPart,
+	patientPart,
+	libraryPart,
+	programmesPart
+];
 
 /**
  * The role matrix: every route that exists × every role (and the signed-out public) → the

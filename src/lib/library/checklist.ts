@@ -86,6 +86,11 @@ function captionsItem(snapshot: ExerciseSnapshot, profile: GuidelineProfile): Ch
 		return `Cue ${f.index + 1} at ${formatTimestamp(Math.max(0, cue.start), { hours: 'auto' })}: ${f.message}`;
 	});
 	if (errors.length > MAX_LISTED) listed.push(`…and ${errors.length - MAX_LISTED} more.`);
+	if (errors.length > 0) {
+		listed.push(
+			'To fix: correct the recording’s captions, confirm its segments again, and choose the new segment for the exercise.'
+		);
+	}
 	return {
 		id: 'captions',
 		label,

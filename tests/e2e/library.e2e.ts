@@ -1,0 +1,327 @@
+import { expect, test, type Browser, type Page } from '@playwright/test';
+import { execFile } from 'node:child_process';
+import { mkdtemp, readFile, rm } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { promisify } from 'node:util';
+import ffmpegInstaller from '@ffmpeg-installer/ffmpeg';
+import { PutObjectCommand, S3Client } from '@aws-sdk/client-s3';
+import { makeClip } from '../integration/recordings-support';
+import {
+	ACCOUNTS,
+	database,
+	expectNoAxeViolations,
+	firstLink,
+	seedReadyRecording,
+	signedInRequest,
+	waitForMail
+} from './support';
+import { seedReadySegment } from './segments-support';
+import { seedCollection, seedExercise } from './library-support';
+import { E2E } from './ports';
+
+const run = promisify(execFile);
+const SHOTS = join(import.meta.dirname, '../.run/e2e-results');
+const TITLE = 'Sit to stand from a chair';
+const CUES = [
+	{ id: '1', start: 0.5, end: 2.5, text: 'Sit tall on the chair.' },
+	{ id: '2', start: 3.5, end: 5.5, text: 'Now stand up slowly.' }
+];
+
+let dir: string;
+let exerciseId: string;
+let segmentId: string;
+
+/** A real 6 s clip with a real poster, as the segment of an exercise of the demo clinic. */
+test.beforeAll(async () => {
+	test.setTimeout(120_000);
+	dir = await mkdtemp(join(tmpdir(), 'kinelume-e2e-library-'));
+	const clipPath = join(dir, 'clip.mp4');
+	const posterPath = join(dir, 'poster.jpg');
+	await makeClip(clipPath, { seconds: 6, size: '640x360' });
+	await run(ffmpegInstaller.path, [
+		'-loglevel',
+		'error',
+		'-y',
+		'-ss',
+		'1',
+		'-i',
+		clipPath,
+		'-frames:v',
+		'1',
+		posterPath
+	]);
+	const recordingId = await seedReadyRecording(ACCOUNTS.clinician, {
+		rendition: await readFile(clipPath),
+		durationSeconds: 6,
+		title: 'Chair exercises'
+	});
+	segmentId = await seedReadySegment(recordingId, {
+		title: TITLE,
+		end: 6,
+		cues: CUES,
+		clip: await readFile(clipPath)
+	});
+	const db = database();
+	const { clinicId } = db
+		.prepare('select clinic_id as clinicId from segment where id = ?')
+		.get(segmentId) as {
+		clinicId: string;
+	};
+	db.close();
+	const s3 = new S3Client({
+		region: 'us-east-1',
+		endpoint: `http://127.0.0.1:${E2E.storagePort}`,
+		forcePathStyle: true,
+		credentials: { accessKeyId: 'S3RVER', secretAccessKey: 'S3RVER' },
+		requestChecksumCalculation: 'WHEN_REQUIRED',
+		responseChecksumValidation: 'WHEN_REQUIRED'
+	});
+	await s3.send(
+		new PutObjectCommand({
+			Bucket: 'kinelume',
+			Key: `clinics/${clinicId}/recordings/${recordingId}/segments/${segmentId}/posters/0.jpg`,
+			Body: await readFile(posterPath),
+			ContentType: 'image/jpeg'
+		})
+	);
+	s3.destroy();
+	exerciseId = seedExercise(segmentId, {
+		title: TITLE,
+		description:
+			'Stand up from a firm chair without using your hands. Ring the clinic on 0161 496 0000 if your knee swells.',
+		position: 'seated',
+		movementType: 'active',
+		equipment: ['Chair'],
+		coachingCues: [{ text: 'Lean forward, nose over toes' }, { text: 'Push through both heels' }]
+	});
+});
+
+test.afterAll(async () => {
+	await rm(dir, { recursive: true, force: true });
+});
+
+/**
+ * A browser of its own for one person, signed in through the real password form action (the
+ * request's cookies carried over), so that no page has to be typed into before it is ready.
+ */
+async function asNewPerson(browser: Browser, email: string | null): Promise<Page> {
+	if (!email) return (await browser.newContext()).newPage();
+	const signedIn = await signedInRequest(email);
+	const context = await browser.newContext({ storageState: await signedIn.storageState() });
+	await signedIn.dispose();
+	return context.newPage();
+}
+
+async function openQueuedSubmission(page: Page): Promise<void> {
+	await page.goto('/curate');
+	await page.getByTestId('review-queue').getByRole('link', { name: TITLE }).click();
+	await expect(page.getByRole('heading', { name: `Review: ${TITLE}`, level: 1 })).toBeVisible();
+}
+
+test('submit → changes requested → fixed → approved → found by a signed-out visitor and played with captions', async ({
+	browser
+}) => {
+	test.setTimeout(240_000);
+
+	// 1. The clinician submits the exercise, with consent and a licence.
+	const clinician = await asNewPerson(browser, ACCOUNTS.clinician);
+	await clinician.goto(`/exercises/${exerciseId}`);
+	await clinician.getByRole('link', { name: 'Submit to the library' }).click();
+	await expect(
+		clinician.getByRole('heading', { name: 'Submit to the public library', level: 1 })
+	).toBeVisible();
+	const preview = clinician.getByTestId('submit-checklist');
+	await expect(preview).toContainText('Does not pass: No patient data');
+	await expect(preview).toContainText('0161 496 0000');
+	await expectNoAxeViolations(clinician);
+	await clinician.getByLabel(/Everyone who can be seen or heard/).check();
+	await clinician.getByLabel('Licence for reuse').selectOption('cc-by-nc-4.0');
+	await clinician.getByRole('button', { name: 'Submit for review' }).click();
+	await expect(clinician.getByText('Submitted. It is waiting for an educator')).toBeVisible();
+
+	// 2. An educator sees the failing check and asks for changes; the clinician gets an e-mail.
+	const educator = await asNewPerson(browser, ACCOUNTS.educator);
+	await openQueuedSubmission(educator);
+	const checklist = educator.getByTestId('checklist');
+	await expect(checklist).toContainText('Passes: Captions pass the caption checks');
+	await expect(checklist).toContainText('Does not pass: No patient data');
+	const reviewPlayer = educator.getByTestId('review-player');
+	await expect
+		.poll(() => reviewPlayer.evaluate((v) => (v as HTMLVideoElement).readyState), {
+			timeout: 20_000
+		})
+		.toBeGreaterThan(0);
+	await educator.screenshot({ path: join(SHOTS, 'library-review.png'), fullPage: true });
+	await expectNoAxeViolations(educator);
+	// Approval is refused while a check fails, and nothing is lost.
+	for (const box of await educator.getByRole('checkbox').all()) await box.check();
+	await educator.getByLabel('Approve and publish').check();
+	await educator.getByRole('button', { name: 'Record the decision' }).click();
+	await expect(educator.getByRole('alert')).toContainText('Not yet met: no patient data');
+	const since = Date.now();
+	await educator.getByLabel('Request changes').check();
+	await educator
+		.getByLabel('Comment to the clinician')
+		.fill(
+			'Please take the clinic phone number out of the description; the public page is for everyone.'
+		);
+	await educator.getByRole('button', { name: 'Record the decision' }).click();
+	await expect(
+		educator.getByText('Changes requested. The clinician has been e-mailed.')
+	).toBeVisible();
+	const mail = await waitForMail(ACCOUNTS.clinician, since, 'Changes requested');
+	expect(mail.text).toContain('take the clinic phone number out');
+
+	// 3. The clinician follows the e-mail, reads the comment and fixes the description.
+	await clinician.goto(firstLink(mail.text, '/submit'));
+	await expect(
+		clinician.getByRole('region', { name: 'The educator asked for changes' })
+	).toContainText('take the clinic phone number out');
+	await clinician
+		.getByLabel('Description')
+		.fill('Stand up from a firm chair without using your hands, then sit back down slowly.');
+	await clinician.getByRole('button', { name: 'Run the checks again' }).click();
+	await expect(clinician.getByTestId('submit-checklist')).toContainText('Passes: No patient data');
+	await clinician.getByLabel(/Everyone who can be seen or heard/).check();
+	await clinician.getByRole('button', { name: 'Submit for review' }).click();
+	await expect(clinician.getByText('Submitted. It is waiting for an educator')).toBeVisible();
+
+	// 4. The educator approves; the public version is made.
+	await openQueuedSubmission(educator);
+	await expect(educator.getByTestId('checklist')).not.toContainText('Does not pass');
+	for (const box of await educator.getByRole('checkbox').all()) await box.check();
+	await educator.getByLabel('Approve and publish').check();
+	await educator.getByRole('button', { name: 'Record the decision' }).click();
+	await expect(educator.getByText('Approved and published.')).toBeVisible();
+	await expect(educator.getByRole('link', { name: 'See it in the library' })).toBeVisible();
+	await waitForMail(ACCOUNTS.clinician, since, 'is now in the public library');
+
+	// 5. A signed-out visitor finds it by the start of a word and plays it with captions.
+	const visitor = await asNewPerson(browser, null);
+	await visitor.goto('/library');
+	await expectNoAxeViolations(visitor);
+	await visitor.getByLabel('Search exercises').fill('stan chai');
+	await visitor.getByRole('button', { name: 'Search' }).click();
+	await expect(visitor).toHaveURL(/\/library\/search\?q=stan\+chai/);
+	const results = visitor.getByTestId('search-results');
+	await expect(results.getByRole('link', { name: TITLE })).toBeVisible();
+	await expect(results.locator('mark').first()).toBeVisible();
+	await visitor.screenshot({ path: join(SHOTS, 'library-search.png'), fullPage: true });
+	await expectNoAxeViolations(visitor);
+	await results.getByRole('link', { name: TITLE }).click();
+	await expect(visitor.getByRole('heading', { name: TITLE, level: 1 })).toBeVisible();
+	await expect(visitor.getByText("Follow your clinician's advice.")).toBeVisible();
+	await expect(
+		visitor.getByRole('heading', { name: 'Safety notes: read these first' })
+	).toBeVisible();
+	await expect(visitor.getByText('Before you try this')).toBeVisible();
+	await expect(visitor.locator('meta[property="og:title"]')).toHaveAttribute('content', TITLE);
+	await expect(visitor.locator('meta[property="og:image"]')).toHaveAttribute(
+		'content',
+		/\/api\/library\/versions\/.+\/poster-0\.jpg$/
+	);
+
+	const player = visitor.getByTestId('library-player');
+	await player.evaluate(async (element) => {
+		const video = element as HTMLVideoElement;
+		video.muted = true;
+		await video.play();
+	});
+	await expect
+		.poll(() => player.evaluate((v) => (v as HTMLVideoElement).currentTime), { timeout: 20_000 })
+		.toBeGreaterThan(0.8);
+	const track = await player.evaluate((element) => {
+		const t = (element as HTMLVideoElement).textTracks[0];
+		return {
+			kind: t.kind,
+			mode: t.mode,
+			cues: t.cues?.length ?? 0,
+			active: t.activeCues?.[0] ? (t.activeCues[0] as VTTCue).text : null
+		};
+	});
+	expect(track).toMatchObject({ kind: 'captions', mode: 'showing', cues: 2 });
+	expect(track.active).toBe('Sit tall on the chair.');
+	await expect(visitor.getByRole('button', { name: /Sit tall on the chair/ })).toHaveAttribute(
+		'aria-current',
+		'true'
+	);
+	await visitor.screenshot({ path: join(SHOTS, 'library-exercise.png'), fullPage: true });
+	await expectNoAxeViolations(visitor);
+
+	// Nothing of the clinic's own storage or the review reaches the public page.
+	const html = await visitor.content();
+	expect(html).not.toContain('/api/segments/');
+	expect(html).not.toContain('/api/library/submissions/');
+	expect(html).not.toContain(segmentId);
+	const db = database();
+	const submissionIds = (
+		db.prepare('select id from library_submission where exercise_id = ?').all(exerciseId) as {
+			id: string;
+		}[]
+	).map((r) => r.id);
+	const { entryId } = db
+		.prepare('select id as entryId from library_exercise where source_exercise_id = ?')
+		.get(exerciseId) as { entryId: string };
+	db.close();
+	expect(submissionIds).toHaveLength(2);
+	for (const id of submissionIds) {
+		const clip = await visitor.request.get(`/api/library/submissions/${id}/clip.mp4`);
+		expect(clip.status()).toBe(401);
+	}
+	expect((await visitor.request.get(`/api/segments/${segmentId}/clip.mp4`)).status()).toBe(401);
+	const sitemap = await (await visitor.request.get('/sitemap.xml')).text();
+	expect(sitemap).toContain('/library/exercises/sit-to-stand-from-a-chair');
+
+	// A collection with it is public too, and readable.
+	seedCollection('Chair exercises for week two', 'chair-exercises-for-week-two', 'published', [
+		entryId
+	]);
+	await visitor.goto('/library/collections/chair-exercises-for-week-two');
+	await expect(
+		visitor.getByRole('heading', { name: 'Chair exercises for week two', level: 1 })
+	).toBeVisible();
+	await expect(visitor.getByRole('link', { name: new RegExp(TITLE) })).toBeVisible();
+	await expectNoAxeViolations(visitor);
+	await visitor.goto('/library');
+	await visitor.screenshot({ path: join(SHOTS, 'library-front.png'), fullPage: true });
+});
+
+test('an educator unpublishes and retires: the page answers 404, then 410, and so do its files', async ({
+	browser
+}) => {
+	test.setTimeout(60_000);
+	const db = database();
+	const row = db
+		.prepare(
+			`select e.slug as slug, v.id as versionId from library_exercise e join library_version v on v.id = e.current_version_id where e.source_exercise_id = ?`
+		)
+		.get(exerciseId) as { slug: string; versionId: string };
+	db.close();
+	const visitor = await asNewPerson(browser, null);
+	const status = async (path: string) => (await visitor.request.get(path)).status();
+	expect(await status(`/library/exercises/${row.slug}`)).toBe(200);
+	expect(await status(`/api/library/versions/${row.versionId}/clip.mp4`)).toBe(200);
+
+	const educator = await asNewPerson(browser, ACCOUNTS.educator);
+	await educator.goto('/curate/published');
+	const line = educator
+		.getByTestId('published-table')
+		.getByRole('row', { name: new RegExp(TITLE) });
+	await line.getByRole('button', { name: `Unpublish ${TITLE}` }).click();
+	await expect(educator.getByText('Unpublished: its page now answers')).toBeVisible();
+	await expectNoAxeViolations(educator);
+	expect(await status(`/library/exercises/${row.slug}`)).toBe(404);
+	expect(await status(`/api/library/versions/${row.versionId}/clip.mp4`)).toBe(404);
+	expect(await status(`/api/library/versions/${row.versionId}/captions.vtt`)).toBe(404);
+	expect(await (await visitor.request.get('/library/search?q=stand')).text()).not.toContain(TITLE);
+
+	await line.getByRole('checkbox').check();
+	await line.getByRole('button', { name: `Retire ${TITLE}` }).click();
+	await expect(educator.getByText('Retired: its page now says it was withdrawn')).toBeVisible();
+	expect(await status(`/library/exercises/${row.slug}`)).toBe(410);
+	expect(await status(`/api/library/versions/${row.versionId}/poster-0.jpg`)).toBe(410);
+	await visitor.goto(`/library/exercises/${row.slug}`);
+	await expect(visitor.getByRole('heading', { name: 'This is no longer available' })).toBeVisible();
+	await expectNoAxeViolations(visitor);
+});
