@@ -241,6 +241,19 @@ test('a clinician adds a patient, builds a flagged programme by keyboard, publis
 	const patientRow = page.getByRole('row').filter({ hasText: 'Mabel Quill' });
 	await expect(patientRow.getByText('Invited')).toBeVisible();
 	await expectNoAxeViolations(page);
+	await shot(page, 'patients');
+
+	// The details page shows what the invitation recorded, and edits it.
+	await patientRow.getByRole('link', { name: 'Details of Mabel Quill' }).click();
+	await expect(page.getByLabel('Date of the operation (or injury)')).toHaveValue(operationDate);
+	await expect(page.getByRole('checkbox', { name: 'No kneeling' })).toBeChecked();
+	await page.getByLabel('Other precautions').fill('Avoid long car journeys for now');
+	await page.getByRole('button', { name: 'Save details' }).click();
+	await expect(page.getByText('The details are saved.')).toBeVisible();
+	await expect(page.getByLabel('Other precautions')).toHaveValue('Avoid long car journeys for now');
+	await expectNoAxeViolations(page);
+	await shot(page, 'patient-details');
+	await page.goto('/patients');
 
 	await patientRow.getByRole('link', { name: 'New programme for Mabel Quill' }).click();
 	await expect(page.getByRole('heading', { name: 'New home programme' })).toBeVisible();
