@@ -3,7 +3,8 @@
  * operation date, and weeks of session logs on a programme made by programme-fixtures.ts.
  */
 import { addDays, localDateOf } from '../../src/lib/clinical/calendar';
-import { database } from './support';
+import type { Page } from '@playwright/test';
+import { database, signedInRequest } from './support';
 
 /** The patients' today (the fixtures' patients live in London). */
 export function londonToday(): string {
@@ -89,4 +90,15 @@ export function daysBack(daysAgo: number, untilDaysAgo = 0): string[] {
 	const out: string[] = [];
 	for (let d = daysAgo; d >= untilDaysAgo; d--) out.push(addDays(today, -d));
 	return out;
+}
+
+/**
+ * Signs `page` in by the password form's action and hands the session cookie to the browser:
+ * for tests about what comes after signing in (sign-in itself is tested in sign-in.e2e.ts).
+ */
+export async function signInAs(page: Page, email: string): Promise<void> {
+	const request = await signedInRequest(email);
+	const { cookies } = await request.storageState();
+	await page.context().addCookies(cookies);
+	await request.dispose();
 }

@@ -1,8 +1,14 @@
 import { expect, test, type Page } from '@playwright/test';
 import { addDays } from '../../src/lib/clinical/calendar';
-import { daysBack, londonToday, seedCaseloadPatient, seedSessionLogs } from './followup-support';
+import {
+	daysBack,
+	londonToday,
+	seedCaseloadPatient,
+	seedSessionLogs,
+	signInAs
+} from './followup-support';
 import { seedProgramme } from './programme-fixtures';
-import { ACCOUNTS, expectNoAxeViolations, signInWithPassword, visit } from './support';
+import { ACCOUNTS, expectNoAxeViolations, visit } from './support';
 
 /**
  * Follow-up in the browser: the caseload's sorting, filters and pages (server-rendered, so the
@@ -60,20 +66,21 @@ function rowOf(page: Page, name: string) {
 test('the caseload shows adherence, pain flags with their basis, and sorts and filters', async ({
 	page
 }) => {
-	await signInWithPassword(page, ACCOUNTS.clinician);
+	await signInAs(page, ACCOUNTS.clinician);
 	await visit(page, '/caseload');
 	await expect(page.getByRole('heading', { name: 'Caseload' })).toBeVisible();
 
 	const rising = rowOf(page, 'Mabel Thorne');
 	await expect(rising).toContainText('100%');
-	await expect(rising).toContainText('7 of 7 sessions (100%)');
+	await expect(rising).toContainText('7 of 7 sessions, ');
 	await expect(rising).toContainText('Pain rising');
 	await expect(rising).toContainText(
 		'Pain flag: recent average 6.0 is 4.0 above the baseline 2.0 (a rise of 2 points is clinically important — Farrar et al. 2001).'
 	);
 	await expect(rising).toContainText('Week 6');
 	const steady = rowOf(page, 'Norman Pike');
-	await expect(steady).toContainText('5 of 6 sessions (83%)');
+	await expect(steady).toContainText('83%');
+	await expect(steady).toContainText('5 of 6 sessions, ');
 	await expect(steady).toContainText('None');
 	// Another clinic's patients never appear.
 	await expect(page.getByText('Harbour Patient 01')).toHaveCount(0);
@@ -109,7 +116,7 @@ test('the caseload shows adherence, pain flags with their basis, and sorts and f
 });
 
 test('the caseload pages by 25 and sorts by name both ways', async ({ page }) => {
-	await signInWithPassword(page, ACCOUNTS.otherClinicClinician);
+	await signInAs(page, ACCOUNTS.otherClinicClinician);
 	await visit(page, '/caseload?q=Harbour+Patient');
 	await expect(page.getByRole('heading', { name: '27 patients match' })).toBeVisible();
 	await expect(page.getByRole('rowheader')).toHaveCount(25);
@@ -143,7 +150,7 @@ async function paintedPixels(page: Page, chart: string): Promise<number> {
 }
 
 test('a patient page draws its charts, each with a table of the same numbers', async ({ page }) => {
-	await signInWithPassword(page, ACCOUNTS.clinician);
+	await signInAs(page, ACCOUNTS.clinician);
 	await visit(page, `/patients/${risingId}`);
 	await expect(page.getByRole('heading', { name: 'Mabel Thorne' })).toBeVisible();
 	await expect(page.getByRole('link', { name: 'Knee home programme' })).toBeVisible();
@@ -167,17 +174,20 @@ test('a patient page draws its charts, each with a table of the same numbers', a
 	const pain = page.locator('[data-chart="pain-chart"]');
 	await expect(pain.locator('tbody tr')).toHaveCount(28);
 	await expect(pain.locator('tbody tr').last()).toContainText('6.0');
-	await expect(
-		page.getByRole('table', { name: 'Session logs (28)' }).locator('tbody tr')
-	).toHaveCount(28);
+	// The newest 20 logs first (today's, pain 6), then every one on request.
+	const logs = page.getByRole('table', { name: 'Session logs (28)' });
+	await expect(logs.locator('tbody tr')).toHaveCount(20);
+	await expect(logs.locator('tbody tr').first().locator('td').nth(2)).toHaveText('6');
 	await expectNoAxeViolations(page);
+	await page.getByRole('link', { name: 'Show all 28' }).click();
+	await expect(logs.locator('tbody tr')).toHaveCount(28);
 });
 
 test('range-of-motion readings compare with normal, the other side and the measurement error', async ({
 	page
 }) => {
 	const today = londonToday();
-	await signInWithPassword(page, ACCOUNTS.clinician);
+	await signInAs(page, ACCOUNTS.clinician);
 	await visit(page, `/patients/${steadyId}`);
 	const form = page.getByRole('form', { name: 'Add a reading' });
 
@@ -240,7 +250,7 @@ test('range-of-motion readings compare with normal, the other side and the measu
 });
 
 test("another clinic's patient page is not found", async ({ page }) => {
-	await signInWithPassword(page, ACCOUNTS.otherClinicClinician);
+	await signInAs(page, ACCOUNTS.otherClinicClinician);
 	const response = await page.goto(`/patients/${risingId}`);
 	expect(response?.status()).toBe(404);
 	const api = await page.request.get(`/api/patients/${risingId}/followup.json`);

@@ -2,12 +2,13 @@ import { describe, expect, it } from 'vitest';
 import { adherence } from '../clinical/adherence';
 import { painTrend } from '../clinical/pain';
 import {
-	adherenceCell,
+	adherenceBasis,
 	adherenceSentence,
 	daysAgo,
 	formatDate,
 	formatDateRange,
 	formatDegrees,
+	painBasis,
 	painSentence,
 	weekAfterSentence
 } from './words';
@@ -19,6 +20,10 @@ describe('dates and degrees in words', () => {
 		expect(formatDateRange('2026-11-28', '2026-12-04')).toBe('28 Nov – 4 Dec 2026');
 		expect(formatDateRange('2026-12-29', '2027-01-04')).toBe('29 Dec 2026 – 4 Jan 2027');
 		expect(formatDateRange('2026-11-24', '2026-11-24')).toBe('24 Nov 2026');
+		expect(formatDateRange('2026-11-28', '2026-12-04', { year: false })).toBe('28 Nov – 4 Dec');
+		expect(formatDateRange('2026-12-29', '2027-01-04', { year: false })).toBe(
+			'29 Dec 2026 – 4 Jan 2027'
+		);
 	});
 
 	it('says how long ago a session was, from the patient’s today', () => {
@@ -41,9 +46,10 @@ describe('figures with their basis', () => {
 		const logs = ['2026-11-24', '2026-11-25', '2026-11-26', '2026-11-27', '2026-11-28'];
 		const w = adherence(daily, logs, '2026-11-30', 7);
 		expect(adherenceSentence(w)).toBe('5 of 7 sessions (71%) over 24–30 Nov 2026');
-		expect(adherenceCell(w)).toBe('71%');
-		expect(adherenceCell(adherence(daily, [], '2026-11-01', 7))).toBe('—');
-		expect(adherenceCell(null)).toBe('—');
+		expect(adherenceBasis(w)).toBe('5 of 7 sessions, 24–30 Nov');
+		expect(adherenceBasis(adherence(daily, ['2026-11-01'], '2026-11-01', 7))).toBe(
+			'None prescribed, 26 Oct – 1 Nov, 1 extra'
+		);
 	});
 
 	it('states a pain flag with both averages and the 2-point rule (Farrar et al., Pain 2001)', () => {
@@ -54,6 +60,7 @@ describe('figures with their basis', () => {
 		const recent = [5, 6, 5, 6].map((score, i) => ({ date: `2026-11-2${i + 4}`, score }));
 		const trend = painTrend([...first, ...recent], '2026-11-30');
 		expect(trend.flagged).toBe(true);
+		expect(painBasis(trend)).toBe('last 7 days 5.5 vs first week 3.0');
 		expect(painSentence(trend)).toBe(
 			'Pain flag: recent average 5.5 is 2.5 above the baseline 3.0 (a rise of 2 points is clinically important — Farrar et al. 2001).'
 		);

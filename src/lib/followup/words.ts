@@ -25,14 +25,22 @@ export function formatShortDate(date: LocalDate): string {
 	return `${p.day} ${p.month}`;
 }
 
-/** An inclusive run of days: '24–30 Nov 2026', '28 Nov – 4 Dec 2026', '29 Dec 2026 – 4 Jan 2027'. */
-export function formatDateRange(from: LocalDate, to: LocalDate): string {
-	if (from === to) return formatDate(from);
+/**
+ * An inclusive run of days: '24–30 Nov 2026', '28 Nov – 4 Dec 2026', '29 Dec 2026 – 4 Jan 2027';
+ * without the year ('24–30 Nov') when it goes without saying and the run stays in one year.
+ */
+export function formatDateRange(
+	from: LocalDate,
+	to: LocalDate,
+	{ year = true }: { year?: boolean } = {}
+): string {
 	const a = parts(from);
 	const b = parts(to);
+	const end = year ? ` ${b.year}` : '';
+	if (from === to) return `${b.day} ${b.month}${end}`;
 	if (a.year !== b.year) return `${formatDate(from)} – ${formatDate(to)}`;
-	if (a.month !== b.month) return `${a.day} ${a.month} – ${b.day} ${b.month} ${b.year}`;
-	return `${a.day}–${b.day} ${b.month} ${b.year}`;
+	if (a.month !== b.month) return `${a.day} ${a.month} – ${b.day} ${b.month}${end}`;
+	return `${a.day}–${b.day} ${b.month}${end}`;
 }
 
 /** A number with at most one decimal, trailing '.0' kept for averages: 5.5, 3.0. */
@@ -49,9 +57,18 @@ export function adherenceSentence(window: AdherenceWindow): string {
 	return `${describeAdherence(window)} over ${formatDateRange(window.from, window.to)}`;
 }
 
-/** A short cell text for a table: "71%" or "—" when nothing was prescribed. */
-export function adherenceCell(window: AdherenceWindow | null): string {
-	return window?.percent === null || !window ? '—' : `${window.percent}%`;
+/** What a table cell says under the percentage: "5 of 7 sessions, 24–30 Nov" (", 2 extra"). */
+export function adherenceBasis(window: AdherenceWindow): string {
+	const range = formatDateRange(window.from, window.to, { year: false });
+	const extra = window.extra > 0 ? `, ${window.extra} extra` : '';
+	if (window.prescribed === 0) return `None prescribed, ${range}${extra}`;
+	return `${window.counted} of ${window.prescribed} ${window.prescribed === 1 ? 'session' : 'sessions'}, ${range}${extra}`;
+}
+
+/** What a table cell says under the pain trend: "last 7 days 6.0 vs first week 2.5". */
+export function painBasis(trend: Pick<PainTrend, 'baseline' | 'recent'>): string | null {
+	if (trend.baseline === null || trend.recent === null) return null;
+	return `last 7 days ${oneDecimal(trend.recent)} vs first week ${oneDecimal(trend.baseline)}`;
 }
 
 /**

@@ -50,6 +50,7 @@ export interface CaseloadRow {
 		flagged: boolean;
 		text: string;
 	} | null;
+	operationDate: string | null;
 	sinceOperation: { days: number; weeks: number; text: string } | null;
 	phase: { label: string; protocolName: string; caution: string } | null;
 	flags: Flag[];
@@ -145,6 +146,7 @@ export function listCaseload(
 						text: f.pain.text
 					}
 				: null,
+			operationDate: patient.operationDate,
 			sinceOperation: f.sinceOperation,
 			phase: f.phase
 				? { label: f.phase.label, protocolName: f.phase.protocolName, caution: f.phase.caution }

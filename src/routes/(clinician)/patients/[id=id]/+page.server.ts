@@ -14,7 +14,7 @@ import { cliniciansOf, findPatientInClinic, patientAccess } from '$lib/server/pa
 import type { Actions, PageServerLoad } from './$types';
 
 /** Session logs listed at first; `?logs=all` lists every one. */
-const LOGS_SHOWN = 30;
+const LOGS_SHOWN = 20;
 
 const viewQuery = z.object({
 	norms: z.enum(NORM_SOURCE_IDS as [string, ...string[]]).catch('aaos'),
