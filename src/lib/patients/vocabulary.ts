@@ -7,10 +7,10 @@ export const PROTOCOL_IDS_LIST = PROTOCOL_IDS;
 
 /** Protocol choices for a select: none, then the phase tables we ship. */
 export const PROTOCOL_CHOICES: { value: string; label: string }[] = [
-	{ value: '', label: 'None: no phase table (follow the surgeon’s protocol)' },
+	{ value: '', label: 'None (follow the surgeon’s protocol)' },
 	...PROTOCOL_IDS.map((id) => ({
 		value: id,
-		label: `${PROTOCOLS[id].name} (${PROTOCOLS[id].confidence === 'published' ? 'published weeks' : 'common-practice weeks'})`
+		label: `${PROTOCOLS[id].name} (${PROTOCOLS[id].confidence === 'published' ? 'published weeks' : 'common practice'})`
 	}))
 ];
 
