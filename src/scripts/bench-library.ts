@@ -15,7 +15,7 @@
  * afterwards (Ctrl+C included). A measurement, not a test: it exits 0 when a goal is missed and
  * non-zero only when it could not measure.
  *
- *   npm run bench:library -- [--count=10000] [--queries=2000] [--seconds=10] [--build]
+ *   npm run bench:library -- [--count=10000] [--queries=2000] [--seconds=10] [--only=a,b] [--build]
  */
 import { Agent, request as httpRequest } from 'node:http';
 import { loadavg } from 'node:os';
@@ -102,14 +102,15 @@ async function main(): Promise<void> {
 	const count = Number(argValue('count') ?? 10_000);
 	const queries = Number(argValue('queries') ?? 2000);
 	const seconds = Number(argValue('seconds') ?? 10);
+	const only = (argValue('only') ?? 'a,b').split(',');
 	if (!(count >= 100 && queries >= 100 && seconds > 0)) {
 		throw new Error('--count and --queries must be at least 100, --seconds more than 0.');
 	}
 	const run = await startRun('bench-library', PORTS);
 	const loadStart = loadavg()[0];
 	await runBench(run, async () => {
-		await buildIfAsked(run);
-		const buildCopy = copyBuild(run);
+		if (only.includes('b')) await buildIfAsked(run);
+		const buildCopy = only.includes('b') ? copyBuild(run) : '';
 		const rows: Row[] = [];
 		const notes: string[] = [];
 
@@ -153,6 +154,13 @@ async function main(): Promise<void> {
 			`(a) ${queries} queries (words, word starts, pairs, with and without filters; ${(hits / queries).toFixed(0)} matches on average), slowest ${ms(search.max)}`
 		);
 		closeDatabase();
+		if (!only.includes('b')) {
+			printTable('Public library benchmark', rows, notes, loadStart, {
+				measured: 'measured',
+				reference: 'spread (same run)'
+			});
+			return;
+		}
 
 		// (b) The public exercise page at 50 concurrent clients.
 		console.log('Starting the storage and mail fakes and the production build…');

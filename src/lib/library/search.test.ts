@@ -1,11 +1,13 @@
 import { describe, expect, it } from 'vitest';
 import {
 	anyWordExpression,
+	byTitle,
 	excerptParts,
 	hasFilters,
 	libraryQueryString,
 	MARK_CLOSE,
 	MARK_OPEN,
+	matchesFilters,
 	matchExpression,
 	MAX_TERMS,
 	NO_FILTERS,
@@ -114,6 +116,51 @@ describe('excerptParts', () => {
 			{ text: '<b>', marked: false },
 			{ text: 'x', marked: true },
 			{ text: '</b>', marked: false }
+		]);
+	});
+});
+
+describe('matchesFilters and byTitle', () => {
+	const card = {
+		title: 'Heel slides',
+		slug: 'heel-slides',
+		bodyRegion: 'Knee',
+		position: 'supine',
+		movementType: 'active-assisted',
+		phase: 2,
+		equipment: ['Towel', 'Bed']
+	};
+
+	it('passes with no filters and with each filter that fits', () => {
+		expect(matchesFilters(card, NO_FILTERS)).toBe(true);
+		expect(
+			matchesFilters(card, {
+				region: 'Knee',
+				position: 'supine',
+				movement: 'active-assisted',
+				phase: 2,
+				equipment: 'Bed'
+			})
+		).toBe(true);
+	});
+
+	it('fails on any filter that does not fit', () => {
+		expect(matchesFilters(card, { ...NO_FILTERS, region: 'Hip' })).toBe(false);
+		expect(matchesFilters(card, { ...NO_FILTERS, phase: 1 })).toBe(false);
+		expect(matchesFilters(card, { ...NO_FILTERS, equipment: 'Chair' })).toBe(false);
+	});
+
+	it('orders titles alphabetically, ignoring case and reading numbers as numbers', () => {
+		const titles = ['step 10', 'Step 2', 'ankle pumps', 'Bridging'].map((title, i) => ({
+			...card,
+			title,
+			slug: `s${i}`
+		}));
+		expect(titles.sort(byTitle).map((t) => t.title)).toEqual([
+			'ankle pumps',
+			'Bridging',
+			'Step 2',
+			'step 10'
 		]);
 	});
 });

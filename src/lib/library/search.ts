@@ -128,3 +128,32 @@ export function excerptParts(snippet: string): ExcerptPart[] {
 	}
 	return parts.filter((p) => p.text !== '');
 }
+
+/** What a listed exercise carries that the filters and the title order look at. */
+export interface FilterableCard {
+	title: string;
+	slug: string;
+	bodyRegion: string;
+	position: string;
+	movementType: string;
+	phase: number;
+	equipment: readonly string[];
+}
+
+/** Whether an exercise meets every filter that is set. */
+export function matchesFilters(card: FilterableCard, filters: LibraryFilters): boolean {
+	return (
+		(!filters.region || card.bodyRegion === filters.region) &&
+		(!filters.position || card.position === filters.position) &&
+		(!filters.movement || card.movementType === filters.movement) &&
+		(filters.phase === null || card.phase === filters.phase) &&
+		(!filters.equipment || card.equipment.includes(filters.equipment))
+	);
+}
+
+const titleOrder = new Intl.Collator('en', { sensitivity: 'base', numeric: true });
+
+/** Alphabetical by title (case and accents aside, "Step 2" before "Step 10"), then by address. */
+export function byTitle(a: FilterableCard, b: FilterableCard): number {
+	return titleOrder.compare(a.title, b.title) || (a.slug < b.slug ? -1 : a.slug > b.slug ? 1 : 0);
+}

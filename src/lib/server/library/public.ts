@@ -7,12 +7,14 @@ import type { Statement } from 'better-sqlite3';
 import { and, asc, desc, eq, inArray } from 'drizzle-orm';
 import {
 	anyWordExpression,
+	matchesFilters,
 	matchExpression,
 	PAGE_SIZE,
 	RANK_WEIGHTS,
 	searchTerms,
 	type LibraryQuery
 } from '$lib/library/search';
+import { catalogue, type ExerciseCard, type FilterOptions } from './catalogue';
 import { db } from '../db';
 import {
 	libraryCollectionItems,
@@ -64,76 +66,10 @@ export function findPublicVersion(versionId: string): PublicLookup<LibraryVersio
 	return { kind: 'published', value: row.version };
 }
 
-export interface ExerciseCard {
-	entryId: string;
-	slug: string;
-	versionId: string;
-	title: string;
-	bodyRegion: string;
-	position: string;
-	movementType: string;
-	phase: number;
-	equipment: string[];
-	posterCount: number;
-	durationSeconds: number | null;
-	/** A matched excerpt (MARK_OPEN/MARK_CLOSE of lib/library/search around the words) or the description's start. */
-	excerpt: string;
-}
+export type { ExerciseCard, FilterOption, FilterOptions } from './catalogue';
+export { forgetCatalogue } from './catalogue';
 
-interface CardRow {
-	entryId: string;
-	slug: string;
-	versionId: string;
-	title: string;
-	bodyRegion: string;
-	position: string;
-	movementType: string;
-	phase: number;
-	equipment: string;
-	posterCount: number;
-	durationSeconds: number | null;
-	excerpt: string;
-}
-
-const CARD_COLUMNS = `e.id AS entryId, e.slug AS slug, v.id AS versionId, v.title AS title, v.body_region AS bodyRegion,
-	v.position AS position, v.movement_type AS movementType, v.phase AS phase,
-	v.equipment AS equipment, v.poster_count AS posterCount,
-	v.clip_duration_seconds AS durationSeconds`;
-
-function toCard(row: CardRow): ExerciseCard {
-	return { ...row, equipment: JSON.parse(row.equipment) as string[] };
-}
-
-const DESCRIPTION_EXCERPT = `substr(json_extract(v.snapshot, '$.description'), 1, 180)`;
-
-function filterSql(query: LibraryQuery): { where: string[]; params: (string | number)[] } {
-	const where = [`e.status = 'published'`];
-	const params: (string | number)[] = [];
-	const f = query.filters;
-	if (f.region) {
-		where.push('v.body_region = ?');
-		params.push(f.region);
-	}
-	if (f.position) {
-		where.push('v.position = ?');
-		params.push(f.position);
-	}
-	if (f.movement) {
-		where.push('v.movement_type = ?');
-		params.push(f.movement);
-	}
-	if (f.phase !== null) {
-		where.push('v.phase = ?');
-		params.push(f.phase);
-	}
-	if (f.equipment) {
-		where.push('EXISTS (SELECT 1 FROM json_each(v.equipment) WHERE json_each.value = ?)');
-		params.push(f.equipment);
-	}
-	return { where, params };
-}
-
-// Prepared once per distinct statement text (a handful: one per combination of filters used).
+// Prepared once per statement text (a handful), for the connection they were made on.
 const statements = new Map<string, Statement<unknown[]>>();
 let preparedOn: unknown = null;
 function prepared(sql: string): Statement<unknown[]> {
@@ -145,7 +81,6 @@ function prepared(sql: string): Statement<unknown[]> {
 	let statement = statements.get(sql);
 	if (!statement) {
 		statement = db().$client.prepare<unknown[]>(sql);
-		if (statements.size > 200) statements.clear();
 		statements.set(sql, statement);
 	}
 	return statement;
@@ -160,34 +95,56 @@ export interface SearchResults {
 	anyWord: boolean;
 }
 
-const WEIGHTS = [
+const BM25 = `bm25(library_search, ${[
 	RANK_WEIGHTS.title,
 	RANK_WEIGHTS.description,
 	RANK_WEIGHTS.coachingCues,
 	RANK_WEIGHTS.captions,
 	0
-].join(', ');
+].join(', ')})`;
 
-function runTextSearch(
+interface Hit {
+	rowid: number;
+	score: number;
+}
+
+/** Excerpts with the matched words marked, for the few rows a page shows. */
+function excerpts(match: string, rowids: number[]): Map<number, string> {
+	if (rowids.length === 0) return new Map();
+	const rows = prepared(
+		`SELECT rowid, snippet(library_search, -1, char(2), char(3), '…', 16) AS excerpt
+		FROM library_search WHERE library_search MATCH ? AND rowid IN (SELECT value FROM json_each(?))`
+	).all(match, JSON.stringify(rowids)) as { rowid: number; excerpt: string }[];
+	return new Map(rows.map((r) => [r.rowid, r.excerpt]));
+}
+
+function textSearch(
 	match: string,
 	query: LibraryQuery,
 	limit: number
 ): { total: number; results: ExerciseCard[] } {
-	const { where, params } = filterSql(query);
-	const from = `FROM library_search s
-		JOIN library_exercise e ON e.id = s.library_exercise_id
-		JOIN library_version v ON v.id = e.current_version_id
-		WHERE library_search MATCH ? AND ${where.join(' AND ')}`;
-	const total = (prepared(`SELECT count(*) AS n ${from}`).get(match, ...params) as { n: number }).n;
-	if (total === 0) return { total, results: [] };
-	const rows = prepared(
-		`SELECT ${CARD_COLUMNS},
-			snippet(library_search, -1, char(2), char(3), '…', 16) AS excerpt
-		${from}
-		ORDER BY bm25(library_search, ${WEIGHTS}), v.title
-		LIMIT ? OFFSET ?`
-	).all(match, ...params, limit, (query.page - 1) * limit) as CardRow[];
-	return { total, results: rows.map(toCard) };
+	const { bySearchRow } = catalogue();
+	const offset = (query.page - 1) * limit;
+	// One pass over the matches reading only their rank (no stored text), ranked and filtered
+	// here on the cards; a row the catalogue does not know is not public and is left out.
+	const hits = (
+		prepared(`SELECT rowid, ${BM25} AS score FROM library_search WHERE library_search MATCH ?`).all(
+			match
+		) as Hit[]
+	).filter((h) => {
+		const card = bySearchRow.get(h.rowid);
+		return card !== undefined && matchesFilters(card, query.filters);
+	});
+	hits.sort((a, b) => a.score - b.score || a.rowid - b.rowid);
+	const page = hits.slice(offset, offset + limit);
+	const marked = excerpts(
+		match,
+		page.map((h) => h.rowid)
+	);
+	return {
+		total: hits.length,
+		results: page.map((h) => ({ ...bySearchRow.get(h.rowid)!, excerpt: marked.get(h.rowid) ?? '' }))
+	};
 }
 
 /**
@@ -199,85 +156,35 @@ export function searchLibrary(query: LibraryQuery, limit = PAGE_SIZE): SearchRes
 	const terms = searchTerms(query.q);
 	const match = matchExpression(terms);
 	if (match) {
-		const all = runTextSearch(match, query, limit);
+		const all = textSearch(match, query, limit);
 		if (all.total > 0 || query.page > 1) return { ...all, terms, anyWord: false };
 		const any = anyWordExpression(terms);
-		if (any) return { ...runTextSearch(any, query, limit), terms, anyWord: true };
+		if (any) return { ...textSearch(any, query, limit), terms, anyWord: true };
 		return { ...all, terms, anyWord: false };
 	}
-	const { where, params } = filterSql(query);
-	const from = `FROM library_exercise e
-		JOIN library_version v ON v.id = e.current_version_id
-		WHERE ${where.join(' AND ')}`;
-	const total = (prepared(`SELECT count(*) AS n ${from}`).get(...params) as { n: number }).n;
-	const rows = prepared(
-		`SELECT ${CARD_COLUMNS}, ${DESCRIPTION_EXCERPT} AS excerpt ${from}
-		ORDER BY v.title COLLATE NOCASE, e.slug LIMIT ? OFFSET ?`
-	).all(...params, limit, (query.page - 1) * limit) as CardRow[];
-	return { total, results: rows.map(toCard), terms: [], anyWord: false };
-}
-
-export interface FilterOption<T extends string | number = string> {
-	value: T;
-	count: number;
-}
-
-export interface FilterOptions {
-	regions: FilterOption[];
-	positions: FilterOption[];
-	movements: FilterOption[];
-	phases: FilterOption<number>[];
-	equipment: FilterOption[];
-}
-
-let optionsCache: { at: number; value: FilterOptions } | null = null;
-const OPTIONS_TTL_MS = 30_000;
-
-/** Forgets cached filter options; publishing calls it so a new exercise's values show at once. */
-export function forgetFilterOptions(): void {
-	optionsCache = null;
+	const listed = catalogue().byTitle.filter((card) => matchesFilters(card, query.filters));
+	const offset = (query.page - 1) * limit;
+	return {
+		total: listed.length,
+		results: listed.slice(offset, offset + limit),
+		terms: [],
+		anyWord: false
+	};
 }
 
 /** The values the published library actually has, for the filter menus, with their counts. */
 export function filterOptions(): FilterOptions {
-	if (optionsCache && Date.now() - optionsCache.at < OPTIONS_TTL_MS) return optionsCache.value;
-	const base = `FROM library_exercise e JOIN library_version v ON v.id = e.current_version_id
-		WHERE e.status = 'published'`;
-	const grouped = (column: string) =>
-		prepared(
-			`SELECT ${column} AS value, count(*) AS count ${base} GROUP BY ${column} ORDER BY ${column}`
-		).all() as FilterOption[];
-	const value: FilterOptions = {
-		regions: grouped('v.body_region'),
-		positions: grouped('v.position'),
-		movements: grouped('v.movement_type'),
-		phases: grouped('v.phase') as unknown as FilterOption<number>[],
-		equipment: prepared(
-			`SELECT j.value AS value, count(*) AS count ${base.replace('WHERE', ', json_each(v.equipment) j WHERE')}
-			GROUP BY j.value ORDER BY j.value COLLATE NOCASE`
-		).all() as FilterOption[]
-	};
-	optionsCache = { at: Date.now(), value };
-	return value;
+	return catalogue().options;
 }
 
 /** The most recently published exercises, for the front page. */
 export function recentExercises(limit = 6): ExerciseCard[] {
-	const rows = prepared(
-		`SELECT ${CARD_COLUMNS}, ${DESCRIPTION_EXCERPT} AS excerpt
-		FROM library_exercise e JOIN library_version v ON v.id = e.current_version_id
-		WHERE e.status = 'published' ORDER BY v.published_at DESC LIMIT ?`
-	).all(limit) as CardRow[];
-	return rows.map(toCard);
+	return catalogue().recent.slice(0, limit);
 }
 
 /** How many exercises the public can see. */
 export function publishedCount(): number {
-	return (
-		prepared(`SELECT count(*) AS n FROM library_exercise WHERE status = 'published'`).get() as {
-			n: number;
-		}
-	).n;
+	return catalogue().recent.length;
 }
 
 export interface CollectionCard {

@@ -22,7 +22,7 @@ import {
 import { sendMail } from '../mail';
 import { decisionMail } from './mail';
 import { copySegmentToLibrary, deleteVersionMedia } from './media';
-import { forgetFilterOptions } from './public';
+import { forgetCatalogue } from './catalogue';
 import { reindexEntry } from './search-index';
 import { LibraryError, submissionForReview } from './submissions';
 
@@ -272,7 +272,7 @@ function publishVersion(
 				.where(eq(librarySubmissions.id, submission.id))
 				.run();
 			reindexEntry(entry.id);
-			forgetFilterOptions();
+			forgetCatalogue();
 			return { version, entry };
 		},
 		{ behavior: 'immediate' }
@@ -363,7 +363,7 @@ function setEntryStatus(
 				.get();
 			alsoInTransaction?.();
 			reindexEntry(id);
-			forgetFilterOptions();
+			forgetCatalogue();
 			return updated;
 		},
 		{ behavior: 'immediate' }

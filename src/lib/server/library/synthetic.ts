@@ -6,7 +6,7 @@
 import type { ExerciseSnapshot } from '$lib/library/types';
 import { db } from '../db';
 import { libraryExercises, libraryVersions } from '../db/schema';
-import { forgetFilterOptions } from './public';
+import { forgetCatalogue } from './catalogue';
 import { rebuildSearchIndex, reindexEntry } from './search-index';
 
 /** Inserts one public exercise (published unless told) with a single version; returns its ids. */
@@ -27,7 +27,7 @@ export function insertPublishedEntry(
 			.run();
 		reindexEntry(entryId);
 	});
-	forgetFilterOptions();
+	forgetCatalogue();
 	return { entryId, versionId };
 }
 
@@ -185,6 +185,6 @@ export function insertSyntheticLibrary(clinicId: string, count: number, seed = 2
 		}
 	});
 	rebuildSearchIndex();
-	forgetFilterOptions();
+	forgetCatalogue();
 	return slugs;
 }
