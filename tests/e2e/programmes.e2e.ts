@@ -399,3 +399,33 @@ test('the programme endpoint and the notes preview check the role and the clinic
 	await clinician.dispose();
 	await patient.dispose();
 });
+
+test('the builder works without scripts: add, reorder and a refused save that keeps the edits', async ({
+	browser
+}) => {
+	const context = await browser.newContext({ baseURL: E2E.origin, javaScriptEnabled: false });
+	const page = await context.newPage();
+	await signInWithPassword(page, ACCOUNTS.clinician);
+	const percy = find("select id from patient where email = 'percy.oakes@alder-street.example'");
+	await page.goto(`/programmes/new?patient=${percy}`);
+	await page.getByLabel('Title').fill('Without scripts');
+	await page.getByRole('button', { name: 'Start building' }).click();
+	await expect(page.getByRole('heading', { level: 1 })).toHaveText('Without scripts');
+
+	await page.getByRole('button', { name: `Add ${SEEDED_EXERCISE}` }).click();
+	await page.getByRole('button', { name: `Add ${NEW_EXERCISE}` }).click();
+	const items = page.locator('ol > li h3');
+	await expect(items).toHaveText([`1. ${SEEDED_EXERCISE}`, `2. ${NEW_EXERCISE}`]);
+	await page.getByRole('button', { name: `Move ${NEW_EXERCISE} up` }).click();
+	await expect(items).toHaveText([`1. ${NEW_EXERCISE}`, `2. ${SEEDED_EXERCISE}`]);
+
+	const row = page.locator('ol > li').filter({ hasText: SEEDED_EXERCISE });
+	await row.getByLabel('Reps', { exact: true }).fill('lots');
+	await page.getByRole('button', { name: 'Save draft' }).click();
+	await expect(page.getByText('Reps must be a whole number from 1 to 100.')).toBeVisible();
+	await expect(
+		page.locator('ol > li').filter({ hasText: SEEDED_EXERCISE }).getByLabel('Reps', { exact: true })
+	).toHaveValue('lots');
+	await expect(items).toHaveText([`1. ${NEW_EXERCISE}`, `2. ${SEEDED_EXERCISE}`]);
+	await context.close();
+});
