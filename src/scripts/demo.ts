@@ -112,6 +112,13 @@ confirmDemoSegments('clinician@alder-street.example', (line) => console.log(line
 			console.log(line)
 		);
 		console.log(`Demo exercises ready: ${made.exercises}.`);
+		// Weeks of session logs and range-of-motion readings, then this week's digest e-mails.
+		const { seedDemoFollowup } = await import('../lib/server/demo/followup');
+		await seedDemoFollowup('clinician@alder-street.example', (line) => console.log(line));
+		const { sendWeeklyDigests } = await import('../lib/server/followup/digest');
+		const digest = await sendWeeklyDigests({ log: (line) => console.log(line) });
+		if (digest.sent.length > 0)
+			console.log(`Weekly digest sent to ${digest.sent.join(', ')} (see the inbox).`);
 		// The public library: a few of those exercises reviewed and published, one still waiting.
 		const { seedDemoLibrary } = await import('../lib/server/demo/library');
 		const library = await seedDemoLibrary(

@@ -15,7 +15,9 @@ console.log(
 	`  sent to ${run.sent.length} clinician(s)${run.sent.length ? `: ${run.sent.join(', ')}` : ''}`
 );
 console.log(`  already sent this week: ${run.alreadySent}`);
-console.log(`  clinicians without patients (nothing to send): ${run.withoutPatients}`);
+console.log(
+	`  clinicians with nothing to report yet (no published programme, no log): ${run.nothingToReport}`
+);
 if (run.failed.length > 0) {
 	for (const f of run.failed) console.error(`  FAILED ${f.email}: ${f.reason}`);
 	process.exit(1);

@@ -317,7 +317,19 @@ describe('range-of-motion readings', () => {
 
 describe('the weekly digest', () => {
 	it('sends each clinician with patients one e-mail a week, read back from the mail fake', async () => {
+		// A clinician whose only patient has no programme yet has nothing to report.
+		const quiet = makeClinician(clinicA.id, 'Eve Quiet');
+		makePatient(quiet, 'Una Waiting');
 		const first = await sendWeeklyDigests({ now: NOW, schedule: SCHEDULE });
+		expect(first.sent).not.toContain(quiet.email);
+		expect(first.nothingToReport).toBeGreaterThanOrEqual(1);
+		expect(
+			db()
+				.select()
+				.from(schema.weeklyDigests)
+				.where(eq(schema.weeklyDigests.userId, quiet.id))
+				.all()
+		).toEqual([]);
 		expect(first.weekStart).toBe('2026-11-30');
 		expect(first.failed).toEqual([]);
 		expect(first.sent).toEqual(

@@ -16,8 +16,8 @@ export interface DigestRun {
 	sent: string[];
 	/** Clinicians whose digest for this week had already gone (or is going from another worker). */
 	alreadySent: number;
-	/** Clinicians with no patients: nothing to report, nothing sent. */
-	withoutPatients: number;
+	/** Clinicians none of whose patients has a published programme or a log: nothing sent. */
+	nothingToReport: number;
 	failed: { email: string; reason: string }[];
 }
 
@@ -51,13 +51,14 @@ function clinicians() {
 export function digestPatients(
 	clinician: { id: string; clinicId: string },
 	now: Date
-): DigestPatient[] {
+): (DigestPatient & { reportable: boolean })[] {
 	const origin = config().ORIGIN;
 	const patients = clinicPatients(clinician.clinicId, clinician.id);
 	const records = loadRecords(clinician.clinicId, patients);
 	const lines = patients.map((patient) => {
 		const f = patientFigures(figureInput(records.get(patient.id)!), now);
 		return {
+			reportable: f.prescribed || f.lastSession !== null,
 			name: patient.fullName,
 			url: new URL(`/patients/${patient.id}`, origin).toString(),
 			flags: f.flags.map((flag) => ({ label: flag.label, detail: flag.detail })),
@@ -82,12 +83,13 @@ export async function sendWeeklyDigests(
 	const now = options.now ?? new Date();
 	const schedule = options.schedule ?? digestSchedule();
 	const { weekStart } = digestWeek(now, schedule);
-	const run: DigestRun = { weekStart, sent: [], alreadySent: 0, withoutPatients: 0, failed: [] };
+	const run: DigestRun = { weekStart, sent: [], alreadySent: 0, nothingToReport: 0, failed: [] };
 	const origin = config().ORIGIN;
 	for (const clinician of clinicians()) {
 		const patients = digestPatients(clinician, now);
-		if (patients.length === 0) {
-			run.withoutPatients += 1;
+		// Not claimed, so the week's digest still goes once there is something to say.
+		if (!patients.some((p) => p.reportable)) {
+			run.nothingToReport += 1;
 			continue;
 		}
 		const claim = db()
