@@ -422,7 +422,9 @@ test('the builder works without scripts: add, reorder and a refused save that ke
 	const row = page.locator('ol > li').filter({ hasText: SEEDED_EXERCISE });
 	await row.getByLabel('Reps', { exact: true }).fill('lots');
 	await page.getByRole('button', { name: 'Save draft' }).click();
-	await expect(page.getByText('Reps must be a whole number from 1 to 100.')).toBeVisible();
+	await expect(
+		page.getByText(`Exercise 2 (${SEEDED_EXERCISE}): Reps must be a whole number from 1 to 100.`)
+	).toBeVisible();
 	await expect(
 		page.locator('ol > li').filter({ hasText: SEEDED_EXERCISE }).getByLabel('Reps', { exact: true })
 	).toHaveValue('lots');
