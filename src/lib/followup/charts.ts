@@ -17,6 +17,8 @@ export interface Series {
 
 export interface ChartData {
 	labels: string[];
+	/** The labels' dates, for a time axis spaced by days. */
+	dates?: string[];
 	series: Series[];
 }
 
@@ -63,7 +65,11 @@ export function painChart(
 			}
 		);
 	}
-	return { labels: days.map((d) => formatShortDate(d.date)), series };
+	return {
+		labels: days.map((d) => formatShortDate(d.date)),
+		dates: days.map((d) => d.date),
+		series
+	};
 }
 
 const SIDE_STYLE: Record<string, Pick<Series, 'tone' | 'point'>> = {
@@ -108,7 +114,7 @@ export function romCharts(
 		return {
 			motion,
 			motionLabel: mine[0].motionLabel,
-			chart: { labels: dates.map(formatShortDate), series },
+			chart: { labels: dates.map(formatShortDate), dates, series },
 			rows: mine
 		};
 	});

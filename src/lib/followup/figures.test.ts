@@ -82,7 +82,7 @@ describe('a patient’s follow-up figures', () => {
 		const early = datesFrom('2026-11-02', '2026-11-20').map((d) => log(d, 2));
 		expect(patientFigures(input(early), now).flags.map((x) => x.kind)).toEqual(['no-sessions']);
 		expect(patientFigures(input(early), now).flags[0].detail).toBe(
-			'No sessions logged over 23–29 Nov 2026, when 7 were prescribed.'
+			'None of the 7 sessions prescribed over 23–29 Nov 2026 was logged.'
 		);
 		const yesterday = [...early, log('2026-11-29', 2)];
 		expect(patientFigures(input(yesterday), now).flags).toEqual([]);

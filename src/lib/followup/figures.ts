@@ -197,7 +197,7 @@ export function patientFigures(
 			flags.push({
 				kind: 'no-sessions',
 				label: FLAG_LABELS['no-sessions'],
-				detail: `No sessions logged over ${formatDateRange(fullDays.from, fullDays.to)}, when ${fullDays.prescribed} were prescribed.`
+				detail: `None of the ${fullDays.prescribed} sessions prescribed over ${formatDateRange(fullDays.from, fullDays.to)} was logged.`
 			});
 		}
 	}

@@ -9,6 +9,7 @@ import {
 	formatDateRange,
 	formatDegrees,
 	painBasis,
+	painNotComparedBasis,
 	painSentence,
 	weekAfterSentence
 } from './words';
@@ -75,6 +76,13 @@ describe('figures with their basis', () => {
 		);
 		const few = painTrend([{ date: '2026-11-02', score: 3 }], '2026-11-30');
 		expect(painSentence(few)).toMatch(/^Not compared/);
+		expect(painNotComparedBasis(few)).toBe('fewer than 3 scores in the first week');
+		expect(painNotComparedBasis(painTrend(first, '2026-11-05'))).toBe(
+			'the first week of scores is not over'
+		);
+		expect(painNotComparedBasis(painTrend(first, '2026-11-30'))).toBe(
+			'fewer than 3 scores in the last 7 days'
+		);
 	});
 
 	it('gives time since an operation in completed weeks and days', () => {

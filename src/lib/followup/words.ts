@@ -65,6 +65,17 @@ export function adherenceBasis(window: AdherenceWindow): string {
 	return `${window.counted} of ${window.prescribed} ${window.prescribed === 1 ? 'session' : 'sessions'}, ${range}${extra}`;
 }
 
+/** Why a pain trend is not compared yet, in a few words for a table cell. */
+export function painNotComparedBasis(
+	trend: Pick<PainTrend, 'baseline' | 'recent' | 'baselineWindow' | 'recentWindow'>
+): string {
+	if (trend.baseline === null) return 'fewer than 3 scores in the first week';
+	if (trend.baselineWindow && trend.recentWindow.from <= trend.baselineWindow.to) {
+		return 'the first week of scores is not over';
+	}
+	return 'fewer than 3 scores in the last 7 days';
+}
+
 /** What a table cell says under the pain trend: "last 7 days 6.0 vs first week 2.5". */
 export function painBasis(trend: Pick<PainTrend, 'baseline' | 'recent'>): string | null {
 	if (trend.baseline === null || trend.recent === null) return null;

@@ -6,6 +6,7 @@ import {
 	localDateOf,
 	startOfLocalDay
 } from '$lib/clinical/calendar';
+import { sessionsPrescribedOn } from '$lib/clinical/adherence';
 import { hashPassword } from '../auth/passwords';
 import { loadPrincipal, type Principal } from '../auth/principal';
 import { db, schema } from '../db';
@@ -184,7 +185,16 @@ function logSessions(patient: Patient, today: string, now: Date, plan: LogPlan, 
 			const last = programme.endDate && programme.endDate < today ? programme.endDate : today;
 			for (const date of datesFrom(programme.startDate, last)) {
 				const dayStart = startOfLocalDay(date, patient.timeZone);
-				for (let s = 0; s < item.sessionsPerDay; s++) {
+				const due = sessionsPrescribedOn(
+					{
+						startDate: programme.startDate,
+						endDate: programme.endDate,
+						sessionsPerDay: item.sessionsPerDay,
+						daysPerWeek: item.daysPerWeek
+					},
+					date
+				);
+				for (let s = 0; s < due; s++) {
 					const doneAt = new Date(dayStart + (SESSION_HOURS[s] ?? 20) * 3_600_000 + s * 60_000);
 					if (doneAt > now || random() > plan.doneChance(date)) continue;
 					const noise = random() < 0.25 ? (random() < 0.5 ? -1 : 1) : 0;

@@ -5,6 +5,7 @@ import {
 	type Flag,
 	type FlagKind
 } from '$lib/followup/figures';
+import { painNotComparedBasis } from '$lib/followup/words';
 import type { Patient } from '../db/schema/patients';
 import { clinicPatients, figureInput, loadRecords } from './records';
 
@@ -49,6 +50,8 @@ export interface CaseloadRow {
 		change: number | null;
 		flagged: boolean;
 		text: string;
+		/** Why it is not compared yet, in a few words; null once it is. */
+		notCompared: string | null;
 	} | null;
 	operationDate: string | null;
 	sinceOperation: { days: number; weeks: number; text: string } | null;
@@ -143,7 +146,8 @@ export function listCaseload(
 						recent: f.pain.recent,
 						change: f.pain.change,
 						flagged: f.pain.flagged,
-						text: f.pain.text
+						text: f.pain.text,
+						notCompared: f.pain.change === null ? painNotComparedBasis(f.pain) : null
 					}
 				: null,
 			operationDate: patient.operationDate,

@@ -63,7 +63,8 @@ export function digestPatients(
 			url: new URL(`/patients/${patient.id}`, origin).toString(),
 			flags: f.flags.map((flag) => ({ label: flag.label, detail: flag.detail })),
 			adherence: f.adherence7 ? f.adherence7.text : 'no published programme',
-			pain: f.pain ? f.pain.text : null,
+			// A pain flag already says it all; otherwise the trend in a sentence.
+			pain: f.pain && !f.pain.flagged ? f.pain.text : null,
 			lastSession: f.lastSession
 				? `${daysAgo(f.lastSession.localDate, f.today).toLowerCase()} (${formatDate(f.lastSession.localDate)}), pain ${f.lastSession.pain}/10`
 				: 'none logged'
