@@ -17,7 +17,7 @@ import {
 	waitForMail
 } from './support';
 import { seedReadySegment } from './segments-support';
-import { seedCollection, seedExercise } from './library-support';
+import { seedCollection, seedExercise, seedPublicExercise } from './library-support';
 import { E2E } from './ports';
 
 const run = promisify(execFile);
@@ -324,4 +324,66 @@ test('an educator unpublishes and retires: the page answers 404, then 410, and s
 	await visitor.goto(`/library/exercises/${row.slug}`);
 	await expect(visitor.getByRole('heading', { name: 'This is no longer available' })).toBeVisible();
 	await expectNoAxeViolations(visitor);
+});
+
+test('an educator builds a collection in order, with a cover, and publishes it', async ({
+	browser
+}) => {
+	test.setTimeout(60_000);
+	const db = database();
+	const { clinicId } = db
+		.prepare("select id as clinicId from clinic where name = 'Alder Street Community Clinic'")
+		.get() as { clinicId: string };
+	db.close();
+	await seedPublicExercise(clinicId, {
+		title: 'Collection ankle circles',
+		slug: 'collection-ankle-circles'
+	});
+	await seedPublicExercise(clinicId, { title: 'Collection bridging', slug: 'collection-bridging' });
+
+	const educator = await asNewPerson(browser, ACCOUNTS.educator);
+	await educator.goto('/curate/collections');
+	await educator.getByLabel('Title').fill('Morning routine');
+	await educator.getByRole('button', { name: 'Create the collection' }).click();
+	await expect(educator.getByRole('heading', { name: 'Morning routine', level: 1 })).toBeVisible();
+	await expect(educator.getByText('Draft', { exact: true })).toBeVisible();
+	await educator
+		.getByLabel('Introduction (Markdown: **bold**, lists, links)')
+		.fill('Do these **slowly**.');
+	await educator.getByRole('button', { name: 'Save' }).click();
+	await expect(educator.getByText('Saved.')).toBeVisible();
+
+	for (const title of ['Collection ankle circles', 'Collection bridging']) {
+		await educator.getByLabel('Add a published exercise').selectOption({ label: title });
+		await educator.getByRole('button', { name: 'Add', exact: true }).click();
+		await expect(educator.getByText('Added.')).toBeVisible();
+	}
+	const items = educator.getByRole('region', { name: /Exercises, in order/ }).getByRole('listitem');
+	await expect(items).toHaveText([/1\. Collection ankle circles/, /2\. Collection bridging/]);
+	await educator.getByRole('button', { name: 'Move Collection bridging up' }).click();
+	await expect(items).toHaveText([/1\. Collection bridging/, /2\. Collection ankle circles/]);
+
+	await educator.getByRole('radio', { name: 'Collection ankle circles, still 1' }).check();
+	await educator.getByRole('button', { name: 'Use this cover' }).click();
+	await expect(educator.getByText('Cover chosen.')).toBeVisible();
+	await educator.getByRole('button', { name: 'Publish the collection' }).click();
+	await expect(educator.getByText('Published: anyone can see it now.')).toBeVisible();
+	await expectNoAxeViolations(educator);
+
+	const visitor = await asNewPerson(browser, null);
+	await visitor.goto('/library/collections/morning-routine');
+	await expect(visitor.getByRole('heading', { name: 'Morning routine', level: 1 })).toBeVisible();
+	await expect(visitor.locator('strong', { hasText: 'slowly' })).toBeVisible();
+	await expect(
+		visitor.getByRole('region', { name: /exercises, in order/ }).getByRole('listitem')
+	).toHaveText([/1\.\s*Collection bridging/, /2\.\s*Collection ankle circles/]);
+	await expect(visitor.locator('meta[property="og:image"]')).toHaveAttribute(
+		'content',
+		/poster-0\.jpg$/
+	);
+	await expectNoAxeViolations(visitor);
+
+	await educator.getByRole('button', { name: 'Unpublish the collection' }).click();
+	await expect(educator.getByText('Unpublished: its page answers “not found”.')).toBeVisible();
+	expect((await visitor.request.get('/library/collections/morning-routine')).status()).toBe(404);
 });
