@@ -7,6 +7,7 @@ import type { Statement } from 'better-sqlite3';
 import { and, asc, desc, eq, inArray } from 'drizzle-orm';
 import {
 	anyWordExpression,
+	hasFilters,
 	matchesFilters,
 	matchExpression,
 	PAGE_SIZE,
@@ -69,18 +70,32 @@ export function findPublicVersion(versionId: string): PublicLookup<LibraryVersio
 export type { ExerciseCard, FilterOption, FilterOptions } from './catalogue';
 export { forgetCatalogue } from './catalogue';
 
+// The filters of the search being run, read by the SQL function `library_listed(rowid)`: the
+// database then ranks only the exercises the filters keep, and sends back only one page.
+// better-sqlite3 runs a statement to its end before anything else runs, so this cannot leak
+// from one search into another.
+let listing: { bySearchRow: Map<number, ExerciseCard>; filters: LibraryQuery['filters'] } | null =
+	null;
+
+function listed(rowid: unknown): number {
+	const card = listing?.bySearchRow.get(Number(rowid));
+	return card && listing && matchesFilters(card, listing.filters) ? 1 : 0;
+}
+
 // Prepared once per statement text (a handful), for the connection they were made on.
 const statements = new Map<string, Statement<unknown[]>>();
 let preparedOn: unknown = null;
 function prepared(sql: string): Statement<unknown[]> {
-	// A reopened database (scripts, tests) needs statements of its own.
-	if (preparedOn !== db().$client) {
+	const client = db().$client;
+	// A reopened database (scripts, tests) needs statements and the function of its own.
+	if (preparedOn !== client) {
 		statements.clear();
-		preparedOn = db().$client;
+		client.function('library_listed', { deterministic: false }, listed);
+		preparedOn = client;
 	}
 	let statement = statements.get(sql);
 	if (!statement) {
-		statement = db().$client.prepare<unknown[]>(sql);
+		statement = client.prepare<unknown[]>(sql);
 		statements.set(sql, statement);
 	}
 	return statement;
@@ -103,48 +118,46 @@ const BM25 = `bm25(library_search, ${[
 	0
 ].join(', ')})`;
 
-interface Hit {
-	rowid: number;
-	score: number;
-}
-
-/** Excerpts with the matched words marked, for the few rows a page shows. */
-function excerpts(match: string, rowids: number[]): Map<number, string> {
-	if (rowids.length === 0) return new Map();
-	const rows = prepared(
-		`SELECT rowid, snippet(library_search, -1, char(2), char(3), '…', 16) AS excerpt
-		FROM library_search WHERE library_search MATCH ? AND rowid IN (SELECT value FROM json_each(?))`
-	).all(match, JSON.stringify(rowids)) as { rowid: number; excerpt: string }[];
-	return new Map(rows.map((r) => [r.rowid, r.excerpt]));
-}
-
 function textSearch(
 	match: string,
 	query: LibraryQuery,
 	limit: number
 ): { total: number; results: ExerciseCard[] } {
 	const { bySearchRow } = catalogue();
-	const offset = (query.page - 1) * limit;
-	// One pass over the matches reading only their rank (no stored text), ranked and filtered
-	// here on the cards; a row the catalogue does not know is not public and is left out.
-	const hits = (
-		prepared(`SELECT rowid, ${BM25} AS score FROM library_search WHERE library_search MATCH ?`).all(
-			match
-		) as Hit[]
-	).filter((h) => {
-		const card = bySearchRow.get(h.rowid);
-		return card !== undefined && matchesFilters(card, query.filters);
-	});
-	hits.sort((a, b) => a.score - b.score || a.rowid - b.rowid);
-	const page = hits.slice(offset, offset + limit);
-	const marked = excerpts(
-		match,
-		page.map((h) => h.rowid)
-	);
-	return {
-		total: hits.length,
-		results: page.map((h) => ({ ...bySearchRow.get(h.rowid)!, excerpt: marked.get(h.rowid) ?? '' }))
-	};
+	const filtered = hasFilters(query.filters);
+	// The index holds published exercises only; with filters, the cards decide which count.
+	const where = `library_search MATCH ?${filtered ? ' AND library_listed(rowid)' : ''}`;
+	listing = filtered ? { bySearchRow, filters: query.filters } : null;
+	try {
+		const total = (
+			prepared(`SELECT count(*) AS n FROM library_search WHERE ${where}`).get(match) as {
+				n: number;
+			}
+		).n;
+		if (total === 0) return { total, results: [] };
+		const page = prepared(
+			`SELECT rowid FROM library_search WHERE ${where} ORDER BY ${BM25}, rowid LIMIT ? OFFSET ?`
+		).all(match, limit, (query.page - 1) * limit) as { rowid: number }[];
+		// Excerpts for the page's rows only: in the ranked query they would be made for every
+		// match. (A list of rowids, not `rowid = ?`: with MATCH, FTS5 reads that as every row.)
+		const rowids = page.map((r) => r.rowid);
+		const marked = new Map(
+			(
+				prepared(
+					`SELECT rowid, snippet(library_search, -1, char(2), char(3), '…', 16) AS text
+					FROM library_search WHERE library_search MATCH ?
+					AND rowid IN (${rowids.map(() => '?').join(', ')})`
+				).all(match, ...rowids) as { rowid: number; text: string }[]
+			).map((r) => [r.rowid, r.text])
+		);
+		const results = page.flatMap(({ rowid }) => {
+			const card = bySearchRow.get(rowid);
+			return card ? [{ ...card, excerpt: marked.get(rowid) ?? card.excerpt }] : [];
+		});
+		return { total, results };
+	} finally {
+		listing = null;
+	}
 }
 
 /**
