@@ -26,7 +26,7 @@ test.beforeAll(() => {
 	risingId = seedCaseloadPatient(ACCOUNTS.clinician, { name: 'Mabel Thorne' });
 	const rising = seedProgramme(
 		risingId,
-		[{ title: 'Heel slides', sessionsPerDay: 1, daysPerWeek: 7 }],
+		[{ title: 'Knee bends (follow-up e2e)', sessionsPerDay: 1, daysPerWeek: 7 }],
 		{
 			startDate: start,
 			title: 'Knee home programme'
@@ -41,7 +41,7 @@ test.beforeAll(() => {
 	steadyId = seedCaseloadPatient(ACCOUNTS.clinician, { name: 'Norman Pike' });
 	const steady = seedProgramme(
 		steadyId,
-		[{ title: 'Quad sets', sessionsPerDay: 1, daysPerWeek: 7 }],
+		[{ title: 'Thigh tightening (follow-up e2e)', sessionsPerDay: 1, daysPerWeek: 7 }],
 		{
 			startDate: start
 		}

@@ -49,6 +49,7 @@ const CUES = [
 
 let dir: string;
 let firstCaption: string;
+let exerciseId: string;
 
 /** The demo clip "first week at home", drawn once into tests/.run, and its Heel slides part cut out. */
 async function demoHeelSlides() {
@@ -107,9 +108,10 @@ async function putPoster(segmentId: string, jpeg: Uint8Array) {
 	s3.destroy();
 }
 
-/** The demo clinic's Heel slides exercise on its segment, as the demo seeds it. */
-function seedDemoExercise(segmentId: string) {
+/** The demo clinic's Heel slides exercise on its segment, as the demo seeds it; answers its id. */
+function seedDemoExercise(segmentId: string): string {
 	const db = database();
+	const id = crypto.randomUUID();
 	try {
 		const { clinicId } = db
 			.prepare('select clinic_id as clinicId from segment where id = ?')
@@ -121,7 +123,7 @@ function seedDemoExercise(segmentId: string) {
 			 sessions_per_day, days_per_week, progression, status, created_at, updated_at)
 			 values (?, ?, ?, ?, ?, 'Knee', 'either', 'supine', 'active-assisted', 2, ?, ?, 1, 8, 1, 30, 3, 7, ?, 'ready', ?, ?)`
 		).run(
-			crypto.randomUUID(),
+			id,
 			clinicId,
 			segmentId,
 			EXERCISE,
@@ -135,6 +137,7 @@ function seedDemoExercise(segmentId: string) {
 	} finally {
 		db.close();
 	}
+	return id;
 }
 
 test.beforeAll(async () => {
@@ -155,7 +158,7 @@ test.beforeAll(async () => {
 		clip: media.clip
 	});
 	await putPoster(segmentId, media.poster);
-	seedDemoExercise(segmentId);
+	exerciseId = seedDemoExercise(segmentId);
 });
 
 test.afterAll(async () => {
@@ -211,7 +214,10 @@ test('clinician builds a programme, the patient replays, restyles captions and l
 	await activate(clinician.getByRole('button', { name: 'Start building' }));
 	await expect(clinician).toHaveURL(/\/programmes\/[0-9a-f-]{36}$/);
 	await clinician.getByLabel('Search').fill(EXERCISE);
-	await activate(clinician.getByRole('button', { name: `Add ${EXERCISE}` }));
+	// Other tests' exercises share the name: this one is the demo's, on the demo clip.
+	const add = clinician.locator(`button[value="add:${exerciseId}"]`);
+	await expect(add).toHaveAccessibleName(`Add ${EXERCISE}`);
+	await activate(add);
 	await expect(clinician.locator('ol > li h3')).toHaveText([`1. ${EXERCISE}`]);
 	await expect(clinician.getByText(/All changes saved at/)).toBeVisible({ timeout: 10_000 });
 	const publishedSince = Date.now();
