@@ -3,6 +3,7 @@
  * for shared links and Open Graph tags, and the card shape the pages send to the browser.
  */
 import { config } from '../config';
+import { renderSafetyNotes } from '../markdown';
 import type { ExerciseCard } from './public';
 
 /**
@@ -35,4 +36,22 @@ export function cardData(card: ExerciseCard) {
 		durationSeconds: card.durationSeconds,
 		excerpt: card.excerpt
 	};
+}
+
+// A published version never changes, so its safety notes are rendered once, not per visit.
+const SAFETY_HTML_MAX = 1000;
+const safetyHtml = new Map<string, string>();
+
+/** A published version's safety notes as sanitised HTML (renderSafetyNotes), kept by version id. */
+export function versionSafetyHtml(version: {
+	id: string;
+	snapshot: { safetyNotes: string };
+}): string {
+	let html = safetyHtml.get(version.id);
+	if (html === undefined) {
+		html = renderSafetyNotes(version.snapshot.safetyNotes);
+		if (safetyHtml.size >= SAFETY_HTML_MAX) safetyHtml.delete(safetyHtml.keys().next().value!);
+		safetyHtml.set(version.id, html);
+	}
+	return html;
 }

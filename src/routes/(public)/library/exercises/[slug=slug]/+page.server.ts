@@ -3,9 +3,8 @@ import { plainText } from '$lib/captions/text';
 import { describeDosage } from '$lib/dosage';
 import { LICENCE_LABELS, LICENCE_LINKS } from '$lib/library/types';
 import { versionUrls } from '$lib/server/library/media';
-import { absolute, cachePublicPage } from '$lib/server/library/pages';
+import { absolute, cachePublicPage, versionSafetyHtml } from '$lib/server/library/pages';
 import { collectionsWith, findPublicExercise } from '$lib/server/library/public';
-import { renderSafetyNotes } from '$lib/server/markdown';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = ({ params, locals, setHeaders }) => {
@@ -32,7 +31,7 @@ export const load: PageServerLoad = ({ params, locals, setHeaders }) => {
 			equipment: s.equipment,
 			coachingCues: s.coachingCues,
 			dosage: describeDosage(s.dosage),
-			safetyHtml: renderSafetyNotes(s.safetyNotes),
+			safetyHtml: versionSafetyHtml(version),
 			licence: LICENCE_LABELS[version.licence],
 			licenceUrl: LICENCE_LINKS[version.licence] ?? null,
 			attribution: version.attribution,
