@@ -1,5 +1,5 @@
 import { expect, test, type Locator, type Page } from '@playwright/test';
-import { PutObjectCommand, S3Client } from '@aws-sdk/client-s3';
+import { PutObjectCommand } from '@aws-sdk/client-s3';
 import { execFile } from 'node:child_process';
 import { mkdtemp, readFile, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
@@ -16,7 +16,8 @@ import {
 	expectNoAxeViolations,
 	firstLink,
 	seedReadyRecording,
-	waitForMail
+	waitForMail,
+	storageClient
 } from './support';
 
 /*
@@ -89,14 +90,7 @@ async function putPoster(segmentId: string, jpeg: Uint8Array) {
 		.prepare('select clinic_id as clinicId, recording_id as recordingId from segment where id = ?')
 		.get(segmentId) as { clinicId: string; recordingId: string };
 	db.close();
-	const s3 = new S3Client({
-		region: 'us-east-1',
-		endpoint: `http://127.0.0.1:${E2E.storagePort}`,
-		forcePathStyle: true,
-		credentials: { accessKeyId: 'S3RVER', secretAccessKey: 'S3RVER' },
-		requestChecksumCalculation: 'WHEN_REQUIRED',
-		responseChecksumValidation: 'WHEN_REQUIRED'
-	});
+	const s3 = storageClient();
 	await s3.send(
 		new PutObjectCommand({
 			Bucket: 'kinelume',

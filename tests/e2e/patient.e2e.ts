@@ -1,5 +1,5 @@
 import { expect, request, test, type Page } from '@playwright/test';
-import { PutObjectCommand, S3Client } from '@aws-sdk/client-s3';
+import { PutObjectCommand } from '@aws-sdk/client-s3';
 import { execFile } from 'node:child_process';
 import { mkdirSync } from 'node:fs';
 import { mkdtemp, readFile, rm } from 'node:fs/promises';
@@ -14,7 +14,8 @@ import {
 	seedReadyRecording,
 	signedInRequest,
 	signInWithPassword,
-	visit
+	visit,
+	storageClient
 } from './support';
 import { seedReadySegment } from './segments-support';
 import { seedProgramme, seedSignInPatient, sessionLogsOf } from './programme-fixtures';
@@ -68,14 +69,7 @@ async function putPoster(recordingId: string, id: string, jpeg: Uint8Array) {
 		.prepare('select clinic_id as clinicId from recording where id = ?')
 		.get(recordingId) as { clinicId: string };
 	db.close();
-	const s3 = new S3Client({
-		region: 'us-east-1',
-		endpoint: `http://127.0.0.1:${E2E.storagePort}`,
-		forcePathStyle: true,
-		credentials: { accessKeyId: 'S3RVER', secretAccessKey: 'S3RVER' },
-		requestChecksumCalculation: 'WHEN_REQUIRED',
-		responseChecksumValidation: 'WHEN_REQUIRED'
-	});
+	const s3 = storageClient();
 	await s3.send(
 		new PutObjectCommand({
 			Bucket: 'kinelume',

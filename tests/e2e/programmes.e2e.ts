@@ -5,7 +5,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { promisify } from 'node:util';
 import ffmpegInstaller from '@ffmpeg-installer/ffmpeg';
-import { PutObjectCommand, S3Client } from '@aws-sdk/client-s3';
+import { PutObjectCommand } from '@aws-sdk/client-s3';
 import { addDays, localDateOf } from '../../src/lib/clinical/calendar';
 import {
 	ACCOUNTS,
@@ -15,7 +15,8 @@ import {
 	firstLink,
 	seedReadyRecording,
 	signInWithPassword,
-	waitForMail
+	waitForMail,
+	storageClient
 } from './support';
 import { seedReadySegment } from './segments-support';
 import { E2E } from './ports';
@@ -59,14 +60,7 @@ async function putPoster(segment: string, bytes: Uint8Array) {
 		.prepare('select clinic_id as clinicId, recording_id as recordingId from segment where id = ?')
 		.get(segment) as { clinicId: string; recordingId: string };
 	db.close();
-	const s3 = new S3Client({
-		region: 'us-east-1',
-		endpoint: `http://127.0.0.1:${E2E.storagePort}`,
-		forcePathStyle: true,
-		credentials: { accessKeyId: 'S3RVER', secretAccessKey: 'S3RVER' },
-		requestChecksumCalculation: 'WHEN_REQUIRED',
-		responseChecksumValidation: 'WHEN_REQUIRED'
-	});
+	const s3 = storageClient();
 	await s3.send(
 		new PutObjectCommand({
 			Bucket: 'kinelume',

@@ -1,24 +1,12 @@
-import { PutObjectCommand, S3Client } from '@aws-sdk/client-s3';
+import { PutObjectCommand } from '@aws-sdk/client-s3';
 import { hash } from '@node-rs/argon2';
-import { E2E } from './ports';
-import { database, DEMO_PASSWORD } from './support';
+import { database, DEMO_PASSWORD, storageClient } from './support';
 
 interface SeedCue {
 	id: string;
 	start: number;
 	end: number;
 	text: string;
-}
-
-function storageClient(): S3Client {
-	return new S3Client({
-		region: 'us-east-1',
-		endpoint: `http://127.0.0.1:${E2E.storagePort}`,
-		forcePathStyle: true,
-		credentials: { accessKeyId: 'S3RVER', secretAccessKey: 'S3RVER' },
-		requestChecksumCalculation: 'WHEN_REQUIRED',
-		responseChecksumValidation: 'WHEN_REQUIRED'
-	});
 }
 
 /**

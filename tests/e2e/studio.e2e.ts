@@ -4,7 +4,7 @@ import { mkdtemp, readFile, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { promisify } from 'node:util';
-import { PutObjectCommand, S3Client } from '@aws-sdk/client-s3';
+import { PutObjectCommand } from '@aws-sdk/client-s3';
 import ffmpegInstaller from '@ffmpeg-installer/ffmpeg';
 import { makeClip } from '../integration/recordings-support';
 import {
@@ -14,7 +14,8 @@ import {
 	seedCaptionTrack,
 	seedReadyRecording,
 	signedInRequest,
-	signInWithPassword
+	signInWithPassword,
+	storageClient
 } from './support';
 import { E2E } from './ports';
 
@@ -64,14 +65,7 @@ async function addTimelineMedia(clip: string) {
 			`${prefix}waveform.json`,
 			recordingId
 		);
-		const s3 = new S3Client({
-			region: 'us-east-1',
-			endpoint: `http://127.0.0.1:${E2E.storagePort}`,
-			forcePathStyle: true,
-			credentials: { accessKeyId: 'S3RVER', secretAccessKey: 'S3RVER' },
-			requestChecksumCalculation: 'WHEN_REQUIRED',
-			responseChecksumValidation: 'WHEN_REQUIRED'
-		});
+		const s3 = storageClient();
 		// The clip's tone is steady; a gentle swell makes the drawing easy to recognise.
 		const peaks = Array.from({ length: SECONDS * 20 }, (_, i) => 0.3 + 0.2 * Math.sin(i / 6));
 		for (const [key, body, type] of [

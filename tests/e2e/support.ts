@@ -7,6 +7,18 @@ import { DEMO_PASSWORD } from '../../src/lib/server/demo/seed';
 
 export { DEMO_PASSWORD };
 
+/** A client for the e2e storage fake, set up as the app sets up its own (see STACK.md on s3rver). */
+export function storageClient(): S3Client {
+	return new S3Client({
+		region: 'us-east-1',
+		endpoint: `http://127.0.0.1:${E2E.storagePort}`,
+		forcePathStyle: true,
+		credentials: { accessKeyId: 'S3RVER', secretAccessKey: 'S3RVER' },
+		requestChecksumCalculation: 'WHEN_REQUIRED',
+		responseChecksumValidation: 'WHEN_REQUIRED'
+	});
+}
+
 /** The seeded demo accounts the tests sign in as (all invented; see src/lib/server/demo/seed.ts). */
 export const ACCOUNTS = {
 	admin: 'admin@alder-street.example',
@@ -172,14 +184,7 @@ export async function seedReadyRecording(
 	} finally {
 		db.close();
 	}
-	const s3 = new S3Client({
-		region: 'us-east-1',
-		endpoint: `http://127.0.0.1:${E2E.storagePort}`,
-		forcePathStyle: true,
-		credentials: { accessKeyId: 'S3RVER', secretAccessKey: 'S3RVER' },
-		requestChecksumCalculation: 'WHEN_REQUIRED',
-		responseChecksumValidation: 'WHEN_REQUIRED'
-	});
+	const s3 = storageClient();
 	const prefix = `clinics/${clinicId}/recordings/${id}/`;
 	for (const [key, type] of [
 		['rendition.mp4', 'video/mp4'],
