@@ -184,6 +184,26 @@ describe('reviewing', () => {
 		).rejects.toThrow(/already decided/);
 	});
 
+	it('rejects with a reason, e-mails the clinician, and publishes nothing', async () => {
+		const exercise = await support.makeExercise(world, { title: 'Rejected stretch' });
+		const submission = submissions.submitExercise(
+			world.clinician,
+			exercise.id,
+			support.submissionInput(exercise)
+		);
+		const result = await publishing.decideSubmission(submission.id, reviewer(), {
+			decision: 'rejected',
+			comment: 'This stretch is not one we show without supervision.',
+			judgement: []
+		});
+		expect(result).toMatchObject({ decision: 'rejected', mailed: true, slug: undefined });
+		expect(submissions.submissionForReview(submission.id)?.submission.status).toBe('rejected');
+		expect(library.findPublicExercise('rejected-stretch')).toBeNull();
+		expect((await mailsTo(world.clinician.email)).map((m) => m.subject)).toContain(
+			'“Rejected stretch” was not accepted for the library'
+		);
+	});
+
 	it('needs every judgement item ticked to approve', async () => {
 		const exercise = await support.makeExercise(world);
 		const submission = submissions.submitExercise(
@@ -360,8 +380,10 @@ describe('unpublishing and retiring', () => {
 		if (entry?.kind !== 'published') throw new Error('not published');
 		const id = entry.value.entry.id;
 
+		expect(library.sitemapEntries().map((e) => e.path)).toContain(`/library/exercises/${slug}`);
 		publishing.unpublishEntry(id);
 		expect(library.findPublicExercise(slug!)).toBeNull();
+		expect(library.sitemapEntries().map((e) => e.path)).not.toContain(`/library/exercises/${slug}`);
 		expect(library.findPublicVersion(versionId!)).toBeNull();
 		expect(search('q=ankle+pumps').results).toEqual([]);
 

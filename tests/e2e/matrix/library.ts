@@ -203,6 +203,12 @@ export const libraryPart: MatrixPart = {
 			expect: { public: 401, patient: 404, clinician: 200, educator: 403, admin: 403 }
 		},
 		{
+			route: '/api/segments/[id=id]/poster-[n].jpg',
+			note: 'the posters behind a submission under review stay the clinic’s',
+			path: (f) => `/api/segments/${f.extra.librarySegmentId}/poster-0.jpg`,
+			expect: { public: 401, patient: 404, clinician: 200, educator: 403, admin: 403 }
+		},
+		{
 			route: '/api/segments/[id=id]/captions.vtt',
 			note: 'the captions behind a submission under review stay the clinic’s',
 			path: (f) => `/api/segments/${f.extra.librarySegmentId}/captions.vtt`,
