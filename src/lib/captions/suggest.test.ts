@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { suggestBoundaries, type SuggestInput } from './suggest';
+import { suggestBoundaries, wordListsFor, type SuggestInput } from './suggest';
 import type { Cue } from './types';
 
 const cue = (start: number, end: number, text: string): Cue => ({ id: '', start, end, text });
@@ -184,8 +184,8 @@ describe('suggestBoundaries on synthetic signals alone', () => {
 		const input = { cues, silences: [], sceneChanges: [], durationSeconds: 60 };
 		expect(suggestBoundaries(input, { language: 'en' })).toEqual([]);
 		const out = suggestBoundaries(input, {
-			language: 'en',
-			wordLists: { announcing: ['up next'] }
+			language: 'en-GB',
+			wordLists: { en: { announcing: ['Up next'] } }
 		});
 		expect(out.map((s) => [s.time, kinds(s)])).toEqual([
 			[15, ['announcing-phrase', 'exercise-name-change', 'long-gap']]
@@ -193,6 +193,26 @@ describe('suggestBoundaries on synthetic signals alone', () => {
 		expect(out[0].signals.find((s) => s.kind === 'exercise-name-change')?.detail).toBe(
 			'"wall push-ups", the first exercise named'
 		);
+	});
+
+	it('picks the word lists by the cues’ language, and configured lists add to a language’s own', () => {
+		// Common practice: a French narration announces the next exercise with "exercice suivant".
+		const cues = [cue(0, 10, 'Échauffement.'), cue(20, 24, 'Exercice suivant : la marche.')];
+		const input = { cues, silences: [], sceneChanges: [], durationSeconds: 60 };
+		expect(suggestBoundaries(input, { language: 'en' })).toEqual([]);
+		const french = suggestBoundaries(input, { language: 'fr-CA' });
+		expect(french.map((s) => kinds(s))).toEqual([
+			['announcing-phrase', 'exercise-name-change', 'long-gap']
+		]);
+		// Lists configured for French do not leak into English, and never remove built-in words.
+		const lists = wordListsFor('fr', {
+			fr: { announcing: ['Au suivant'] },
+			en: { announcing: ['x'] }
+		});
+		expect(lists.announcing).toContain('au suivant');
+		expect(lists.announcing).toContain('exercice suivant');
+		expect(lists.announcing).not.toContain('x');
+		expect(wordListsFor('xx-unknown').announcing).toEqual(wordListsFor('en').announcing);
 	});
 
 	it('leaves out boundaries too close to either end of the recording', () => {

@@ -49,8 +49,10 @@ export interface SuggestInput {
 }
 
 export interface SuggestOptions {
-	language: 'en';
-	wordLists?: Partial<WordLists>;
+	/** BCP 47 tag of the cues; picks the word lists by its primary subtag (English when unknown). */
+	language: string;
+	/** Word lists per primary language subtag, added to the built-in ones (see wordListsFor). */
+	wordLists?: WordListsByLanguage;
 	/** No boundary closer than this to another or to either end of the recording. Default 5 s. */
 	minSegmentSeconds?: number;
 	/** Signals this close together support one boundary. Default 1.5 s. */
@@ -131,6 +133,88 @@ export const englishWordLists: WordLists = {
 		'this'
 	]
 };
+
+/** French lists (common classroom phrasing, our own choice; no published list exists). */
+export const frenchWordLists: WordLists = {
+	announcing: [
+		'exercice suivant',
+		'exercice d’après',
+		"exercice d'après",
+		'passons à',
+		'on passe à',
+		'maintenant nous allons',
+		'maintenant on va',
+		'ensuite'
+	],
+	ordinals: [
+		'premier',
+		'première',
+		'deuxième',
+		'troisième',
+		'quatrième',
+		'cinquième',
+		'sixième',
+		'septième',
+		'huitième',
+		'neuvième',
+		'dixième',
+		'exercice un',
+		'exercice deux',
+		'exercice trois',
+		'exercice quatre',
+		'exercice cinq'
+	],
+	filler: [
+		'le',
+		'la',
+		'les',
+		'un',
+		'une',
+		'des',
+		'du',
+		'de',
+		'à',
+		'au',
+		'avec',
+		'exercice',
+		'on',
+		'nous',
+		'va',
+		'allons',
+		'faire',
+		'appelé',
+		'ce',
+		'cet',
+		'cette',
+		"c'est",
+		'est'
+	]
+};
+
+/** Word lists keyed by primary language subtag ("en", "fr"). */
+export type WordListsByLanguage = Record<string, Partial<WordLists>>;
+
+export const builtInWordLists: Record<string, WordLists> = {
+	en: englishWordLists,
+	fr: frenchWordLists
+};
+
+/**
+ * The word lists for a cue language: the built-in lists of its primary subtag (English when there
+ * are none), with any configured lists for that subtag added to them (never replacing them).
+ */
+export function wordListsFor(language: string, extra: WordListsByLanguage = {}): WordLists {
+	const primary = language.trim().toLowerCase().split(/[-_]/)[0] || 'en';
+	const base = builtInWordLists[primary] ?? englishWordLists;
+	const added = extra[primary] ?? {};
+	const lower = (words: readonly string[] = []) =>
+		words.map((w) => w.trim().toLowerCase()).filter(Boolean);
+	return {
+		announcing: [...new Set([...base.announcing, ...lower(added.announcing)])],
+		ordinals: [...new Set([...base.ordinals, ...lower(added.ordinals)])],
+		filler: [...new Set([...base.filler, ...lower(added.filler)])]
+	};
+}
 
 // Evidence weights (our own calibration, common practice: text is the strongest evidence, quiet
 // alone is weak because narrators also pause during holds and rests).
@@ -334,7 +418,7 @@ function placeOf(group: Candidate[]): number {
 
 /** Suggested boundaries in time order, each with the signals that support it. */
 export function suggestBoundaries(input: SuggestInput, options: SuggestOptions): Suggestion[] {
-	const lists: WordLists = { ...englishWordLists, ...options.wordLists };
+	const lists = wordListsFor(options.language, options.wordLists);
 	const minSegment = options.minSegmentSeconds ?? 5;
 	const window = options.mergeWindowSeconds ?? 1.5;
 	const minScore = options.minScore ?? 0.5;

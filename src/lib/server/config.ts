@@ -75,6 +75,9 @@ const schema = z.object({
 		.min(1)
 		.max(24 * 60 * 60)
 		.default(1800),
+	// A JSON file of extra segment word lists per language, e.g. {"en": {"announcing": ["up next"]}};
+	// empty means the built-in lists only (src/lib/captions/suggest.ts).
+	SEGMENT_WORD_LISTS_FILE: z.string().default(''),
 	// The clinicians' weekly digest: due from this ISO weekday (1 = Monday) and hour, local time.
 	DIGEST_WEEKDAY: z.coerce.number().int().min(1).max(7).default(1),
 	DIGEST_HOUR: z.coerce.number().int().min(0).max(23).default(7),

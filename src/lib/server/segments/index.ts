@@ -6,6 +6,7 @@
  * No request-bound imports here: the stand-alone worker process loads this module through the
  * cut-segment job. Endpoint access checks live in access.ts.
  */
+import { configuredWordLists } from './word-lists';
 import { createHash } from 'node:crypto';
 import { mkdtemp, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
@@ -104,8 +105,10 @@ export function currentCaptions(recording: Recording): {
 async function detect(
 	recording: Recording,
 	cues: Cue[],
-	version: number
+	version: number,
+	language: string
 ): Promise<SuggestionsReady> {
+	const words = { language, wordLists: configuredWordLists() };
 	const base = {
 		state: 'ready' as const,
 		recordingId: recording.id,
@@ -119,7 +122,12 @@ async function detect(
 		if (!(await downloadToFile(keys.rendition, rendition))) {
 			throw new Error('The web version of this recording is missing from storage.');
 		}
-		const suggestions = await suggestForRecording(rendition, cues, recording.durationSeconds);
+		const suggestions = await suggestForRecording(
+			rendition,
+			cues,
+			recording.durationSeconds,
+			words
+		);
 		return { ...base, suggestions, note: null };
 	} catch (error) {
 		// The captions alone still say a good deal; the page says what was left out.
@@ -128,7 +136,7 @@ async function detect(
 			...base,
 			suggestions: suggestBoundaries(
 				{ cues, silences: [], sceneChanges: [], durationSeconds: recording.durationSeconds },
-				{ language: 'en' }
+				words
 			),
 			note: 'The sound and picture could not be read this time, so these suggestions come from the captions alone.'
 		};
@@ -153,7 +161,9 @@ export async function suggestionsFor(
 	const key = `${recording.id}:${recording.readyAt?.getTime() ?? 0}:${captions.track?.id ?? '-'}:${captions.version}`;
 	let entry = cache.get(key);
 	if (!entry) {
-		const run = detecting.then(() => detect(recording, captions.cues, captions.version));
+		const run = detecting.then(() =>
+			detect(recording, captions.cues, captions.version, captions.language)
+		);
 		detecting = run.catch(() => undefined);
 		const created: CacheEntry = { promise: run, result: null, at: Date.now() };
 		run.then(
