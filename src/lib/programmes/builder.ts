@@ -152,6 +152,15 @@ export function applyIntent(
 	}
 }
 
+/** The form name of each progression field within a row (`item-<index>-<name>`). */
+export const PROGRESSION_FORM_NAMES: Record<keyof ProgressionDraft, string> = {
+	kind: 'progressionKind',
+	addPerWeek: 'progressionAddPerWeek',
+	ceiling: 'progressionCeiling',
+	addAfterWeeks: 'progressionAddAfterWeeks',
+	add: 'progressionAdd'
+};
+
 /** Form fields of one row are named `item-<index>-<field>`; this reads them all back. */
 export function draftFromForm(form: FormData): { draft: ProgrammeDraft; intent: Intent } {
 	const get = (name: string) => {
@@ -172,11 +181,11 @@ export function draftFromForm(form: FormData): { draft: ProgrammeDraft; intent: 
 				string
 			>,
 			progression: {
-				kind: p('progressionKind') || 'none',
-				addPerWeek: p('progressionAddPerWeek'),
-				ceiling: p('progressionCeiling'),
-				addAfterWeeks: p('progressionAddAfterWeeks'),
-				add: p('progressionAdd')
+				kind: p(PROGRESSION_FORM_NAMES.kind) || 'none',
+				addPerWeek: p(PROGRESSION_FORM_NAMES.addPerWeek),
+				ceiling: p(PROGRESSION_FORM_NAMES.ceiling),
+				addAfterWeeks: p(PROGRESSION_FORM_NAMES.addAfterWeeks),
+				add: p(PROGRESSION_FORM_NAMES.add)
 			},
 			logCount: 0
 		});
