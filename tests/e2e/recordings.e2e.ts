@@ -135,10 +135,24 @@ test('an upload interrupted by a reload resumes without re-sending stored parts'
 	expect(sent.sort()).toEqual([2, 3]);
 });
 
-test('a text file named .mp4 is refused with its reason', async ({ page }) => {
+test('a text file named .mp4 is refused with its reason, even when chosen before the page has started', async ({
+	page
+}) => {
 	await signInWithPassword(page, ACCOUNTS.clinician);
-	await page.goto('/recordings');
+	// Hold the page's scripts so the file is chosen while nothing listens for the choice yet.
+	const heldScripts: Route[] = [];
+	let released = false;
+	const scripts = '**/_app/immutable/**/*.js';
+	await page.route(scripts, (route) => {
+		if (!released) heldScripts.push(route);
+		else void route.continue();
+	});
+	await page.goto('/recordings', { waitUntil: 'domcontentloaded' });
 	await page.locator('#recording-file').setInputFiles(join(dir, 'notes.mp4'));
+	await expect.poll(() => heldScripts.length).toBeGreaterThan(0);
+	released = true;
+	for (const route of heldScripts) await route.continue();
+	await page.unroute(scripts);
 	const upload = page.getByRole('listitem', { name: 'Upload of notes.mp4' });
 	await expect(upload.getByTestId('upload-phase')).toHaveText('Not accepted', { timeout: 30_000 });
 	await expect(upload.getByRole('alert')).toContainText('notes.mp4');
