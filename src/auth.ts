@@ -1,4 +1,4 @@
-import { SvelteKitAuth } from '@auth/sveltekit';
+import { SvelteKitAuth, type SvelteKitAuthConfig } from '@auth/sveltekit';
 import Credentials from '@auth/sveltekit/providers/credentials';
 import Nodemailer from '@auth/sveltekit/providers/nodemailer';
 import { DrizzleAdapter } from '@auth/drizzle-adapter';
@@ -30,88 +30,98 @@ function userByEmail(email: string) {
  * Auth.js for Kinelume: a password, or a one-time link by e-mail. Sessions are JWTs (required by
  * the credentials provider); each request re-reads the person's role and clinic from the database
  * (hooks.server.ts), so the token carries only the user id.
+ *
+ * @auth/sveltekit calls the configuration function on every request. It is made once, on the
+ * first request rather than at import (the database opens lazily), because building the Drizzle
+ * adapter each time cost more than the rest of a small request.
  */
 export const {
 	handle: authHandle,
 	signIn,
 	signOut
-} = SvelteKitAuth(async () => ({
-	adapter: DrizzleAdapter(db(), {
-		usersTable: schema.users,
-		accountsTable: schema.accounts,
-		sessionsTable: schema.sessions,
-		verificationTokensTable: schema.verificationTokens
-	}),
-	secret: authSecret(),
-	trustHost: true,
-	session: { strategy: 'jwt', maxAge: SESSION_MAX_AGE_SECONDS },
-	pages: { signIn: '/signin', verifyRequest: '/signin/link-sent', error: '/signin' },
-	providers: [
-		Credentials({
-			credentials: { email: {}, password: {} },
-			async authorize(raw) {
-				const parsed = credentialsSchema.safeParse(raw);
-				if (!parsed.success) return null;
-				const user = userByEmail(parsed.data.email);
-				const ok = await verifyPassword(user?.passwordHash ?? null, parsed.data.password);
-				// Someone without a role in any clinic cannot use the product yet.
-				if (!user || !ok || !loadPrincipal(user.id)) return null;
-				return { id: user.id, email: user.email, name: user.name };
-			}
+} = SvelteKitAuth(async () => (authConfig ??= makeAuthConfig()));
+
+let authConfig: SvelteKitAuthConfig | undefined;
+
+function makeAuthConfig(): SvelteKitAuthConfig {
+	return {
+		adapter: DrizzleAdapter(db(), {
+			usersTable: schema.users,
+			accountsTable: schema.accounts,
+			sessionsTable: schema.sessions,
+			verificationTokensTable: schema.verificationTokens
 		}),
-		Nodemailer({
-			// Our sendVerificationRequest sends through the app's own transport; the provider
-			// still requires its settings.
-			server: smtpOptions(),
-			from: config().MAIL_FROM,
-			maxAge: 30 * 60,
-			async sendVerificationRequest({ identifier, url, expires }) {
-				// Unknown addresses get no e-mail, yet the page says the same thing to everyone,
-				// so the form does not reveal who has an account.
-				const user = userByEmail(identifier);
-				if (!user || !loadPrincipal(user.id)) return;
-				await sendMail({ to: identifier, ...signInLinkMail({ url, expiresAt: expires }) });
+		secret: authSecret(),
+		trustHost: true,
+		session: { strategy: 'jwt', maxAge: SESSION_MAX_AGE_SECONDS },
+		pages: { signIn: '/signin', verifyRequest: '/signin/link-sent', error: '/signin' },
+		providers: [
+			Credentials({
+				credentials: { email: {}, password: {} },
+				async authorize(raw) {
+					const parsed = credentialsSchema.safeParse(raw);
+					if (!parsed.success) return null;
+					const user = userByEmail(parsed.data.email);
+					const ok = await verifyPassword(user?.passwordHash ?? null, parsed.data.password);
+					// Someone without a role in any clinic cannot use the product yet.
+					if (!user || !ok || !loadPrincipal(user.id)) return null;
+					return { id: user.id, email: user.email, name: user.name };
+				}
+			}),
+			Nodemailer({
+				// Our sendVerificationRequest sends through the app's own transport; the provider
+				// still requires its settings.
+				server: smtpOptions(),
+				from: config().MAIL_FROM,
+				maxAge: 30 * 60,
+				async sendVerificationRequest({ identifier, url, expires }) {
+					// Unknown addresses get no e-mail, yet the page says the same thing to everyone,
+					// so the form does not reveal who has an account.
+					const user = userByEmail(identifier);
+					if (!user || !loadPrincipal(user.id)) return;
+					await sendMail({ to: identifier, ...signInLinkMail({ url, expiresAt: expires }) });
+				}
+			})
+		],
+		callbacks: {
+			signIn({ user, email }) {
+				if (email?.verificationRequest) return true;
+				// Never create an account from a sign-in link: accounts come from invitations only.
+				const existing = user.email ? userByEmail(user.email) : undefined;
+				return Boolean(existing && loadPrincipal(existing.id));
+			},
+			jwt({ token, user }) {
+				if (user?.id) token.sub = user.id;
+				return token;
+			},
+			session({ session, token }) {
+				if (token.sub) session.user.id = token.sub;
+				return session;
 			}
-		})
-	],
-	callbacks: {
-		signIn({ user, email }) {
-			if (email?.verificationRequest) return true;
-			// Never create an account from a sign-in link: accounts come from invitations only.
-			const existing = user.email ? userByEmail(user.email) : undefined;
-			return Boolean(existing && loadPrincipal(existing.id));
 		},
-		jwt({ token, user }) {
-			if (user?.id) token.sub = user.id;
-			return token;
+		logger: {
+			// A wrong password or a spent link is an expected answer, already shown to the person and
+			// audited; logging each as an error would bury the real ones.
+			error(error) {
+				if (error.name === 'CredentialsSignin' || error.name === 'Verification') return;
+				console.error('[auth]', error);
+			}
 		},
-		session({ session, token }) {
-			if (token.sub) session.user.id = token.sub;
-			return session;
+		events: {
+			signIn({ user, account }) {
+				const principal = user.id ? loadPrincipal(user.id) : null;
+				recordAudit({
+					kind: 'sign-in',
+					clinicId: principal?.clinicId,
+					actorUserId: user.id,
+					subject: user.email ?? '',
+					detail: { method: account?.provider === 'credentials' ? 'password' : 'e-mail link' }
+				});
+			},
+			signOut(message) {
+				const sub = 'token' in message ? message.token?.sub : undefined;
+				recordAudit({ kind: 'sign-out', actorUserId: sub ?? null, subject: '' });
+			}
 		}
-	},
-	logger: {
-		// A wrong password or a spent link is an expected answer, already shown to the person and
-		// audited; logging each as an error would bury the real ones.
-		error(error) {
-			if (error.name === 'CredentialsSignin' || error.name === 'Verification') return;
-			console.error('[auth]', error);
-		}
-	},
-	events: {
-		signIn({ user, account }) {
-			const principal = user.id ? loadPrincipal(user.id) : null;
-			recordAudit({
-				kind: 'sign-in',
-				clinicId: principal?.clinicId,
-				actorUserId: user.id,
-				subject: user.email ?? '',
-				detail: { method: account?.provider === 'credentials' ? 'password' : 'e-mail link' }
-			});
-		},
-		signOut(message) {
-			const sub = 'token' in message ? message.token?.sub : undefined;
-			recordAudit({ kind: 'sign-out', actorUserId: sub ?? null, subject: '' });
-		}
-	}
-}));
+	};
+}

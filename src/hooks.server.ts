@@ -1,7 +1,14 @@
-import { error, redirect, type Handle, type HandleServerError } from '@sveltejs/kit';
+import {
+	error,
+	redirect,
+	type Handle,
+	type HandleServerError,
+	type RequestEvent
+} from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
 import { accessForRoute, decide } from '$lib/auth/access';
 import { loadPrincipal } from '$lib/server/auth/principal';
+import { readSessionUserId } from '$lib/server/auth/session';
 import { config } from '$lib/server/config';
 import { db } from '$lib/server/db';
 import { startBackgroundWork, stopBackgroundWork } from '$lib/server/jobs';
@@ -20,13 +27,25 @@ export function init() {
 	}
 }
 
-/** Who is asking: fills `locals.user` from the Auth.js session and the database. */
+/**
+ * Who is asking: fills `locals.user` from the session token and the database. Reads of API
+ * files (captions, transcripts, posters, media ranges, progress) only read the token; pages and
+ * every change go through Auth.js, which also renews the session.
+ */
 const authentication: Handle = async ({ event, resolve }) => {
-	const session = await event.locals.auth();
-	const userId = session?.user?.id;
+	const userId = await sessionUserId(event);
 	event.locals.user = userId ? loadPrincipal(userId) : null;
 	return resolve(event);
 };
+
+async function sessionUserId(event: RequestEvent): Promise<string | null> {
+	const method = event.request.method;
+	if ((method === 'GET' || method === 'HEAD') && event.url.pathname.startsWith('/api/')) {
+		const read = await readSessionUserId(event.cookies, event.url);
+		if (read !== 'chunked') return read;
+	}
+	return (await event.locals.auth())?.user?.id ?? null;
+}
 
 /**
  * May they: decided by route group before any load runs. Loads, actions and endpoints check

@@ -1,6 +1,6 @@
-import { eq } from 'drizzle-orm';
+import { eq, sql } from 'drizzle-orm';
 import type { Role } from '$lib/auth/roles';
-import { db, schema } from '../db';
+import { prepared, schema } from '../db';
 
 /** The signed-in person as every server check sees them: who, which role, which clinic. */
 export interface Principal {
@@ -20,20 +20,10 @@ export interface Principal {
  * membership and no patient record has no principal and is treated as signed out.
  */
 export function loadPrincipal(userId: string): Principal | null {
-	const user = db()
-		.query.users.findFirst({ where: eq(schema.users.id, userId) })
-		.sync();
+	const statements = principalStatements();
+	const user = statements.user.get({ userId });
 	if (!user) return null;
-	const staff = db()
-		.select({
-			role: schema.memberships.role,
-			clinicId: schema.clinics.id,
-			clinicName: schema.clinics.name
-		})
-		.from(schema.memberships)
-		.innerJoin(schema.clinics, eq(schema.clinics.id, schema.memberships.clinicId))
-		.where(eq(schema.memberships.userId, userId))
-		.get();
+	const staff = statements.staff.get({ userId });
 	if (staff) {
 		return {
 			id: user.id,
@@ -43,17 +33,7 @@ export function loadPrincipal(userId: string): Principal | null {
 			patientId: null
 		};
 	}
-	const patient = db()
-		.select({
-			patientId: schema.patients.id,
-			clinicId: schema.clinics.id,
-			clinicName: schema.clinics.name,
-			fullName: schema.patients.fullName
-		})
-		.from(schema.patients)
-		.innerJoin(schema.clinics, eq(schema.clinics.id, schema.patients.clinicId))
-		.where(eq(schema.patients.userId, userId))
-		.get();
+	const patient = statements.patient.get({ userId });
 	if (patient) {
 		return {
 			id: user.id,
@@ -67,3 +47,36 @@ export function loadPrincipal(userId: string): Principal | null {
 	}
 	return null;
 }
+
+// Every request runs these three.
+const principalStatements = prepared((store) => {
+	const userId = sql.placeholder('userId');
+	return {
+		user: store
+			.select({ id: schema.users.id, email: schema.users.email, name: schema.users.name })
+			.from(schema.users)
+			.where(eq(schema.users.id, userId))
+			.prepare(),
+		staff: store
+			.select({
+				role: schema.memberships.role,
+				clinicId: schema.clinics.id,
+				clinicName: schema.clinics.name
+			})
+			.from(schema.memberships)
+			.innerJoin(schema.clinics, eq(schema.clinics.id, schema.memberships.clinicId))
+			.where(eq(schema.memberships.userId, userId))
+			.prepare(),
+		patient: store
+			.select({
+				patientId: schema.patients.id,
+				clinicId: schema.clinics.id,
+				clinicName: schema.clinics.name,
+				fullName: schema.patients.fullName
+			})
+			.from(schema.patients)
+			.innerJoin(schema.clinics, eq(schema.clinics.id, schema.patients.clinicId))
+			.where(eq(schema.patients.userId, userId))
+			.prepare()
+	};
+});

@@ -16,7 +16,7 @@ import {
 	type TrackKind
 } from '$lib/captions/types';
 import { parseVtt, serializeVtt } from '$lib/captions/vtt';
-import { db } from '../db';
+import { db, prepared } from '../db';
 import { ExportCache } from './export-cache';
 import {
 	captionTracks,
@@ -134,14 +134,22 @@ export function listTracks(clinicId: string, recordingId: string): TrackSummary[
 
 /** A track of the clinic, or null (also for another clinic's id). */
 export function findTrack(clinicId: string, trackId: string): CaptionTrack | null {
-	return (
-		db()
-			.select()
-			.from(captionTracks)
-			.where(and(eq(captionTracks.id, trackId), eq(captionTracks.clinicId, clinicId)))
-			.get() ?? null
-	);
+	return trackOfClinic().get({ trackId, clinicId }) ?? null;
 }
+
+// Every caption file request starts here.
+const trackOfClinic = prepared((store) =>
+	store
+		.select()
+		.from(captionTracks)
+		.where(
+			and(
+				eq(captionTracks.id, sql.placeholder('trackId')),
+				eq(captionTracks.clinicId, sql.placeholder('clinicId'))
+			)
+		)
+		.prepare()
+);
 
 export function trackSummary(track: CaptionTrack): TrackSummary {
 	return summary(track, getVersion(track)?.cues.length ?? 0);

@@ -38,4 +38,19 @@ export function closeDatabase(): void {
 	opened = undefined;
 }
 
+/**
+ * For queries that every request runs: `build` makes the prepared query (placeholders for the
+ * values, `.prepare()` at the end) once per open database, instead of drizzle building the SQL and
+ * SQLite compiling it on each call. Returns a function giving the current database's query.
+ */
+export function prepared<T>(build: (store: Db) => T): () => T {
+	const byDatabase = new WeakMap<Db, T>();
+	return () => {
+		const store = db();
+		let query = byDatabase.get(store);
+		if (query === undefined) byDatabase.set(store, (query = build(store)));
+		return query;
+	};
+}
+
 export { schema };
