@@ -165,7 +165,14 @@ afterAll(async () => {
 });
 
 describe('suggestions for a stored recording', () => {
-	it('finds the exercise change from the stored rendition, names it, and keeps the result', async () => {
+	const storedSignals = (id: string) =>
+		db()
+			.select()
+			.from(schema.recordingSignals)
+			.where(eq(schema.recordingSignals.recordingId, id))
+			.get();
+
+	it('finds the exercise change from the stored rendition, names it, and keeps what the detectors found', async () => {
 		const first = await segments.suggestionsFor(recording, { waitMs: 60_000 });
 		expect(first.state).toBe('ready');
 		if (first.state !== 'ready') return;
@@ -177,13 +184,53 @@ describe('suggestions for a stored recording', () => {
 			expect(Math.abs(s.time - plan.boundaries[i])).toBeLessThanOrEqual(0.5);
 		});
 		expect(first.suggestions.map((s) => s.name)).toEqual([FIRST.title, SECOND.title]);
-		// Asked again (a reload): the same answer from memory, without running the detectors.
+		// The silences and the scene change are stored against this rendition.
+		const stored = storedSignals(recording.id);
+		expect(stored?.renditionReadyAt.getTime()).toBe(recording.readyAt?.getTime());
+		expect(stored?.silences.length).toBeGreaterThan(0);
+		expect(stored?.sceneChanges.length).toBeGreaterThan(0);
+		// Asked again (a reload, or after a restart): answered at once from the stored signals.
 		const again = await segments.suggestionsFor(recording, { waitMs: 0 });
-		expect(again).toBe(first);
+		expect(again).toEqual(first);
+	}, 60_000);
+
+	it('answers at once for a new captions version, reading the new cues without measuring again', async () => {
+		const other = insertRecording('Captions changed');
+		await storeRendition(other);
+		giveCaptions(other, script);
+		const before = await segments.suggestionsFor(other, { waitMs: 60_000 });
+		expect(before.state).toBe('ready');
+		const measuredAt = storedSignals(other.id)?.detectedAt.getTime();
+		// The clinician renames the second exercise in the captions and saves.
+		const track = captions.firstCaptionsTrack(other.clinicId, other.id)!;
+		const renamed = new RegExp(SECOND.title, 'gi');
+		const saved = captions.saveVersion(track, {
+			baseVersion: 1,
+			cues: script.map((c) => ({ ...c, text: c.text.replace(renamed, 'Thigh squeezes') })),
+			source: 'edit'
+		});
+		expect(saved.ok).toBe(true);
+		const after = await segments.suggestionsFor(other, { waitMs: 0 });
+		expect(after.state).toBe('ready');
+		if (after.state !== 'ready' || before.state !== 'ready') return;
+		expect(after.captionsVersion).toBe(2);
+		expect(before.suggestions.map((s) => s.name)).toEqual([FIRST.title, SECOND.title]);
+		expect(after.suggestions.map((s) => s.name)).toEqual([FIRST.title, 'Thigh squeezes']);
+		expect(storedSignals(other.id)?.detectedAt.getTime()).toBe(measuredAt);
+	}, 60_000);
+
+	it('measures again when the recording has a new rendition', async () => {
+		const remade = { ...recording, readyAt: new Date(recording.readyAt!.getTime() + 1000) };
+		const early = await segments.suggestionsFor(remade, { waitMs: 0 });
+		expect(early).toEqual({ state: 'working', recordingId: recording.id });
+		const later = await segments.suggestionsFor(remade, { waitMs: 60_000 });
+		expect(later.state).toBe('ready');
+		expect(storedSignals(recording.id)?.renditionReadyAt.getTime()).toBe(remade.readyAt.getTime());
 	}, 60_000);
 
 	it('answers "working" while the detectors run, and refuses a recording not yet ready', async () => {
 		segments.forgetSuggestions(recording.id);
+		expect(storedSignals(recording.id)).toBeUndefined();
 		const early = await segments.suggestionsFor(recording, { waitMs: 0 });
 		expect(early).toEqual({ state: 'working', recordingId: recording.id });
 		const later = await segments.suggestionsFor(recording, { waitMs: 60_000 });
@@ -191,6 +238,17 @@ describe('suggestions for a stored recording', () => {
 		await expect(
 			segments.suggestionsFor({ ...recording, status: 'processing' })
 		).rejects.toMatchObject({ status: 409 });
+	}, 60_000);
+
+	it('falls back to the captions alone, saying so, when the rendition cannot be read', async () => {
+		const missing = insertRecording('No rendition in storage');
+		giveCaptions(missing, script);
+		const answer = await segments.suggestionsFor(missing, { waitMs: 60_000 });
+		expect(answer.state).toBe('ready');
+		if (answer.state !== 'ready') return;
+		expect(answer.note).toMatch(/captions alone/);
+		expect(answer.suggestions.map((s) => s.name)).toContain(SECOND.title);
+		expect(storedSignals(missing.id)).toBeUndefined();
 	}, 60_000);
 });
 
@@ -322,8 +380,11 @@ describe('confirming and cutting', () => {
 		}
 	}, 120_000);
 
-	it('supersedes on a second confirmation, keeping the old rows and clips for exercises', async () => {
+	it('supersedes on a second confirmation: an exercise keeps its segment and clip, the unused one goes with its files', async () => {
 		const before = current(recording.id);
+		expect(before).toHaveLength(2);
+		const keys = recordingKeys(clinic.id, recording.id);
+		expect(await headObject(keys.segmentPoster(before[1].id, 0))).not.toBeNull();
 		const exercise = db()
 			.insert(schema.exercises)
 			.values({
@@ -340,17 +401,22 @@ describe('confirming and cutting', () => {
 			})
 			.returning()
 			.get();
-		const { segments: next } = segments.confirmSegments(clinician, recording.id, [
+		const confirmed = segments.confirmSegments(clinician, recording.id, [
 			{ title: `${FIRST.title} and ${SECOND.title}`, start: FIRST.start, end: plan.durationSeconds }
 		]);
+		const next = confirmed.segments;
 		expect(current(recording.id).map((s) => s.id)).toEqual([next[0].id]);
-		for (const old of before) {
-			const row = segments.findSegment(clinic.id, old.id);
-			expect(row?.status).toBe('ready');
-			expect(row?.supersededAt).toBeInstanceOf(Date);
-			expect(
-				await headObject(recordingKeys(clinic.id, recording.id).segment(old.id))
-			).not.toBeNull();
+		const kept = segments.findSegment(clinic.id, before[0].id);
+		expect(kept?.status).toBe('ready');
+		expect(kept?.supersededAt).toBeInstanceOf(Date);
+		expect(await headObject(keys.segment(before[0].id))).not.toBeNull();
+		// Nothing used the second one: its row, clip and posters are gone.
+		expect(confirmed.removed).toEqual([before[1].id]);
+		expect(segments.findSegment(clinic.id, before[1].id)).toBeNull();
+		await confirmed.filesRemoved;
+		expect(await headObject(keys.segment(before[1].id))).toBeNull();
+		for (let n = 0; n < SEGMENT_POSTER_COUNT; n++) {
+			expect(await headObject(keys.segmentPoster(before[1].id, n))).toBeNull();
 		}
 		const still = db()
 			.select()
@@ -371,6 +437,30 @@ describe('confirming and cutting', () => {
 		}
 		expect(segments.listReadySegments(clinic.id).map((s) => s.id)).toEqual([next[0].id]);
 		expect(segments.findSegment(otherClinic.id, next[0].id)).toBeNull();
+
+		// A segment sent to the library stays too, though no exercise of the clinic uses it now.
+		db()
+			.insert(schema.librarySubmissions)
+			.values({
+				clinicId: clinic.id,
+				segmentId: next[0].id,
+				snapshot: { title: FIRST.title } as never,
+				consentConfirmed: true,
+				licence: 'all-rights-reserved',
+				attribution: 'Segments test clinic'
+			})
+			.run();
+		const third = segments.confirmSegments(clinician, recording.id, exercisePlan());
+		expect(third.removed).toEqual([]);
+		expect(segments.findSegment(clinic.id, next[0].id)?.supersededAt).toBeInstanceOf(Date);
+		await third.filesRemoved;
+		expect(await headObject(keys.segment(next[0].id))).not.toBeNull();
+		const finishing = worker();
+		try {
+			await settled(recording.id);
+		} finally {
+			await finishing.stop();
+		}
 	}, 120_000);
 });
 

@@ -11,7 +11,7 @@ import { createHash } from 'node:crypto';
 import { mkdtemp, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { and, asc, desc, eq, inArray, isNull } from 'drizzle-orm';
+import { and, asc, desc, eq, inArray, isNotNull, isNull, ne, notExists } from 'drizzle-orm';
 import { chaptersFromSegments, shiftAndClip } from '$lib/captions/segment';
 import { suggestBoundaries, type Suggestion } from '$lib/captions/suggest';
 import { plainText } from '$lib/captions/text';
@@ -24,9 +24,11 @@ import { db } from '../db';
 import {
 	captionTracks,
 	exercises,
+	librarySubmissions,
 	programmeItems,
 	programmes,
 	recordings,
+	recordingSignals,
 	segments,
 	type CaptionTrack,
 	type Job,
@@ -36,8 +38,14 @@ import {
 } from '../db/schema';
 import * as queue from '../jobs/queue';
 import { recordingKeys } from '../storage/keys';
+import { deleteObject, deletePrefix } from '../storage';
 import { downloadToFile } from '../storage/multipart';
-import { suggestForRecording } from './suggest';
+import {
+	DEFAULT_MIN_SILENCE_SECONDS,
+	detectMediaSignals,
+	signalSettings,
+	type MediaSignals
+} from './suggest';
 
 export type { SegmentRow, SegmentStatus };
 
@@ -71,17 +79,17 @@ export interface SuggestionsReady {
 
 export type SuggestionsAnswer = SuggestionsReady | { state: 'working'; recordingId: string };
 
-interface CacheEntry {
-	promise: Promise<SuggestionsReady>;
-	result: SuggestionsReady | null;
-	at: number;
+// Detection takes two ffmpeg passes over the whole rendition. What it finds is kept in
+// recording_signals (once per rendition and detector settings); while it runs, a page reload or
+// a second clinician waits on the same run instead of starting another. A run that failed is
+// remembered for a while, so the page is not made to wait on a failing file at every visit.
+const FAILED_DETECTION_RETRY_MS = 10 * 60 * 1000;
+const SETTINGS = signalSettings();
+interface Detection {
+	promise: Promise<MediaSignals | null>;
+	failedAt: number | null;
 }
-
-// Detection takes seconds (two ffmpeg passes over the rendition); a page reload, or a second
-// clinician, should not pay again for the same rendition and captions. Keyed by recording,
-// rendition and captions version, so a caption save makes fresh suggestions.
-const CACHE_MAX = 50;
-const cache = new Map<string, CacheEntry>();
+const detections = new Map<string, Detection>();
 // One detection at a time: each already keeps both cores busy.
 let detecting: Promise<unknown> = Promise.resolve();
 
@@ -102,52 +110,73 @@ export function currentCaptions(recording: Recording): {
 	};
 }
 
-async function detect(
-	recording: Recording,
-	cues: Cue[],
-	version: number,
-	language: string
-): Promise<SuggestionsReady> {
-	const words = { language, wordLists: configuredWordLists() };
-	const base = {
-		state: 'ready' as const,
-		recordingId: recording.id,
-		durationSeconds: recording.durationSeconds,
-		captionsVersion: version
-	};
-	const dir = await mkdtemp(join(config().MEDIA_WORK_DIR || tmpdir(), 'kinelume-suggest-'));
+/** The detectors' findings stored for this rendition with today's settings, or null. */
+function storedSignals(recording: Recording): MediaSignals | null {
+	const row = db()
+		.select()
+		.from(recordingSignals)
+		.where(eq(recordingSignals.recordingId, recording.id))
+		.get();
+	if (!row || row.settings !== SETTINGS) return null;
+	if (row.renditionReadyAt.getTime() !== (recording.readyAt?.getTime() ?? 0)) return null;
+	return { silences: row.silences, sceneChanges: row.sceneChanges };
+}
+
+/** Downloads the rendition, runs the detectors and stores what they found; null when that failed. */
+async function detectAndStore(recording: Recording): Promise<MediaSignals | null> {
+	let dir: string | undefined;
 	try {
+		dir = await mkdtemp(join(config().MEDIA_WORK_DIR || tmpdir(), 'kinelume-suggest-'));
 		const rendition = join(dir, 'rendition.mp4');
 		const keys = recordingKeys(recording.clinicId, recording.id);
 		if (!(await downloadToFile(keys.rendition, rendition))) {
 			throw new Error('The web version of this recording is missing from storage.');
 		}
-		const suggestions = await suggestForRecording(
-			rendition,
-			cues,
-			recording.durationSeconds,
-			words
-		);
-		return { ...base, suggestions, note: null };
-	} catch (error) {
-		// The captions alone still say a good deal; the page says what was left out.
-		console.error(`[segments] detection for ${recording.id} failed:`, error);
-		return {
-			...base,
-			suggestions: suggestBoundaries(
-				{ cues, silences: [], sceneChanges: [], durationSeconds: recording.durationSeconds },
-				words
-			),
-			note: 'The sound and picture could not be read this time, so these suggestions come from the captions alone.'
+		const found = await detectMediaSignals(rendition, recording.durationSeconds);
+		const values = {
+			renditionReadyAt: recording.readyAt ?? new Date(0),
+			settings: SETTINGS,
+			silences: found.silences,
+			sceneChanges: found.sceneChanges,
+			detectedAt: new Date()
 		};
+		db()
+			.insert(recordingSignals)
+			.values({ recordingId: recording.id, ...values })
+			.onConflictDoUpdate({ target: recordingSignals.recordingId, set: values })
+			.run();
+		return found;
+	} catch (error) {
+		console.error(`[segments] detection for ${recording.id} failed:`, error);
+		return null;
 	} finally {
-		await rm(dir, { recursive: true, force: true });
+		if (dir) await rm(dir, { recursive: true, force: true });
 	}
 }
 
+/** The rendition's signals: stored, being measured (the shared run), or a new run. */
+function signalsFor(recording: Recording): MediaSignals | Promise<MediaSignals | null> {
+	const stored = storedSignals(recording);
+	if (stored) return stored;
+	const key = `${recording.id}:${recording.readyAt?.getTime() ?? 0}`;
+	const known = detections.get(key);
+	if (known && (known.failedAt === null || Date.now() - known.failedAt < FAILED_DETECTION_RETRY_MS))
+		return known.promise;
+	const run = detecting.then(() => detectAndStore(recording));
+	detecting = run;
+	const detection: Detection = { promise: run, failedAt: null };
+	detections.set(key, detection);
+	void run.then((found) => {
+		if (found) detections.delete(key);
+		else detection.failedAt = Date.now();
+	});
+	return run;
+}
+
 /**
- * Suggested boundaries for a ready recording. Waits up to `waitMs` for the detectors; if they
- * are still running it answers `working` and the caller asks again (the work carries on).
+ * Suggested boundaries for a ready recording, from its current captions and its rendition's
+ * sound and picture. Waits up to `waitMs` for the detectors on a first visit; if they are still
+ * running it answers `working` and the caller asks again (the work carries on).
  */
 export async function suggestionsFor(
 	recording: Recording,
@@ -156,38 +185,43 @@ export async function suggestionsFor(
 	if (recording.status !== 'ready') {
 		throw new SegmentError(409, 'The recording is not ready yet; suggestions follow once it is.');
 	}
-	const captions = currentCaptions(recording);
-	// readyAt changes when the recording is processed again, and with it the rendition.
-	const key = `${recording.id}:${recording.readyAt?.getTime() ?? 0}:${captions.track?.id ?? '-'}:${captions.version}`;
-	let entry = cache.get(key);
-	if (!entry) {
-		const run = detecting.then(() =>
-			detect(recording, captions.cues, captions.version, captions.language)
-		);
-		detecting = run.catch(() => undefined);
-		const created: CacheEntry = { promise: run, result: null, at: Date.now() };
-		run.then(
-			(result) => (created.result = result),
-			() => cache.delete(key)
-		);
-		if (cache.size >= CACHE_MAX) cache.delete(cache.keys().next().value!);
-		cache.set(key, created);
-		entry = created;
+	let signals: MediaSignals | null | Promise<MediaSignals | null> = signalsFor(recording);
+	if (signals instanceof Promise) {
+		let timer: ReturnType<typeof setTimeout> | undefined;
+		const waited = await Promise.race([
+			signals,
+			new Promise<'waiting'>((resolve) => (timer = setTimeout(() => resolve('waiting'), waitMs)))
+		]).finally(() => clearTimeout(timer));
+		if (waited === 'waiting') return { state: 'working', recordingId: recording.id };
+		signals = waited;
 	}
-	if (entry.result) return entry.result;
-	let timer: ReturnType<typeof setTimeout> | undefined;
-	const waited = await Promise.race([
-		entry.promise,
-		new Promise<null>((resolve) => (timer = setTimeout(() => resolve(null), waitMs)))
-	]).finally(() => clearTimeout(timer));
-	return waited ?? { state: 'working', recordingId: recording.id };
+	// Read after the wait: captions saved meanwhile are the ones to suggest from.
+	const captions = currentCaptions(recording);
+	const words = { language: captions.language, wordLists: configuredWordLists() };
+	const input = { cues: captions.cues, durationSeconds: recording.durationSeconds };
+	return {
+		state: 'ready',
+		recordingId: recording.id,
+		durationSeconds: recording.durationSeconds,
+		captionsVersion: captions.version,
+		suggestions: suggestBoundaries(
+			{ ...input, ...(signals ?? { silences: [], sceneChanges: [] }) },
+			{ ...words, minSilenceSeconds: DEFAULT_MIN_SILENCE_SECONDS }
+		),
+		// The captions alone still say a good deal; the page says what was left out.
+		note: signals
+			? null
+			: 'The sound and picture could not be read this time, so these suggestions come from the captions alone.'
+	};
 }
 
-/** Forgets cached suggestions (tests, and a recording whose rendition was made again). */
+/** Forgets what the detectors found (tests, and asking for a fresh measurement). */
 export function forgetSuggestions(recordingId?: string): void {
-	for (const key of [...cache.keys()]) {
-		if (!recordingId || key.startsWith(`${recordingId}:`)) cache.delete(key);
+	for (const key of [...detections.keys()]) {
+		if (!recordingId || key.startsWith(`${recordingId}:`)) detections.delete(key);
 	}
+	const rows = db().delete(recordingSignals);
+	(recordingId ? rows.where(eq(recordingSignals.recordingId, recordingId)) : rows).run();
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -368,6 +402,10 @@ export interface Confirmed {
 	segments: SegmentRow[];
 	/** The chapters track written from them, and its new version. */
 	chapters: { trackId: string; version: number };
+	/** Superseded segments that nothing used, deleted with this confirmation. */
+	removed: string[];
+	/** Settles once the removed segments' clips and posters are deleted from storage. */
+	filesRemoved: Promise<void>;
 }
 
 /**
@@ -411,7 +449,32 @@ export function confirmSegments(
 				.set({ supersededAt: now })
 				.where(and(eq(segments.recordingId, recording.id), isNull(segments.supersededAt)))
 				.run();
-			return cleaned.map((s, position) => {
+			const removed = tx
+				.delete(segments)
+				.where(
+					and(
+						eq(segments.recordingId, recording.id),
+						isNotNull(segments.supersededAt),
+						// A cut still running would store its clip after the files were deleted.
+						ne(segments.status, 'cutting'),
+						notExists(
+							tx
+								.select({ id: exercises.id })
+								.from(exercises)
+								.where(eq(exercises.segmentId, segments.id))
+						),
+						notExists(
+							tx
+								.select({ id: librarySubmissions.id })
+								.from(librarySubmissions)
+								.where(eq(librarySubmissions.segmentId, segments.id))
+						)
+					)
+				)
+				.returning({ id: segments.id })
+				.all()
+				.map((r) => r.id);
+			const rows = cleaned.map((s, position) => {
 				const row = tx
 					.insert(segments)
 					.values({
@@ -441,11 +504,34 @@ export function confirmSegments(
 				);
 				return row;
 			});
+			return { rows, removed };
 		},
 		{ behavior: 'immediate' }
 	);
-	const chapters = writeChapters(recording, inserted, captions.language, clinician.id);
-	return { segments: inserted, chapters };
+	const chapters = writeChapters(recording, inserted.rows, captions.language, clinician.id);
+	return {
+		segments: inserted.rows,
+		chapters,
+		removed: inserted.removed,
+		filesRemoved: deleteSegmentFiles(recording, inserted.removed)
+	};
+}
+
+/**
+ * Deletes the clips and posters of segments whose rows are gone. The rows go first, in the
+ * confirmation's transaction, so a crash here leaves unreachable files, never a segment without
+ * its clip. Never rejects: a failure is logged and the files stay.
+ */
+async function deleteSegmentFiles(recording: Recording, segmentIds: readonly string[]) {
+	const keys = recordingKeys(recording.clinicId, recording.id);
+	for (const id of segmentIds) {
+		try {
+			await deleteObject(keys.segment(id));
+			await deletePrefix(keys.segmentPoster(id, 0).replace(/[^/]+$/, ''));
+		} catch (error) {
+			console.error(`[segments] the files of removed segment ${id} could not be deleted:`, error);
+		}
+	}
 }
 
 /** The recording's chapters track: the one in the captions' language, else its first. */

@@ -50,3 +50,25 @@ export const segments = sqliteTable(
 );
 
 export type SegmentRow = typeof segments.$inferSelect;
+
+/**
+ * What the detectors found in a recording's rendition: stretches of silence and the times the
+ * picture changed. Finding them takes two ffmpeg passes over the whole rendition (tens of seconds
+ * for a long recording), while turning them into suggestions with the current cues takes
+ * milliseconds; so they are kept here, measured once per rendition and per detector settings, and
+ * a caption save or a restart never runs the detectors again.
+ */
+export const recordingSignals = sqliteTable('recording_signals', {
+	recordingId: text('recording_id')
+		.primaryKey()
+		.references(() => recordings.id, { onDelete: 'cascade' }),
+	/** The rendition measured: the recording's ready_at when it was made. */
+	renditionReadyAt: integer('rendition_ready_at', { mode: 'timestamp_ms' }).notNull(),
+	/** The detector settings used, e.g. `silence -45 dB 1.5 s; scene 0.3`; others mean measure again. */
+	settings: text('settings').notNull(),
+	silences: text('silences', { mode: 'json' }).notNull().$type<{ start: number; end: number }[]>(),
+	sceneChanges: text('scene_changes', { mode: 'json' }).notNull().$type<number[]>(),
+	detectedAt: timestampNow('detected_at')
+});
+
+export type RecordingSignals = typeof recordingSignals.$inferSelect;

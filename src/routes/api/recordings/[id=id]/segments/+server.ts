@@ -52,7 +52,8 @@ export const GET: RequestHandler = ({ params }) => {
 
 /**
  * Confirms `{ segments: [{ title, start, end }] }`: 201 with the new segments (being cut), or 422
- * with every problem. The segments confirmed before are superseded, not deleted.
+ * with every problem. The segments confirmed before are superseded: those an exercise or a library
+ * submission uses stay, the rest are deleted with their clips and posters.
  */
 export const POST: RequestHandler = async ({ params, request }) => {
 	const found = ownRecording(params.id);
