@@ -78,8 +78,12 @@ function makeAuthConfig(): SvelteKitAuthConfig {
 					// Unknown addresses get no e-mail, yet the page says the same thing to everyone,
 					// so the form does not reveal who has an account.
 					const user = userByEmail(identifier);
-					if (!user || !loadPrincipal(user.id)) return;
-					await sendMail({ to: identifier, ...signInLinkMail({ url, expiresAt: expires }) });
+					const principal = user ? loadPrincipal(user.id) : null;
+					if (!principal) return;
+					await sendMail({
+						to: identifier,
+						...signInLinkMail({ url, expiresAt: expires, timeZone: principal.timeZone })
+					});
 				}
 			})
 		],

@@ -5,7 +5,13 @@ export const load: LayoutServerLoad = ({ locals }) => {
 	const user = locals.user;
 	return {
 		viewer: user
-			? { name: user.name, email: user.email, role: user.role, clinicName: user.clinicName }
+			? {
+					name: user.name,
+					email: user.email,
+					role: user.role,
+					clinicName: user.clinicName,
+					timeZone: user.timeZone
+				}
 			: null,
 		inboxEnabled: user?.role === 'admin' && inboxEnabled()
 	};

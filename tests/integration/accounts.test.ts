@@ -24,6 +24,7 @@ const {
 	signInLockout
 } = await import('../../src/lib/server/auth/sign-in-limits');
 const { listInbox, readInboxMessage } = await import('../../src/lib/server/mail/inbox');
+const { getClinicTimeZone, setClinicTimeZone } = await import('../../src/lib/server/clinics');
 
 type Principal = NonNullable<ReturnType<typeof loadPrincipal>>;
 
@@ -62,6 +63,64 @@ beforeAll(() => {
 	expect(testEnv.DEV_INBOX_URL).toMatch(/^http/);
 	clinic = makeClinic('Invented Test Clinic');
 	admin = makeStaff(clinic.id, 'boss@test-clinic.example', 'admin');
+});
+
+/** An invitation's expiry worded by Intl directly, independently of the app's formatter. */
+function expiryAsShown(email: string, timeZone: string): string {
+	const stored = db()
+		.query.invitations.findFirst({ where: eq(schema.invitations.email, email) })
+		.sync()!;
+	return new Intl.DateTimeFormat('en-GB', {
+		timeZone,
+		day: 'numeric',
+		month: 'short',
+		year: 'numeric',
+		hour: '2-digit',
+		minute: '2-digit',
+		hourCycle: 'h23',
+		timeZoneName: 'short'
+	}).format(stored.expiresAt);
+}
+
+describe('time zones', () => {
+	it("show a clinic's staff their clinic's zone and a patient their own, in the e-mails too", async () => {
+		const far = makeClinic('Invented Clinic Far Away');
+		expect(getClinicTimeZone(far.id)).toBe('Europe/London');
+		setClinicTimeZone(far.id, 'Pacific/Auckland');
+		const farAdmin = makeStaff(far.id, 'boss@far-clinic.example', 'admin');
+		expect(farAdmin.timeZone).toBe('Pacific/Auckland');
+
+		const email = 'new.educator@far-clinic.example';
+		await sendInvitation({ clinicId: far.id, email, role: 'educator', invitedBy: farAdmin });
+		const summary = (await listInbox()).find((m) => m.to.includes(email))!;
+		const text = (await readInboxMessage(summary.id))!.text!;
+		// The expiry as Auckland's clocks show it, with the zone's short name: UTC+13 in the
+		// southern summer, UTC+12 in winter (tz database), whichever today is.
+		const expected = expiryAsShown(email, 'Pacific/Auckland');
+		expect(text).toContain(`until ${expected}.`);
+		expect(expected).toMatch(/(GMT\+1[23]|NZ[DS]T)$/);
+
+		// A patient of that clinic who lives elsewhere sees their own zone, in the e-mail and after.
+		const physio = makeStaff(far.id, 'physio@far-clinic.example', 'clinician');
+		const patient = await invitePatient(physio, {
+			fullName: 'Orla Pennant',
+			email: 'orla@far-clinic.example',
+			affectedSide: 'right',
+			condition: 'Right knee replacement',
+			timeZone: 'Europe/Lisbon'
+		});
+		const patientMail = (await listInbox()).find((m) => m.to.includes('orla@far-clinic.example'))!;
+		const patientText = (await readInboxMessage(patientMail.id))!.text!;
+		expect(patientText).toContain(
+			`until ${expiryAsShown('orla@far-clinic.example', 'Europe/Lisbon')}.`
+		);
+		const token = await tokenMailedTo('orla@far-clinic.example');
+		const accepted = await acceptInvitation(token, { name: 'Orla Pennant', password: null });
+		expect(loadPrincipal(accepted.userId)).toMatchObject({
+			patientId: patient.id,
+			timeZone: 'Europe/Lisbon'
+		});
+	});
 });
 
 describe('staff invitations', () => {

@@ -2,6 +2,7 @@
  * A patient's clinical details as a clinician enters them (on the invitation form and the details
  * page): checked at the edge, kept as typed when refused.
  */
+import { DEFAULT_TIME_ZONE } from '$lib/format/instants';
 import { z } from 'zod';
 import { isLocalDate, isTimeZone } from '$lib/clinical/calendar';
 import { PRECAUTIONS, PROTOCOL_IDS_LIST, type PrecautionId } from './vocabulary';
@@ -82,7 +83,7 @@ export function detailsDraftFromForm(form: FormData): PatientDetailsDraft {
 			.map(String)
 			.filter((p) => known.has(p)),
 		otherPrecautions: get('otherPrecautions'),
-		timeZone: get('timeZone') || 'Europe/London'
+		timeZone: get('timeZone') || DEFAULT_TIME_ZONE
 	};
 }
 
@@ -108,7 +109,8 @@ export function detailsDraftFrom(p: {
 	};
 }
 
-export function emptyDetailsDraft(): PatientDetailsDraft {
+/** A new patient's form; the time zone starts as the clinic's. */
+export function emptyDetailsDraft(timeZone = DEFAULT_TIME_ZONE): PatientDetailsDraft {
 	return {
 		fullName: '',
 		affectedSide: 'not applicable',
@@ -117,7 +119,7 @@ export function emptyDetailsDraft(): PatientDetailsDraft {
 		protocol: '',
 		precautions: [],
 		otherPrecautions: '',
-		timeZone: 'Europe/London'
+		timeZone
 	};
 }
 

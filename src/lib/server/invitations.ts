@@ -73,26 +73,27 @@ export async function sendInvitation(input: {
 	});
 
 	const url = new URL(`/invite/${token}`, config().ORIGIN).toString();
+	const patient = input.patientId
+		? store.query.patients.findFirst({ where: eq(schema.patients.id, input.patientId) }).sync()
+		: undefined;
 	const content =
 		input.role === 'patient'
 			? patientInvitationMail({
 					clinicName: clinic.name,
-					patientName:
-						(input.patientId &&
-							store.query.patients
-								.findFirst({ where: eq(schema.patients.id, input.patientId) })
-								.sync()?.fullName) ||
-						email,
+					patientName: patient?.fullName || email,
 					clinicianName: input.invitedBy.name,
 					url,
-					expiresAt
+					expiresAt,
+					// The patient reads it at home: their own zone, which starts as the clinic's.
+					timeZone: patient?.timeZone ?? clinic.timeZone
 				})
 			: staffInvitationMail({
 					clinicName: clinic.name,
 					role: input.role,
 					inviterName: input.invitedBy.name,
 					url,
-					expiresAt
+					expiresAt,
+					timeZone: clinic.timeZone
 				});
 	await sendMail({ to: email, ...content });
 	recordAudit({

@@ -12,6 +12,8 @@ export interface Principal {
 	clinicName: string;
 	/** Set for patients: their patient record. */
 	patientId: string | null;
+	/** Where times are shown for them: the clinic's time zone, or a patient's own. */
+	timeZone: string;
 }
 
 /**
@@ -42,7 +44,8 @@ export function loadPrincipal(userId: string): Principal | null {
 			role: 'patient',
 			clinicId: patient.clinicId,
 			clinicName: patient.clinicName,
-			patientId: patient.patientId
+			patientId: patient.patientId,
+			timeZone: patient.timeZone
 		};
 	}
 	return null;
@@ -61,7 +64,8 @@ const principalStatements = prepared((store) => {
 			.select({
 				role: schema.memberships.role,
 				clinicId: schema.clinics.id,
-				clinicName: schema.clinics.name
+				clinicName: schema.clinics.name,
+				timeZone: schema.clinics.timeZone
 			})
 			.from(schema.memberships)
 			.innerJoin(schema.clinics, eq(schema.clinics.id, schema.memberships.clinicId))
@@ -72,7 +76,8 @@ const principalStatements = prepared((store) => {
 				patientId: schema.patients.id,
 				clinicId: schema.clinics.id,
 				clinicName: schema.clinics.name,
-				fullName: schema.patients.fullName
+				fullName: schema.patients.fullName,
+				timeZone: schema.patients.timeZone
 			})
 			.from(schema.patients)
 			.innerJoin(schema.clinics, eq(schema.clinics.id, schema.patients.clinicId))

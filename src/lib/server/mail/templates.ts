@@ -2,6 +2,8 @@
  * Kinelume's e-mails, each as plain text and simple HTML. Links are absolute so that they work
  * from any mail client. The wording is ours, plain, and says who sent the message and why.
  */
+import { formatInstant } from '$lib/format/instants';
+
 export interface MailContent {
 	subject: string;
 	text: string;
@@ -44,11 +46,12 @@ export function staffInvitationMail(input: {
 	inviterName: string;
 	url: string;
 	expiresAt: Date;
+	timeZone: string;
 }): MailContent {
 	const subject = `You are invited to join ${input.clinicName} on Kinelume`;
 	const lines = [
 		`${input.inviterName} has invited you to join ${input.clinicName} on Kinelume as ${ROLE_WORDS[input.role] ?? input.role}.`,
-		`The link works once and until ${input.expiresAt.toUTCString()}. If you did not expect this message, you can ignore it.`
+		`The link works once and until ${formatInstant(input.expiresAt, input.timeZone, 'date-time-zone')}. If you did not expect this message, you can ignore it.`
 	];
 	return {
 		subject,
@@ -63,12 +66,13 @@ export function patientInvitationMail(input: {
 	clinicianName: string;
 	url: string;
 	expiresAt: Date;
+	timeZone: string;
 }): MailContent {
 	const subject = `${input.clinicName} has set up Kinelume for your home exercises`;
 	const lines = [
 		`Hello ${input.patientName},`,
 		`${input.clinicianName} at ${input.clinicName} will share your home exercise programme with you on Kinelume: short videos with captions, one exercise at a time.`,
-		`Open the link to set up your account. It works once and until ${input.expiresAt.toUTCString()}.`,
+		`Open the link to set up your account. It works once and until ${formatInstant(input.expiresAt, input.timeZone, 'date-time-zone')}.`,
 		'If anything in your programme causes sharp or worsening pain, stop and contact your clinician.'
 	];
 	return {
@@ -162,11 +166,15 @@ ${closing.map((p) => `<p style="margin:0 0 12px;color:#5a6272;font-size:16px">${
 	return { subject, text: `${text}\n`, html };
 }
 
-export function signInLinkMail(input: { url: string; expiresAt: Date }): MailContent {
+export function signInLinkMail(input: {
+	url: string;
+	expiresAt: Date;
+	timeZone: string;
+}): MailContent {
 	const subject = 'Your Kinelume sign-in link';
 	const lines = [
 		'Use the button below to sign in to Kinelume. The link works once.',
-		`It expires at ${input.expiresAt.toUTCString()}. If you did not ask for it, you can ignore this message: nobody can sign in without it.`
+		`It expires at ${formatInstant(input.expiresAt, input.timeZone, 'date-time-zone')}. If you did not ask for it, you can ignore this message: nobody can sign in without it.`
 	];
 	return {
 		subject,

@@ -3,7 +3,14 @@ import { z } from 'zod';
 import { STAFF_ROLES } from '$lib/server/db/schema/clinics';
 import { profiles } from '$lib/captions/checks';
 import { requireRole } from '$lib/server/auth/guard';
-import { getClinicCaptionProfile, setClinicCaptionProfile } from '$lib/server/clinics';
+import { isTimeZone } from '$lib/clinical/calendar';
+import { COMMON_TIME_ZONES } from '$lib/patients/vocabulary';
+import {
+	getClinicCaptionProfile,
+	getClinicTimeZone,
+	setClinicCaptionProfile,
+	setClinicTimeZone
+} from '$lib/server/clinics';
 import { normaliseEmail, sendInvitation } from '$lib/server/invitations';
 import {
 	changeRole,
@@ -22,6 +29,8 @@ export const load: PageServerLoad = () => {
 		clinicName: admin.clinicName,
 		selfId: admin.id,
 		captionProfile: getClinicCaptionProfile(admin.clinicId),
+		timeZone: getClinicTimeZone(admin.clinicId),
+		timeZones: COMMON_TIME_ZONES,
 		captionProfiles: Object.values(profiles).map((p) => ({
 			id: p.id,
 			label: p.label,
@@ -45,6 +54,12 @@ const inviteForm = z.object({
 const roleForm = z.object({ membershipId: z.uuid(), role: z.enum(STAFF_ROLES) });
 const idForm = z.object({ id: z.uuid() });
 const profileForm = z.object({ profile: z.enum(['bbc', 'dcmp'], 'Choose a caption guideline.') });
+const timeZoneForm = z.object({
+	timeZone: z
+		.string()
+		.trim()
+		.refine(isTimeZone, 'Choose a time zone from the list, e.g. Europe/London.')
+});
 
 function failed(
 	action: string,
@@ -102,6 +117,18 @@ export const actions: Actions = {
 		if (!parsed.success) return failed('captionProfile', parsed.error.issues[0].message);
 		setClinicCaptionProfile(admin.clinicId, parsed.data.profile);
 		return { action: 'captionProfile', saved: true };
+	},
+	timeZone: async ({ request }) => {
+		const admin = requireRole('admin');
+		const raw = Object.fromEntries(await request.formData());
+		const parsed = timeZoneForm.safeParse(raw);
+		if (!parsed.success) {
+			return failed('timeZone', parsed.error.issues[0].message, 400, {
+				timeZone: String(raw.timeZone ?? '')
+			});
+		}
+		setClinicTimeZone(admin.clinicId, parsed.data.timeZone);
+		return { action: 'timeZone', saved: true };
 	},
 	revoke: async ({ request }) => {
 		const admin = requireRole('admin');

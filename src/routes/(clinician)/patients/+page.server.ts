@@ -16,7 +16,7 @@ export const load: PageServerLoad = () => {
 	const clinician = requireRole('clinician');
 	return {
 		clinicName: clinician.clinicName,
-		blank: emptyDetailsDraft(),
+		blank: emptyDetailsDraft(clinician.timeZone),
 		patients: listPatients(clinician.clinicId).map((p) => ({
 			id: p.id,
 			fullName: p.fullName,

@@ -12,6 +12,8 @@ export const clinics = sqliteTable('clinic', {
 	captionProfile: text('caption_profile', { enum: ['bbc', 'dcmp'] })
 		.notNull()
 		.default('bbc'),
+	/** IANA time zone the clinic's pages show times in (patients have their own). */
+	timeZone: text('time_zone').notNull().default('Europe/London'),
 	createdAt: timestampNow('created_at')
 });
 

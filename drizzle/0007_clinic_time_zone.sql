@@ -1,0 +1,1 @@
+ALTER TABLE `clinic` ADD `time_zone` text DEFAULT 'Europe/London' NOT NULL;
