@@ -464,6 +464,61 @@ describe('confirming and cutting', () => {
 	}, 120_000);
 });
 
+describe('confirming again before the cuts are made', () => {
+	const jobsOf = (segmentIds: string[]) =>
+		db()
+			.select()
+			.from(schema.jobs)
+			.all()
+			.filter((j) => j.segmentId && segmentIds.includes(j.segmentId));
+
+	it('stops the cuts of the replaced segments: a queued one at once, a running one at its heartbeat', async () => {
+		const r = insertRecording('Confirmed twice in a row');
+		await storeRendition(r);
+		giveCaptions(r, cues);
+		const first = segments.confirmSegments(clinician, r.id, exercisePlan()).segments;
+		const firstIds = first.map((s) => s.id);
+		expect(jobsOf(firstIds).map((j) => j.status)).toEqual(['queued', 'queued']);
+		// A worker has started on the second one.
+		const running = jobsOf([first[1].id])[0];
+		db()
+			.update(schema.jobs)
+			.set({ status: 'running', lockedBy: 'test-worker', heartbeatAt: new Date(), attempts: 1 })
+			.where(eq(schema.jobs.id, running.id))
+			.run();
+
+		const second = segments.confirmSegments(clinician, r.id, exercisePlan());
+		// The queued cut is cancelled and its segment, never made, is gone with it.
+		expect(second.removed).toEqual([first[0].id]);
+		expect(segments.findSegment(clinic.id, first[0].id)).toBeNull();
+		expect(jobsOf([first[0].id])).toEqual([]);
+		// The running one is asked to stop; its segment waits until nothing can write its files.
+		const asked = jobsOf([first[1].id])[0];
+		expect(asked).toMatchObject({ status: 'running', cancelRequested: true });
+		expect(queue.heartbeat(asked.id, 'test-worker', { stage: 'cutting', progress: 0.5 })).toEqual({
+			stop: true
+		});
+		queue.markCancelled(asked.id, 'test-worker');
+		expect(segments.findSegment(clinic.id, first[1].id)?.supersededAt).toBeInstanceOf(Date);
+
+		// The next confirmation takes it away; the current segments' cuts were never touched.
+		const third = segments.confirmSegments(clinician, r.id, exercisePlan());
+		expect(third.removed.sort()).toEqual([first[1].id, ...second.segments.map((s) => s.id)].sort());
+		await third.filesRemoved;
+		expect(jobsOf(third.segments.map((s) => s.id)).map((j) => j.status)).toEqual([
+			'queued',
+			'queued'
+		]);
+		const cutting = worker();
+		try {
+			const rows = await settled(r.id);
+			expect(rows.map((s) => s.status)).toEqual(['ready', 'ready']);
+		} finally {
+			await cutting.stop();
+		}
+	}, 120_000);
+});
+
 describe('when cutting goes wrong', () => {
 	it('an attempt that dies after storing, before marking ready, leaves a retryable job and no ready segment', async () => {
 		const r = insertRecording('Crash after storing');

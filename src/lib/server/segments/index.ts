@@ -11,7 +11,7 @@ import { createHash } from 'node:crypto';
 import { mkdtemp, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { and, asc, desc, eq, inArray, isNotNull, isNull, ne, notExists } from 'drizzle-orm';
+import { and, asc, desc, eq, inArray, isNotNull, isNull, notExists } from 'drizzle-orm';
 import { chaptersFromSegments, shiftAndClip } from '$lib/captions/segment';
 import { suggestBoundaries, type Suggestion } from '$lib/captions/suggest';
 import { plainText } from '$lib/captions/text';
@@ -24,6 +24,7 @@ import { db } from '../db';
 import {
 	captionTracks,
 	exercises,
+	jobs,
 	librarySubmissions,
 	programmeItems,
 	programmes,
@@ -449,14 +450,40 @@ export function confirmSegments(
 				.set({ supersededAt: now })
 				.where(and(eq(segments.recordingId, recording.id), isNull(segments.supersededAt)))
 				.run();
+			// Cuts of segments replaced before they were made stop: a queued one now, a running one
+			// at its worker's next heartbeat (which aborts its ffmpeg).
+			const replacedWhileCutting = tx
+				.select({ id: segments.id })
+				.from(segments)
+				.where(
+					and(
+						eq(segments.recordingId, recording.id),
+						isNotNull(segments.supersededAt),
+						eq(segments.status, 'cutting')
+					)
+				);
+			tx.update(jobs)
+				.set({ status: 'cancelled', stage: 'cancelled', finishedAt: now })
+				.where(and(eq(jobs.status, 'queued'), inArray(jobs.segmentId, replacedWhileCutting)))
+				.run();
+			tx.update(jobs)
+				.set({ cancelRequested: true })
+				.where(and(eq(jobs.status, 'running'), inArray(jobs.segmentId, replacedWhileCutting)))
+				.run();
 			const removed = tx
 				.delete(segments)
 				.where(
 					and(
 						eq(segments.recordingId, recording.id),
 						isNotNull(segments.supersededAt),
-						// A cut still running would store its clip after the files were deleted.
-						ne(segments.status, 'cutting'),
+						// A cut still running could store its clip after the files were deleted; its
+						// segment goes with a later confirmation.
+						notExists(
+							tx
+								.select({ id: jobs.id })
+								.from(jobs)
+								.where(and(eq(jobs.segmentId, segments.id), eq(jobs.status, 'running')))
+						),
 						notExists(
 							tx
 								.select({ id: exercises.id })
