@@ -708,7 +708,7 @@ describe("a segment's captions", () => {
 	it('serialise as WebVTT from zero and as a transcript, with tags kept and removed', () => {
 		const [segment] = current(recording.id);
 		const vtt = segments.segmentVtt(segment);
-		const parsed = parseVtt(vtt.body);
+		const parsed = parseVtt(vtt.body());
 		expect(parsed.ok && parsed.cues.length).toBe(segment.cues.length);
 		expect(parsed.ok && parsed.cues[0].start).toBeCloseTo(segment.cues[0].start, 3);
 		expect(vtt.etag).toMatch(/^"[A-Za-z0-9_-]{32}"$/);

@@ -4,15 +4,18 @@
  * copies take. Without it every `<track>` load and every 304 read the version's cues from the
  * database and wrote the file again.
  */
-export class ExportCache {
-	readonly #entries = new Map<string, string>();
+export class ExportCache<Body extends string | Uint8Array = string> {
+	readonly #entries = new Map<string, Body>();
 	#size = 0;
 
-	/** `maxChars` bounds the total length of the kept files (JavaScript strings: UTF-16 units). */
+	/**
+	 * `maxChars` bounds the total length of the kept files: UTF-16 units for strings, bytes for
+	 * encoded files.
+	 */
 	constructor(readonly maxChars: number) {}
 
 	/** The kept file, which becomes the most recently used; undefined when it is not kept. */
-	get(key: string): string | undefined {
+	get(key: string): Body | undefined {
 		const body = this.#entries.get(key);
 		if (body === undefined) return undefined;
 		this.#entries.delete(key);
@@ -21,7 +24,7 @@ export class ExportCache {
 	}
 
 	/** Keeps a file, dropping the least recently used ones to stay within the limit. */
-	set(key: string, body: string): void {
+	set(key: string, body: Body): void {
 		this.delete(key);
 		// A file larger than the whole cache would only push everything else out.
 		if (body.length > this.maxChars) return;

@@ -1,6 +1,7 @@
 import { apiError } from '../api';
 import { exportTrack, type CaptionFormat } from '.';
 import { callerTrack, matchesNoneMatch, REVALIDATE, versionParam } from './api';
+import { ExportCache } from './export-cache';
 
 const TYPES: Record<CaptionFormat, string> = {
 	vtt: 'text/vtt; charset=utf-8',
@@ -26,14 +27,20 @@ export function serveTrackFile(
 	return serveCaptionFile(request, { ...file, format });
 }
 
+// The encoded bytes of files recently served, by their strong tag (which names one content for
+// good). Encoding a long track to UTF-8 on every request was a good part of each answer's cost.
+const encodedFiles = new ExportCache<Uint8Array<ArrayBuffer>>(16 * 1024 * 1024);
+const utf8 = new TextEncoder();
+
 /**
  * Answers with a caption file that a strong `etag` names (never changing for that tag): the right
  * type, revalidation on every use, inline for WebVTT (a `<track>` reads it) and a download for
- * SRT, and 304 when the caller already holds it. Segment captions and chapters use it too.
+ * SRT, and 304 when the caller already holds it. The body may be given as a function, so a 304 or
+ * a file already encoded never writes it again. Segment captions and chapters use it too.
  */
 export function serveCaptionFile(
 	request: Request,
-	file: { body: string; etag: string; filename: string; format: CaptionFormat }
+	file: { body: string | (() => string); etag: string; filename: string; format: CaptionFormat }
 ): Response {
 	const headers = new Headers({
 		ETag: file.etag,
@@ -48,5 +55,10 @@ export function serveCaptionFile(
 		headers.delete('Content-Type');
 		return new Response(null, { status: 304, headers });
 	}
-	return new Response(file.body, { status: 200, headers });
+	let bytes = encodedFiles.get(file.etag);
+	if (!bytes) {
+		bytes = utf8.encode(typeof file.body === 'function' ? file.body() : file.body);
+		encodedFiles.set(file.etag, bytes);
+	}
+	return new Response(bytes, { status: 200, headers });
 }

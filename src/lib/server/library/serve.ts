@@ -61,7 +61,7 @@ function captionsTag(kind: string, id: string): string {
 
 function vttOf(kind: string, id: string, cues: Cue[], language: string) {
 	return {
-		body: serializeVtt(cues),
+		body: () => serializeVtt(cues),
 		etag: captionsTag(kind, id),
 		filename: `captions-${language.replace(/[^A-Za-z0-9-]/g, '')}.vtt`,
 		format: 'vtt' as const

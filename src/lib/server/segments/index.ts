@@ -674,9 +674,13 @@ export function segmentTag(segment: SegmentRow, format: string): string {
 	return `"${hash.slice(0, 32)}"`;
 }
 
-export function segmentVtt(segment: SegmentRow): { body: string; etag: string; filename: string } {
+export function segmentVtt(segment: SegmentRow): {
+	body: () => string;
+	etag: string;
+	filename: string;
+} {
 	return {
-		body: serializeVtt(segment.cues),
+		body: () => serializeVtt(segment.cues),
 		etag: segmentTag(segment, 'vtt'),
 		filename: `segment-${segment.position + 1}-${segment.captionsLanguage.replace(/[^A-Za-z0-9-]/g, '')}.vtt`
 	};
