@@ -476,6 +476,16 @@ describe('runFfmpeg', () => {
 		expect(error).toBeInstanceOf(MediaError);
 		expect((error as MediaError).detail).toMatch(/Protocol 'http' not on whitelist 'file,pipe'/);
 	});
+
+	it('refuses a URL as input unless the caller names the network whitelist for it', async () => {
+		// Only cutSegment passes STORAGE_URL_WHITELIST, for a presigned URL it was given; any other
+		// `-i` gets the local one (the cut jobs' reads from storage are tested in segments-confirm).
+		const error = await runFfmpeg(['-i', 'http://127.0.0.1:9/rendition.mp4', '-f', 'null', '-'], {
+			timeoutSeconds: 10
+		}).catch((e: unknown) => e);
+		expect(error).toBeInstanceOf(MediaError);
+		expect((error as MediaError).detail).toMatch(/Protocol 'http' not on whitelist 'file,pipe'/);
+	});
 });
 
 describe('makePosters', () => {

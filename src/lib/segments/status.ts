@@ -16,7 +16,6 @@ export const CUT_STAGE_LABEL: Record<string, string> = {
 	waiting: 'Waiting for its turn',
 	'waiting to retry': 'Waiting to try again',
 	starting: 'Starting',
-	downloading: 'Fetching the web version',
 	cutting: 'Cutting the clip',
 	posters: 'Making posters',
 	storing: 'Saving',

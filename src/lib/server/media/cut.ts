@@ -1,6 +1,6 @@
 import { mkdir, rm } from 'node:fs/promises';
 import { dirname } from 'node:path';
-import { MediaError, runFfmpeg } from './ffmpeg';
+import { MediaError, runFfmpeg, STORAGE_URL_WHITELIST } from './ffmpeg';
 import { probeFile } from './probe';
 import { FIRST_PICTURE_AND_SOUND_ARGS, WEB_ENCODING_ARGS, WEB_MP4_MUX_ARGS } from './outputs';
 
@@ -32,6 +32,8 @@ const FALLBACK_FRAME_SECONDS = 1024 / 48000;
  * up to `start` (verified on this 2018 build: a cut from 2.3 s shows a 4.0 s picture change at
  * 1.72 s, the frame covering 2.3 s being kept). The result is probed, and a length that differs
  * from end − start by more than one frame is an error; the output is removed whenever it fails.
+ * `input` is a local path or a presigned URL of our storage, which ffmpeg reads with ranges: only
+ * the index and the part being cut cross the network, not the whole rendition.
  */
 export async function cutSegment(
 	input: string,
@@ -52,6 +54,7 @@ export async function cutSegment(
 				'-y',
 				'-ss',
 				start.toFixed(3),
+				...(/^https?:\/\//.test(input) ? ['-protocol_whitelist', STORAGE_URL_WHITELIST] : []),
 				'-i',
 				input,
 				'-t',

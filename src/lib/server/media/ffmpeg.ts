@@ -89,6 +89,12 @@ const NICENESS = 10;
 /** Local files in, local files or pipes out: never the network, whatever a file refers to. */
 export const PROTOCOL_WHITELIST = 'file,pipe';
 
+/**
+ * For an input that is a presigned URL of our own storage (a rendition we made), read with HTTP
+ * ranges. Only the caller that made the URL passes it, in front of that one `-i`.
+ */
+export const STORAGE_URL_WHITELIST = 'http,https,tcp,tls';
+
 export interface MediaProgress {
 	/** Seconds of output written so far. */
 	outTimeSeconds: number;
@@ -139,10 +145,11 @@ export function runFfprobe(args: string[], options: RunOptions = {}): Promise<Ru
 	});
 }
 
+/** Puts the local-only whitelist in front of every `-i` that does not name its own. */
 function whitelistInputs(args: string[]): string[] {
 	const out: string[] = [];
 	for (let i = 0; i < args.length; i++) {
-		if (args[i] === '-i' && args[i - 1] !== PROTOCOL_WHITELIST) {
+		if (args[i] === '-i' && args[i - 2] !== '-protocol_whitelist') {
 			out.push('-protocol_whitelist', PROTOCOL_WHITELIST);
 		}
 		out.push(args[i]);

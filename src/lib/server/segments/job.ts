@@ -9,17 +9,15 @@ import { recordings, segments, type Job } from '../db/schema';
 import type { JobContext, JobHandler } from '../jobs/worker';
 import { cutSegment } from '../media/cut';
 import { makePosters } from '../media/outputs';
-import { deleteObject, putObject } from '../storage';
+import { deleteObject, headObject, presignRead, putObject } from '../storage';
 import { recordingKeys } from '../storage/keys';
-import { downloadToFile } from '../storage/multipart';
 import { markSegmentFailed, markSegmentReady } from './index';
 
 export const SEGMENT_POSTER_COUNT = 3;
 
 // Share of the job each stage takes, so the bar moves at about the speed work gets done.
 const STAGES = [
-	['downloading', 0.15],
-	['cutting', 0.65],
+	['cutting', 0.8],
 	['posters', 0.1],
 	['storing', 0.1]
 ] as const;
@@ -66,14 +64,14 @@ async function cutSegmentJob(job: Job, context: JobContext): Promise<void> {
 	const { signal } = context;
 	const dir = await mkdtemp(join(config().MEDIA_WORK_DIR || tmpdir(), 'kinelume-cut-'));
 	try {
-		report('downloading');
-		const rendition = join(dir, 'rendition.mp4');
-		if (!(await downloadToFile(keys.rendition, rendition, signal))) {
+		report('cutting');
+		if (!(await headObject(keys.rendition))) {
 			throw new Error('The web version of the recording is missing from storage.');
 		}
-		signal.throwIfAborted();
-
-		report('cutting');
+		// ffmpeg reads the rendition from storage with byte ranges (the index, then the part it
+		// cuts), so a long recording's segments do not each download the whole file.
+		const { MEDIA_JOB_TIMEOUT_SECONDS } = config();
+		const rendition = await presignRead(keys.rendition, MEDIA_JOB_TIMEOUT_SECONDS + 60);
 		const clip = join(dir, 'segment.mp4');
 		const { durationSeconds } = await cutSegment(rendition, clip, {
 			start: segment.startSeconds,

@@ -11,6 +11,7 @@ import {
 	S3Client,
 	S3ServiceException
 } from '@aws-sdk/client-s3';
+import { getSignedUrl } from '@aws-sdk/s3-request-presigner';
 import { config } from '../config';
 
 export type ObjectBody = Uint8Array | string | Readable;
@@ -113,6 +114,17 @@ export async function getObjectStream(key: string, range?: string): Promise<Obje
 		if (isNotFound(error)) return null;
 		throw error;
 	}
+}
+
+/**
+ * A URL that reads one object for `expiresIn` seconds, with HTTP ranges: for the media worker's
+ * ffmpeg, which seeks in a long rendition and reads only the part it cuts. Never given to a
+ * browser (media reaches browsers through the role-checked endpoints).
+ */
+export async function presignRead(key: string, expiresIn: number): Promise<string> {
+	return getSignedUrl(storage(), new GetObjectCommand({ Bucket: bucketName(), Key: key }), {
+		expiresIn: Math.max(60, Math.min(Math.ceil(expiresIn), 7 * 24 * 3600))
+	});
 }
 
 /** An object's size and type without its body; null if missing. */
