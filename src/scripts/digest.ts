@@ -10,7 +10,7 @@ import { sendWeeklyDigests } from '../lib/server/followup/digest';
 config();
 const run = await sendWeeklyDigests({ log: (m) => console.error(m) });
 closeDatabase();
-console.log(`Weekly digest for the week of ${run.weekStart}:`);
+console.log(`Weekly digest for the week of ${run.weekStarts.join(', ') || '(no clinicians)'}:`);
 console.log(
 	`  sent to ${run.sent.length} clinician(s)${run.sent.length ? `: ${run.sent.join(', ')}` : ''}`
 );

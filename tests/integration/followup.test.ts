@@ -330,7 +330,7 @@ describe('the weekly digest', () => {
 				.where(eq(schema.weeklyDigests.userId, quiet.id))
 				.all()
 		).toEqual([]);
-		expect(first.weekStart).toBe('2026-11-30');
+		expect(first.weekStarts).toEqual(['2026-11-30']);
 		expect(first.failed).toEqual([]);
 		expect(first.sent).toEqual(
 			expect.arrayContaining([clinicianA.email, colleagueA.email, clinicianB.email])
@@ -372,8 +372,38 @@ describe('the weekly digest', () => {
 			now: new Date('2026-12-07T08:00:00Z'),
 			schedule: SCHEDULE
 		});
-		expect(next.weekStart).toBe('2026-12-07');
+		expect(next.weekStarts).toEqual(['2026-12-07']);
 		expect(next.sent).toContain(clinicianA.email);
 		expect((await listInbox()).filter((m) => m.to.includes(clinicianA.email))).toHaveLength(2);
+	});
+
+	it("goes out at the digest hour on each clinic's own clock", async () => {
+		const west = makeClinic('Invented Clinic Out West');
+		db()
+			.update(schema.clinics)
+			.set({ timeZone: 'America/New_York' })
+			.where(eq(schema.clinics.id, west.id))
+			.run();
+		const wren = makeClinician(west.id, 'Wren Tally');
+		publishProgramme(makePatient(wren, 'Ned Loam'), '2026-12-07');
+
+		// Monday 14 Dec 2026, 07:30 in London (GMT) is 02:30 in New York (EST, UTC−5; tz database):
+		// the London clinics' digests are due at the configured 07:00, New York's is not yet.
+		const early = await sendWeeklyDigests({ now: new Date('2026-12-14T07:30:00Z'), onlyDue: true });
+		expect(early.sent).toEqual(
+			expect.arrayContaining([clinicianA.email, colleagueA.email, clinicianB.email])
+		);
+		expect(early.sent).not.toContain(wren.email);
+		expect(early.notDueYet).toBe(1);
+		expect(early.weekStarts).toEqual(['2026-12-14']);
+
+		// 12:30 UTC is 07:30 in New York: only that clinic's digest is left to send.
+		const later = await sendWeeklyDigests({ now: new Date('2026-12-14T12:30:00Z'), onlyDue: true });
+		expect(later.sent).toEqual([wren.email]);
+		expect(later.notDueYet).toBe(0);
+		const mail = (await listInbox()).find((m) => m.to.includes(wren.email));
+		// Ned has logged nothing in the programme's first week, which the digest flags.
+		expect(mail?.subject).toBe('Your Kinelume week of 14 Dec 2026: 1 patient flagged');
+		expect((await readInboxMessage(mail!.id))?.text).toContain('No sessions logged');
 	});
 });

@@ -1,5 +1,4 @@
 import { z } from 'zod';
-import { isTimeZone } from '../clinical/calendar';
 
 /**
  * Every environment variable Kinelume reads, in one place, with defaults for the one-machine
@@ -78,13 +77,10 @@ const schema = z.object({
 	// A JSON file of extra segment word lists per language, e.g. {"en": {"announcing": ["up next"]}};
 	// empty means the built-in lists only (src/lib/captions/suggest.ts).
 	SEGMENT_WORD_LISTS_FILE: z.string().default(''),
-	// The clinicians' weekly digest: due from this ISO weekday (1 = Monday) and hour, local time.
+	// The clinicians' weekly digest: due from this ISO weekday (1 = Monday) and hour, on each
+	// clinic's own clock (its time zone, set on /clinic).
 	DIGEST_WEEKDAY: z.coerce.number().int().min(1).max(7).default(1),
 	DIGEST_HOUR: z.coerce.number().int().min(0).max(23).default(7),
-	DIGEST_TIME_ZONE: z
-		.string()
-		.refine(isTimeZone, 'must be an IANA time zone such as Europe/London')
-		.default('Europe/London'),
 	DIGEST_ENABLED: bool.default(true)
 });
 

@@ -11,26 +11,26 @@ import { weeklyDigestMail, type DigestPatient } from '../mail/templates';
 import { clinicPatients, figureInput, loadRecords } from './records';
 
 export interface DigestRun {
-	weekStart: string;
+	/** The ISO weeks (their Mondays) digests were sent or checked for; one per clinic time zone. */
+	weekStarts: string[];
 	/** Addresses a digest went to in this run. */
 	sent: string[];
 	/** Clinicians whose digest for this week had already gone (or is going from another worker). */
 	alreadySent: number;
 	/** Clinicians none of whose patients has a published programme or a log: nothing sent. */
 	nothingToReport: number;
+	/** Clinicians whose clinic has not reached the digest's weekday and hour yet (`onlyDue`). */
+	notDueYet: number;
 	failed: { email: string; reason: string }[];
 }
 
-export function digestSchedule(): DigestSchedule {
+/** When digests go out: the weekday and hour from the configuration, on the clinic's clock. */
+export function digestSchedule(timeZone: string): DigestSchedule {
 	const c = config();
-	return {
-		weekday: c.DIGEST_WEEKDAY as Weekday,
-		hour: c.DIGEST_HOUR,
-		timeZone: c.DIGEST_TIME_ZONE
-	};
+	return { weekday: c.DIGEST_WEEKDAY as Weekday, hour: c.DIGEST_HOUR, timeZone };
 }
 
-/** Every clinician of every clinic, with their clinic's name. */
+/** Every clinician of every clinic, with their clinic's name and time zone. */
 function clinicians() {
 	return db()
 		.select({
@@ -38,7 +38,8 @@ function clinicians() {
 			email: schema.users.email,
 			name: schema.users.name,
 			clinicId: schema.clinics.id,
-			clinicName: schema.clinics.name
+			clinicName: schema.clinics.name,
+			clinicTimeZone: schema.clinics.timeZone
 		})
 		.from(schema.memberships)
 		.innerJoin(schema.users, eq(schema.users.id, schema.memberships.userId))
@@ -76,17 +77,52 @@ export function digestPatients(
 /**
  * Sends each clinician this week's digest, once: a row in weekly_digest (unique per clinician and
  * week) is claimed before the e-mail goes, so a restart, a second worker or `npm run digest` run
- * twice sends nothing more; a failed send gives the claim back, for the next try.
+ * twice sends nothing more; a failed send gives the claim back, for the next try. A clinic's week
+ * and hour are on its own clock. With `onlyDue`, clinics whose digest hour has not come yet are
+ * left for a later run (the hourly check); without it (`npm run digest`) everyone's goes now.
+ * `schedule` replaces the configured one for every clinic (tests).
  */
 export async function sendWeeklyDigests(
-	options: { now?: Date; schedule?: DigestSchedule; log?: (m: string) => void } = {}
+	options: {
+		now?: Date;
+		schedule?: DigestSchedule;
+		onlyDue?: boolean;
+		log?: (m: string) => void;
+	} = {}
 ): Promise<DigestRun> {
 	const now = options.now ?? new Date();
-	const schedule = options.schedule ?? digestSchedule();
-	const { weekStart } = digestWeek(now, schedule);
-	const run: DigestRun = { weekStart, sent: [], alreadySent: 0, nothingToReport: 0, failed: [] };
+	const run: DigestRun = {
+		weekStarts: [],
+		sent: [],
+		alreadySent: 0,
+		nothingToReport: 0,
+		notDueYet: 0,
+		failed: []
+	};
 	const origin = config().ORIGIN;
 	for (const clinician of clinicians()) {
+		const schedule = options.schedule ?? digestSchedule(clinician.clinicTimeZone);
+		const { weekStart, due } = digestWeek(now, schedule);
+		if (options.onlyDue && !due) {
+			run.notDueYet += 1;
+			continue;
+		}
+		if (!run.weekStarts.includes(weekStart)) run.weekStarts.push(weekStart);
+		// Checked before the figures are worked out: the hourly check asks all week long.
+		const sentBefore = db()
+			.select({ userId: schema.weeklyDigests.userId })
+			.from(schema.weeklyDigests)
+			.where(
+				and(
+					eq(schema.weeklyDigests.userId, clinician.id),
+					eq(schema.weeklyDigests.weekStart, weekStart)
+				)
+			)
+			.get();
+		if (sentBefore) {
+			run.alreadySent += 1;
+			continue;
+		}
 		const patients = digestPatients(clinician, now);
 		// Not claimed, so the week's digest still goes once there is something to say.
 		if (!patients.some((p) => p.reportable)) {
@@ -130,23 +166,26 @@ export async function sendWeeklyDigests(
 			options.log?.(`[digest] sending to ${clinician.email} failed: ${reason}`);
 		}
 	}
+	run.weekStarts.sort();
 	return run;
 }
 
 /**
- * Checks once an hour (and at start) whether this week's digest is due, and sends what has not
- * gone yet. Runs beside the job worker; returns a function that stops it.
+ * Checks once an hour (and at start) which clinics' digests are due, and sends what has not gone
+ * yet. Runs beside the job worker; returns a function that stops it.
  */
 export function startDigestSchedule(log: (m: string) => void = console.log): () => void {
 	if (!config().DIGEST_ENABLED) return () => {};
 	let running = false;
 	const check = () => {
-		if (running || !digestWeek(new Date(), digestSchedule()).due) return;
+		if (running) return;
 		running = true;
-		sendWeeklyDigests({ log })
+		sendWeeklyDigests({ onlyDue: true, log })
 			.then((run) => {
 				if (run.sent.length > 0)
-					log(`[digest] sent ${run.sent.length} weekly digest(s) for the week of ${run.weekStart}`);
+					log(
+						`[digest] sent ${run.sent.length} weekly digest(s) for the week of ${run.weekStarts.join(', ')}`
+					);
 			})
 			.catch((error: unknown) => log(`[digest] failed: ${String(error)}`))
 			.finally(() => {
