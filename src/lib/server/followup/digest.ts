@@ -30,6 +30,14 @@ export function digestSchedule(timeZone: string): DigestSchedule {
 	return { weekday: c.DIGEST_WEEKDAY as Weekday, hour: c.DIGEST_HOUR, timeZone };
 }
 
+/** The weekly_digest row of one clinician and week. */
+function digestOf(userId: string, weekStart: string) {
+	return and(
+		eq(schema.weeklyDigests.userId, userId),
+		eq(schema.weeklyDigests.weekStart, weekStart)
+	);
+}
+
 /** Every clinician of every clinic, with their clinic's name and time zone. */
 function clinicians() {
 	return db()
@@ -112,12 +120,7 @@ export async function sendWeeklyDigests(
 		const sentBefore = db()
 			.select({ userId: schema.weeklyDigests.userId })
 			.from(schema.weeklyDigests)
-			.where(
-				and(
-					eq(schema.weeklyDigests.userId, clinician.id),
-					eq(schema.weeklyDigests.weekStart, weekStart)
-				)
-			)
+			.where(digestOf(clinician.id, weekStart))
 			.get();
 		if (sentBefore) {
 			run.alreadySent += 1;
@@ -152,15 +155,7 @@ export async function sendWeeklyDigests(
 			await sendMail({ to: clinician.email, ...mail });
 			run.sent.push(clinician.email);
 		} catch (error) {
-			db()
-				.delete(schema.weeklyDigests)
-				.where(
-					and(
-						eq(schema.weeklyDigests.userId, clinician.id),
-						eq(schema.weeklyDigests.weekStart, weekStart)
-					)
-				)
-				.run();
+			db().delete(schema.weeklyDigests).where(digestOf(clinician.id, weekStart)).run();
 			const reason = error instanceof Error ? error.message : String(error);
 			run.failed.push({ email: clinician.email, reason });
 			options.log?.(`[digest] sending to ${clinician.email} failed: ${reason}`);
