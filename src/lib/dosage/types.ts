@@ -32,6 +32,11 @@ export const DOSAGE_FIELDS: readonly DosageField[] = [
 	'daysPerWeek'
 ];
 
+/** The six dosage numbers of a row that has more (an exercise's default, a programme item's own). */
+export function dosageOf(row: Dosage): Dosage {
+	return Object.fromEntries(DOSAGE_FIELDS.map((f) => [f, row[f]])) as unknown as Dosage;
+}
+
 /** Plain names of the fields, for messages and table headings. */
 export const DOSAGE_FIELD_LABELS: Record<DosageField, string> = {
 	sets: 'Sets',

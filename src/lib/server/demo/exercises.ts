@@ -1,3 +1,4 @@
+import { dosageOf } from '$lib/dosage';
 import { and, eq, isNull } from 'drizzle-orm';
 import { addDays } from '$lib/clinical/calendar';
 import type { ExerciseInput } from '$lib/exercises/schema';
@@ -332,14 +333,7 @@ export async function seedDemoExercises(
 	const itemsOf = (rows: ReturnType<typeof exerciseRows>) =>
 		rows.map((e) => ({
 			exerciseId: e.id,
-			dosage: {
-				sets: e.sets,
-				reps: e.reps,
-				holdSeconds: e.holdSeconds,
-				restSeconds: e.restSeconds,
-				sessionsPerDay: e.sessionsPerDay,
-				daysPerWeek: e.daysPerWeek
-			},
+			dosage: dosageOf(e),
 			progression: e.progression
 		}));
 

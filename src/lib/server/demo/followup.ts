@@ -1,3 +1,4 @@
+import { dosageOf } from '$lib/dosage';
 import { and, eq, inArray } from 'drizzle-orm';
 import {
 	addDays,
@@ -135,15 +136,8 @@ async function ensureProgramme(
 		note: input.note,
 		items: exercises.map((e) => ({
 			exerciseId: e.id,
-			dosage: {
-				sets: e.sets,
-				reps: e.reps,
-				holdSeconds: e.holdSeconds,
-				restSeconds: e.restSeconds,
-				// Two sessions a day keeps a demo week readable.
-				sessionsPerDay: Math.min(e.sessionsPerDay, 2),
-				daysPerWeek: e.daysPerWeek
-			},
+			// Two sessions a day keeps a demo week readable.
+			dosage: { ...dosageOf(e), sessionsPerDay: Math.min(e.sessionsPerDay, 2) },
 			progression: e.progression
 		}))
 	});

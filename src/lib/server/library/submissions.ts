@@ -4,6 +4,7 @@
  * educator. Educators review submissions from every clinic — the library is shared — but see
  * only what was submitted: never the clinic's patients, recordings or other exercises.
  */
+import { dosageOf } from '$lib/dosage';
 import { and, asc, desc, eq, inArray, ne } from 'drizzle-orm';
 import { computeChecklist, type Checklist } from '$lib/library/checklist';
 import type { ExerciseSnapshot, Licence, SubmissionStatus } from '$lib/library/types';
@@ -86,14 +87,7 @@ export function snapshotOf(
 		movementType: exercise.movementType,
 		equipment: [...exercise.equipment],
 		phase: exercise.phase,
-		dosage: {
-			sets: exercise.sets,
-			reps: exercise.reps,
-			holdSeconds: exercise.holdSeconds,
-			restSeconds: exercise.restSeconds,
-			sessionsPerDay: exercise.sessionsPerDay,
-			daysPerWeek: exercise.daysPerWeek
-		},
+		dosage: dosageOf(exercise),
 		coachingCues: words.coachingCues
 			.map((text) => text.trim())
 			.filter(Boolean)

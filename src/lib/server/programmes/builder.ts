@@ -4,7 +4,8 @@ import type { Progression } from '$lib/dosage';
 import { db } from '../db';
 import { exercises } from '../db/schema';
 import { withSegments, type ExerciseRow } from '../exercises';
-import { dosageOf, patientToday, type ProgrammeView } from './index';
+import { dosageOf } from '$lib/dosage';
+import { patientToday, type ProgrammeView } from './index';
 
 function toBuilderExercise(e: ExerciseRow): BuilderExercise {
 	return {

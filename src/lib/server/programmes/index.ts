@@ -1,6 +1,6 @@
 import { and, asc, count, desc, eq, inArray, ne } from 'drizzle-orm';
 import { localDateOf } from '$lib/clinical/calendar';
-import { describeDosage, type Dosage, type Progression } from '$lib/dosage';
+import { describeDosage, dosageOf, type Progression } from '$lib/dosage';
 import type { ProgrammeSave } from '$lib/programmes/schema';
 import { config } from '../config';
 import { db } from '../db';
@@ -35,20 +35,6 @@ export interface ProgrammeView {
 	programme: Programme;
 	patient: Patient;
 	items: ProgrammeItemView[];
-}
-
-const DOSAGE_KEYS = [
-	'sets',
-	'reps',
-	'holdSeconds',
-	'restSeconds',
-	'sessionsPerDay',
-	'daysPerWeek'
-] as const;
-
-/** The six dosage numbers of a row (an exercise's default or an item's own). */
-export function dosageOf(row: Dosage): Dosage {
-	return Object.fromEntries(DOSAGE_KEYS.map((k) => [k, row[k]])) as unknown as Dosage;
 }
 
 /** Today in the patient's own calendar. */

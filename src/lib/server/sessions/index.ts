@@ -7,7 +7,7 @@ import { and, desc, eq, inArray, isNotNull } from 'drizzle-orm';
 import { plainText } from '$lib/captions/text';
 import { scheduledWeekdays } from '$lib/clinical/adherence';
 import { addDays, localDateOf, programmeWeek, type LocalDate } from '$lib/clinical/calendar';
-import { describeDosage, dosageForWeek, type Dosage } from '$lib/dosage';
+import { describeDosage, dosageForWeek, dosageOf, type Dosage } from '$lib/dosage';
 import { effectiveCaptionStyle, type CaptionStyle } from '$lib/sessions/caption-style';
 import type { SessionLogData, StoredSessionLog } from '$lib/sessions/log';
 import type { TranscriptLine } from '$lib/sessions/replay';
@@ -45,17 +45,6 @@ function pausesOf(programmeId: string) {
 		.from(schema.programmePauses)
 		.where(eq(schema.programmePauses.programmeId, programmeId))
 		.all();
-}
-
-export function dosageOf(row: Dosage): Dosage {
-	return {
-		sets: row.sets,
-		reps: row.reps,
-		holdSeconds: row.holdSeconds,
-		restSeconds: row.restSeconds,
-		sessionsPerDay: row.sessionsPerDay,
-		daysPerWeek: row.daysPerWeek
-	};
 }
 
 /** The item's dosage on a date: its own dosage risen by its progression to that programme week. */
