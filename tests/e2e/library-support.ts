@@ -3,9 +3,8 @@
  * library journey: exercises on seeded segments, submissions, public exercises (published,
  * unpublished, retired) with their public copies, and collections.
  */
-import { PutObjectCommand, S3Client } from '@aws-sdk/client-s3';
-import { E2E } from './ports';
-import { database } from './support';
+import { PutObjectCommand } from '@aws-sdk/client-s3';
+import { database, storageClient } from './support';
 
 interface SeedCue {
 	id: string;
@@ -15,14 +14,7 @@ interface SeedCue {
 }
 
 async function put(key: string, body: string | Uint8Array, type: string): Promise<void> {
-	const s3 = new S3Client({
-		region: 'us-east-1',
-		endpoint: `http://127.0.0.1:${E2E.storagePort}`,
-		forcePathStyle: true,
-		credentials: { accessKeyId: 'S3RVER', secretAccessKey: 'S3RVER' },
-		requestChecksumCalculation: 'WHEN_REQUIRED',
-		responseChecksumValidation: 'WHEN_REQUIRED'
-	});
+	const s3 = storageClient();
 	try {
 		await s3.send(
 			new PutObjectCommand({ Bucket: 'kinelume', Key: key, Body: body, ContentType: type })

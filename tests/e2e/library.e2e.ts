@@ -5,7 +5,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { promisify } from 'node:util';
 import ffmpegInstaller from '@ffmpeg-installer/ffmpeg';
-import { PutObjectCommand, S3Client } from '@aws-sdk/client-s3';
+import { PutObjectCommand } from '@aws-sdk/client-s3';
 import { makeClip } from '../integration/recordings-support';
 import {
 	ACCOUNTS,
@@ -14,11 +14,11 @@ import {
 	firstLink,
 	seedReadyRecording,
 	signedInRequest,
+	storageClient,
 	waitForMail
 } from './support';
 import { seedReadySegment } from './segments-support';
 import { seedCollection, seedExercise, seedPublicExercise } from './library-support';
-import { E2E } from './ports';
 
 const run = promisify(execFile);
 const SHOTS = join(import.meta.dirname, '../.run/e2e-results');
@@ -69,14 +69,7 @@ test.beforeAll(async () => {
 		clinicId: string;
 	};
 	db.close();
-	const s3 = new S3Client({
-		region: 'us-east-1',
-		endpoint: `http://127.0.0.1:${E2E.storagePort}`,
-		forcePathStyle: true,
-		credentials: { accessKeyId: 'S3RVER', secretAccessKey: 'S3RVER' },
-		requestChecksumCalculation: 'WHEN_REQUIRED',
-		responseChecksumValidation: 'WHEN_REQUIRED'
-	});
+	const s3 = storageClient();
 	await s3.send(
 		new PutObjectCommand({
 			Bucket: 'kinelume',
