@@ -2,15 +2,24 @@ import { SvelteKitAuth, type SvelteKitAuthConfig } from '@auth/sveltekit';
 import Credentials from '@auth/sveltekit/providers/credentials';
 import Nodemailer from '@auth/sveltekit/providers/nodemailer';
 import { DrizzleAdapter } from '@auth/drizzle-adapter';
-import { eq } from 'drizzle-orm';
+import { and, eq, lt } from 'drizzle-orm';
 import { z } from 'zod';
 import { config } from '$lib/server/config';
 import { db, schema } from '$lib/server/db';
 import { recordAudit } from '$lib/server/audit';
 import { authSecret } from '$lib/server/auth/secret';
-import { SESSION_MAX_AGE_SECONDS } from '$lib/server/auth/session';
+import { LONGEST_SESSION_SECONDS } from '$lib/auth/session-policy';
+import { safeRedirect } from '$lib/forms/safe-redirect';
 import { verifyPassword } from '$lib/server/auth/passwords';
 import { loadPrincipal } from '$lib/server/auth/principal';
+import { currentClientAddress } from '$lib/server/auth/request-context';
+import { createSession, endSession } from '$lib/server/auth/sessions';
+import {
+	attemptLockout,
+	clearPasswordFailures,
+	recordLinkRequest,
+	recordPasswordFailure
+} from '$lib/server/auth/sign-in-limits';
 import { sendMail, smtpOptions } from '$lib/server/mail';
 import { signInLinkMail } from '$lib/server/mail/templates';
 import { normaliseEmail } from '$lib/server/invitations';
@@ -28,8 +37,13 @@ function userByEmail(email: string) {
 
 /**
  * Auth.js for Kinelume: a password, or a one-time link by e-mail. Sessions are JWTs (required by
- * the credentials provider); each request re-reads the person's role and clinic from the database
- * (hooks.server.ts), so the token carries only the user id.
+ * the credentials provider) carrying the user id and the id of the server's session record
+ * (`user_session`, src/lib/server/auth/sessions.ts), which hooks.server.ts checks on every request
+ * so a session can be ended; role and clinic are re-read from the database each time.
+ *
+ * The sign-in limits live here, inside `authorize()` and the e-mailed link's `signIn` callback, so
+ * they hold whichever route reaches Auth.js (hooks.server.ts also refuses Auth.js's raw POST
+ * routes, leaving only Kinelume's own forms).
  *
  * @auth/sveltekit calls the configuration function on every request. It is made once, on the
  * first request rather than at import (the database opens lazily), because building the Drizzle
@@ -53,7 +67,8 @@ function makeAuthConfig(): SvelteKitAuthConfig {
 		}),
 		secret: authSecret(),
 		trustHost: true,
-		session: { strategy: 'jwt', maxAge: SESSION_MAX_AGE_SECONDS },
+		// The cookie lives as long as the longest session may; the server record decides sooner.
+		session: { strategy: 'jwt', maxAge: LONGEST_SESSION_SECONDS },
 		pages: { signIn: '/signin', verifyRequest: '/signin/link-sent', error: '/signin' },
 		providers: [
 			Credentials({
@@ -61,10 +76,18 @@ function makeAuthConfig(): SvelteKitAuthConfig {
 				async authorize(raw) {
 					const parsed = credentialsSchema.safeParse(raw);
 					if (!parsed.success) return null;
-					const user = userByEmail(parsed.data.email);
-					const ok = await verifyPassword(user?.passwordHash ?? null, parsed.data.password);
+					const { email, password } = parsed.data;
+					const address = currentClientAddress();
+					// A locked account or address is refused before any password is checked.
+					if (attemptLockout('password-failure', email, address).locked) return null;
+					const user = userByEmail(email);
+					const ok = await verifyPassword(user?.passwordHash ?? null, password);
 					// Someone without a role in any clinic cannot use the product yet.
-					if (!user || !ok || !loadPrincipal(user.id)) return null;
+					if (!user || !ok || !loadPrincipal(user.id)) {
+						recordPasswordFailure(email, address, !user || !ok ? 'wrong' : 'no role');
+						return null;
+					}
+					clearPasswordFailures(email);
 					return { id: user.id, email: user.email, name: user.name };
 				}
 			}),
@@ -79,8 +102,17 @@ function makeAuthConfig(): SvelteKitAuthConfig {
 					// so the form does not reveal who has an account.
 					const user = userByEmail(identifier);
 					const principal = user ? loadPrincipal(user.id) : null;
+					recordLinkRequest(identifier, currentClientAddress(), Boolean(principal));
 					if (!principal) return;
+					// Only the newest link works: the older unused ones are retired. Auth.js stores
+					// this one alongside with exactly `expires`, which the condition keeps.
+					const tokens = schema.verificationTokens;
+					db()
+						.delete(tokens)
+						.where(and(eq(tokens.identifier, identifier), lt(tokens.expires, expires)))
+						.run();
 					await sendMail({
+						clinicId: principal.clinicId,
 						to: identifier,
 						...signInLinkMail({ url, expiresAt: expires, timeZone: principal.timeZone })
 					});
@@ -89,18 +121,36 @@ function makeAuthConfig(): SvelteKitAuthConfig {
 		],
 		callbacks: {
 			signIn({ user, email }) {
-				if (email?.verificationRequest) return true;
+				if (email?.verificationRequest) {
+					// Past the limit no link is made or sent; the sign-in page answers the same as
+					// always, so the form reveals neither the limit nor who has an account.
+					const address = normaliseEmail(user.email ?? '');
+					return !attemptLockout('link-request', address, currentClientAddress()).locked;
+				}
 				// Never create an account from a sign-in link: accounts come from invitations only.
 				const existing = user.email ? userByEmail(user.email) : undefined;
 				return Boolean(existing && loadPrincipal(existing.id));
 			},
 			jwt({ token, user }) {
-				if (user?.id) token.sub = user.id;
+				// Only at sign-in is `user` given: start the server's record of this session.
+				if (user?.id) {
+					const principal = loadPrincipal(user.id);
+					token.sub = user.id;
+					token.sid = principal ? createSession(user.id, principal.role) : undefined;
+				}
 				return token;
 			},
 			session({ session, token }) {
 				if (token.sub) session.user.id = token.sub;
+				if (typeof token.sid === 'string') session.sessionId = token.sid;
 				return session;
+			},
+			redirect({ url, baseUrl }) {
+				// Auth.js hands absolute URLs; only a path on this site survives.
+				const parsed = URL.canParse(url) ? new URL(url) : null;
+				const target =
+					parsed && parsed.origin === baseUrl ? `${parsed.pathname}${parsed.search}` : url;
+				return new URL(safeRedirect(target, baseUrl), baseUrl).toString();
 			}
 		},
 		logger: {
@@ -123,8 +173,10 @@ function makeAuthConfig(): SvelteKitAuthConfig {
 				});
 			},
 			signOut(message) {
-				const sub = 'token' in message ? message.token?.sub : undefined;
-				recordAudit({ kind: 'sign-out', actorUserId: sub ?? null, subject: '' });
+				const token = 'token' in message ? message.token : null;
+				const sid = token?.sid;
+				endSession(typeof sid === 'string' ? sid : undefined);
+				recordAudit({ kind: 'sign-out', actorUserId: token?.sub ?? null, subject: '' });
 			}
 		}
 	};

@@ -8,7 +8,9 @@ import {
 import { sequence } from '@sveltejs/kit/hooks';
 import { accessForRoute, decide } from '$lib/auth/access';
 import { loadPrincipal } from '$lib/server/auth/principal';
-import { readSessionUserId } from '$lib/server/auth/session';
+import { runWithRequestContext } from '$lib/server/auth/request-context';
+import { readSessionClaim, sessionCookieName, type SessionClaim } from '$lib/server/auth/session';
+import { sessionIsAlive } from '$lib/server/auth/sessions';
 import { config } from '$lib/server/config';
 import { db } from '$lib/server/db';
 import { startBackgroundWork, stopBackgroundWork } from '$lib/server/jobs';
@@ -28,23 +30,74 @@ export function init() {
 }
 
 /**
- * Who is asking: fills `locals.user` from the session token and the database. Reads of API
- * files (captions, transcripts, posters, media ranges, progress) only read the token; pages and
- * every change go through Auth.js, which also renews the session.
+ * Runs the request where Auth.js's callbacks can see the client's address (the sign-in limits
+ * count by it; src/lib/server/auth/request-context.ts).
  */
-const authentication: Handle = async ({ event, resolve }) => {
-	const userId = await sessionUserId(event);
-	event.locals.user = userId ? loadPrincipal(userId) : null;
+const requestContext: Handle = ({ event, resolve }) =>
+	runWithRequestContext({ clientAddress: event.getClientAddress() }, () => resolve(event));
+
+/**
+ * A change sent with a body but no Content-Type cannot be read as a form or JSON; say so plainly
+ * (400) instead of letting the reader fail as a server error.
+ */
+const contentTypeRequired: Handle = ({ event, resolve }) => {
+	const { method, headers } = event.request;
+	const hasBody =
+		method !== 'GET' &&
+		method !== 'HEAD' &&
+		(Number(headers.get('content-length') ?? 0) > 0 || headers.has('transfer-encoding'));
+	if (hasBody && !headers.get('content-type')) {
+		error(
+			400,
+			'The request had no Content-Type, so it could not be read. Send it from the page’s form.'
+		);
+	}
 	return resolve(event);
 };
 
-async function sessionUserId(event: RequestEvent): Promise<string | null> {
+/**
+ * Auth.js's own routes, kept to what Kinelume uses: the e-mailed sign-in link lands on
+ * `GET /auth/callback/nodemailer`. Everything else — the raw POST routes that would skip the
+ * sign-in page (password callback, link request, sign-out), its built-in pages, the CSRF and
+ * session JSON — answers 404. Kinelume's own forms call Auth.js directly from their actions.
+ */
+const AUTH_ROUTES_IN_USE = new Set([
+	'GET /auth/callback/nodemailer',
+	'HEAD /auth/callback/nodemailer'
+]);
+
+const authRoutes: Handle = ({ event, resolve }) => {
+	const path = event.url.pathname;
+	if (path === '/auth' || path.startsWith('/auth/')) {
+		if (!AUTH_ROUTES_IN_USE.has(`${event.request.method} ${path}`)) error(404, 'Not found.');
+	}
+	return resolve(event);
+};
+
+/**
+ * Who is asking: fills `locals.user` from the session token, the session record and the
+ * database. A token whose session was ended (sign-out, a password or role change, a removal) or
+ * ran out is treated as no session and its cookie is cleared. Reads of API files (captions,
+ * transcripts, posters, media ranges, progress) only read the token; pages and every change go
+ * through Auth.js, which also renews the token.
+ */
+const authentication: Handle = async ({ event, resolve }) => {
+	const claim = await sessionClaim(event);
+	const alive = claim !== null && sessionIsAlive(claim.sessionId, claim.userId);
+	if (claim && !alive) event.cookies.delete(sessionCookieName(event.url), { path: '/' });
+	event.locals.user = alive ? loadPrincipal(claim.userId) : null;
+	event.locals.sessionId = alive && event.locals.user ? (claim.sessionId ?? null) : null;
+	return resolve(event);
+};
+
+async function sessionClaim(event: RequestEvent): Promise<SessionClaim | null> {
 	const method = event.request.method;
 	if ((method === 'GET' || method === 'HEAD') && event.url.pathname.startsWith('/api/')) {
-		const read = await readSessionUserId(event.cookies, event.url);
+		const read = await readSessionClaim(event.cookies, event.url);
 		if (read !== 'chunked') return read;
 	}
-	return (await event.locals.auth())?.user?.id ?? null;
+	const session = await event.locals.auth();
+	return session?.user?.id ? { userId: session.user.id, sessionId: session.sessionId } : null;
 }
 
 /**
@@ -87,6 +140,10 @@ const securityHeaders: Handle = async ({ event, resolve }) => {
 	response.headers.set('Referrer-Policy', 'strict-origin-when-cross-origin');
 	response.headers.set('X-Frame-Options', 'DENY');
 	response.headers.set('Permissions-Policy', 'camera=(), microphone=(), geolocation=()');
+	// Served over https (ORIGIN says so): browsers must never come back over plain http.
+	if (event.url.protocol === 'https:') {
+		response.headers.set('Strict-Transport-Security', 'max-age=31536000; includeSubDomains');
+	}
 	if (event.locals.user && !response.headers.has('Cache-Control')) {
 		response.headers.set('Cache-Control', 'private, no-store');
 	}
@@ -102,7 +159,15 @@ function isImmutable(response: Response): boolean {
 	}
 }
 
-export const handle = sequence(securityHeaders, authHandle, authentication, authorization);
+export const handle = sequence(
+	securityHeaders,
+	requestContext,
+	contentTypeRequired,
+	authRoutes,
+	authHandle,
+	authentication,
+	authorization
+);
 
 export const handleError: HandleServerError = ({ error: err, event, status }) => {
 	if (status !== 404) console.error(`[${event.request.method} ${event.url.pathname}]`, err);

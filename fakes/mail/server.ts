@@ -27,6 +27,11 @@ export interface MessageSummary {
 	to: string[];
 	subject: string;
 	date: string;
+	/**
+	 * The sender's `X-Kinelume-Clinic` header, which the app adds only while a development inbox
+	 * is on, so the inbox page can show each clinic's admin only their own clinic's messages.
+	 */
+	clinic: string | null;
 }
 
 export interface StoredMessage extends MessageSummary {
@@ -67,6 +72,7 @@ async function storeMessage(
 		to: envelope.to,
 		subject: parsed.subject ?? '',
 		date: (parsed.date ?? new Date()).toISOString(),
+		clinic: headerText(parsed.headers.get('x-kinelume-clinic')),
 		text: parsed.text ?? '',
 		html: typeof parsed.html === 'string' ? parsed.html : null
 	};
@@ -75,6 +81,10 @@ async function storeMessage(
 	await writeFile(`${jsonPath}.tmp`, JSON.stringify(message, null, '\t'));
 	await rename(`${jsonPath}.tmp`, jsonPath);
 	return { sizeExceeded: false };
+}
+
+function headerText(value: unknown): string | null {
+	return typeof value === 'string' && value.trim() !== '' ? value.trim() : null;
 }
 
 async function storedIds(directory: string): Promise<string[]> {
@@ -117,8 +127,8 @@ async function handleApi(directory: string, req: IncomingMessage, res: ServerRes
 			for (const id of await storedIds(directory)) {
 				const message = await readMessage(directory, id);
 				if (!message) continue;
-				const { from, to, subject, date } = message;
-				summaries.push({ id, from, to, subject, date });
+				const { from, to, subject, date, clinic } = message;
+				summaries.push({ id, from, to, subject, date, clinic: clinic ?? null });
 			}
 			return sendJson(res, 200, summaries);
 		}

@@ -514,8 +514,8 @@ async function benchUpload(storageModule: StorageModule): Promise<Row[]> {
 			Array.from({ length: UPLOAD_PARALLEL }, async () => {
 				while (next <= parts) {
 					const partNumber = next++;
-					const url = await multipart.presignPart(key, uploadId, partNumber);
 					const body = bytes.subarray((partNumber - 1) * partSize, partNumber * partSize);
+					const url = await multipart.presignPart(key, uploadId, partNumber, body.length);
 					const res = await fetch(url, { method: 'PUT', body });
 					const etag = res.headers.get('etag');
 					await res.arrayBuffer();

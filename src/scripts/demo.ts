@@ -14,6 +14,8 @@ const dataDir = resolve(process.env.DEMO_DATA_DIR ?? '.data');
 
 process.env.DATABASE_PATH ??= resolve(dataDir, 'kinelume.db');
 process.env.ORIGIN = origin;
+// The demo is where the development inbox is on: e-mails land there instead of anyone's mailbox.
+process.env.DEV_INBOX_URL ??= 'http://127.0.0.1:2526';
 
 if (reset) {
 	for (const name of ['kinelume.db', 'kinelume.db-wal', 'kinelume.db-shm', 'fakes']) {

@@ -16,13 +16,17 @@ const { changeRole, MemberError, removeMember } = await import('../../src/lib/se
 const { invitePatient } = await import('../../src/lib/server/patients');
 const { loadPrincipal } = await import('../../src/lib/server/auth/principal');
 const { verifyPassword } = await import('../../src/lib/server/auth/passwords');
-const {
-	clearSignInFailures,
-	linkRequestAllowed,
-	recordLinkRequest,
-	recordSignInFailure,
-	signInLockout
-} = await import('../../src/lib/server/auth/sign-in-limits');
+const { attemptLockout, clearPasswordFailures, recordLinkRequest, recordPasswordFailure } =
+	await import('../../src/lib/server/auth/sign-in-limits');
+const { createSession, endSessionsOf, sessionIsAlive } = await import(
+	'../../src/lib/server/auth/sessions'
+);
+const signInLockout = (email: string, address: string) =>
+	attemptLockout('password-failure', email, address);
+const recordSignInFailure = (email: string, address: string) =>
+	recordPasswordFailure(email, address, 'wrong');
+const linkRequestAllowed = (email: string, now = Date.now()) =>
+	!attemptLockout('link-request', email, '192.0.2.200', now).locked;
 const { listInbox, readInboxMessage } = await import('../../src/lib/server/mail/inbox');
 const { getClinicTimeZone, setClinicTimeZone } = await import('../../src/lib/server/clinics');
 
@@ -47,10 +51,10 @@ function makeStaff(
 }
 
 /** The invitation link's token, read back from the mail fake like a person reading their e-mail. */
-async function tokenMailedTo(email: string): Promise<string> {
-	const summary = (await listInbox()).find((m) => m.to.includes(email));
+async function tokenMailedTo(email: string, clinicId = clinic.id): Promise<string> {
+	const summary = (await listInbox(clinicId)).find((m) => m.to.includes(email));
 	expect(summary, `an e-mail to ${email}`).toBeDefined();
-	const message = await readInboxMessage(summary!.id);
+	const message = await readInboxMessage(clinicId, summary!.id);
 	const link = message!.text!.match(/https?:\/\/\S+\/invite\/([A-Za-z0-9_-]+)/);
 	expect(link).not.toBeNull();
 	return link![1];
@@ -92,8 +96,8 @@ describe('time zones', () => {
 
 		const email = 'new.educator@far-clinic.example';
 		await sendInvitation({ clinicId: far.id, email, role: 'educator', invitedBy: farAdmin });
-		const summary = (await listInbox()).find((m) => m.to.includes(email))!;
-		const text = (await readInboxMessage(summary.id))!.text!;
+		const summary = (await listInbox(far.id)).find((m) => m.to.includes(email))!;
+		const text = (await readInboxMessage(far.id, summary.id))!.text!;
 		// The expiry as Auckland's clocks show it, with the zone's short name: UTC+13 in the
 		// southern summer, UTC+12 in winter (tz database), whichever today is.
 		const expected = expiryAsShown(email, 'Pacific/Auckland');
@@ -109,12 +113,14 @@ describe('time zones', () => {
 			condition: 'Right knee replacement',
 			timeZone: 'Europe/Lisbon'
 		});
-		const patientMail = (await listInbox()).find((m) => m.to.includes('orla@far-clinic.example'))!;
-		const patientText = (await readInboxMessage(patientMail.id))!.text!;
+		const patientMail = (await listInbox(far.id)).find((m) =>
+			m.to.includes('orla@far-clinic.example')
+		)!;
+		const patientText = (await readInboxMessage(far.id, patientMail.id))!.text!;
 		expect(patientText).toContain(
 			`until ${expiryAsShown('orla@far-clinic.example', 'Europe/Lisbon')}.`
 		);
-		const token = await tokenMailedTo('orla@far-clinic.example');
+		const token = await tokenMailedTo('orla@far-clinic.example', far.id);
 		const accepted = await acceptInvitation(token, { name: 'Orla Pennant', password: null });
 		expect(loadPrincipal(accepted.userId)).toMatchObject({
 			patientId: patient.id,
@@ -290,7 +296,7 @@ describe('sign-in lockout', () => {
 		expect(locked.locked).toBe(true);
 		expect(locked.retryAfterSeconds).toBeGreaterThan(14 * 60);
 		expect(locked.retryAfterSeconds).toBeLessThanOrEqual(15 * 60);
-		clearSignInFailures(email);
+		clearPasswordFailures(email);
 		expect(signInLockout(email, '192.0.2.1').locked).toBe(false);
 	});
 
@@ -303,12 +309,68 @@ describe('sign-in lockout', () => {
 
 	it('lets at most five sign-in links go to one address in the window', () => {
 		const email = 'inbox.flood@test-clinic.example';
-		for (let i = 0; i < 4; i++) recordLinkRequest(email, '203.0.113.8');
+		for (let i = 0; i < 4; i++) recordLinkRequest(email, '203.0.113.8', true);
 		expect(linkRequestAllowed(email)).toBe(true);
-		recordLinkRequest(email, '198.51.100.9');
+		recordLinkRequest(email, '198.51.100.9', true);
 		expect(linkRequestAllowed(email)).toBe(false);
 		expect(linkRequestAllowed('someone.else@test-clinic.example')).toBe(true);
 		// After the window the address may ask again.
 		expect(linkRequestAllowed(email, Date.now() + 15 * 60_000 + 1000)).toBe(true);
+	});
+
+	it('counts link requests and failed passwords apart', () => {
+		const email = 'both.kinds@test-clinic.example';
+		for (let i = 0; i < 5; i++) recordLinkRequest(email, '203.0.113.20', false);
+		expect(attemptLockout('link-request', email, '203.0.113.20').locked).toBe(true);
+		expect(attemptLockout('password-failure', email, '203.0.113.20').locked).toBe(false);
+	});
+});
+
+describe('sessions that can be ended', () => {
+	it('ends every session of a person on a role change and on removal, and others keep theirs', () => {
+		const person = makeStaff(clinic.id, 'ended@test-clinic.example', 'clinician');
+		const bystander = makeStaff(clinic.id, 'bystander@test-clinic.example', 'clinician');
+		const phone = createSession(person.id, 'clinician');
+		const desk = createSession(person.id, 'clinician');
+		const theirs = createSession(bystander.id, 'clinician');
+		expect(sessionIsAlive(phone, person.id)).toBe(true);
+		// A token naming another person's session is no session at all.
+		expect(sessionIsAlive(theirs, person.id)).toBe(false);
+
+		const membership = db()
+			.query.memberships.findFirst({ where: eq(schema.memberships.userId, person.id) })
+			.sync()!;
+		changeRole(admin, membership.id, 'educator');
+		expect(sessionIsAlive(phone, person.id)).toBe(false);
+		expect(sessionIsAlive(desk, person.id)).toBe(false);
+		expect(sessionIsAlive(theirs, bystander.id)).toBe(true);
+
+		const again = createSession(person.id, 'educator');
+		removeMember(admin, membership.id);
+		expect(sessionIsAlive(again, person.id)).toBe(false);
+	});
+
+	it('keeps the current session when the others end after a password change', () => {
+		const person = makeStaff(clinic.id, 'newpass@test-clinic.example', 'clinician');
+		const here = createSession(person.id, 'clinician');
+		const there = createSession(person.id, 'clinician');
+		expect(endSessionsOf(person.id, 'password-changed', here)).toBe(1);
+		expect(sessionIsAlive(here, person.id)).toBe(true);
+		expect(sessionIsAlive(there, person.id)).toBe(false);
+	});
+
+	it('ends a session left idle past its limit and one past its absolute end, even if in use', () => {
+		const person = makeStaff(clinic.id, 'idle@test-clinic.example', 'clinician');
+		const start = Date.now();
+		const idle = createSession(person.id, 'clinician', start);
+		expect(sessionIsAlive(idle, person.id, start + 11 * 3600_000)).toBe(true);
+		// Used at 11 h, so idle until 23 h; 24 h later than that it has gone.
+		expect(sessionIsAlive(idle, person.id, start + 36 * 3600_000)).toBe(false);
+
+		const busy = createSession(person.id, 'clinician', start);
+		for (let hour = 6; hour < 7 * 24; hour += 6) {
+			expect(sessionIsAlive(busy, person.id, start + hour * 3600_000)).toBe(true);
+		}
+		expect(sessionIsAlive(busy, person.id, start + 7 * 24 * 3600_000)).toBe(false);
 	});
 });

@@ -336,11 +336,11 @@ describe('the weekly digest', () => {
 			expect.arrayContaining([clinicianA.email, colleagueA.email, clinicianB.email])
 		);
 
-		const inbox = await listInbox();
+		const inbox = await listInbox(clinicA.id);
 		const toA = inbox.filter((m) => m.to.includes(clinicianA.email));
 		expect(toA).toHaveLength(1);
 		expect(toA[0].subject).toBe('Your Kinelume week of 30 Nov 2026: 1 patient flagged');
-		const message = await readInboxMessage(toA[0].id);
+		const message = await readInboxMessage(clinicA.id, toA[0].id);
 		expect(message?.text).toContain('Rhoda Rise');
 		expect(message?.text).toContain(
 			'Pain flag: recent average 5.0 is 3.0 above the baseline 2.0 (a rise of 2 points is clinically important — Farrar et al. 2001).'
@@ -359,7 +359,9 @@ describe('the weekly digest', () => {
 		});
 		expect(again.sent).toEqual([]);
 		expect(again.alreadySent).toBe(first.sent.length);
-		expect((await listInbox()).filter((m) => m.to.includes(clinicianA.email))).toHaveLength(1);
+		expect(
+			(await listInbox(clinicA.id)).filter((m) => m.to.includes(clinicianA.email))
+		).toHaveLength(1);
 		const rows = db()
 			.select()
 			.from(schema.weeklyDigests)
@@ -374,7 +376,9 @@ describe('the weekly digest', () => {
 		});
 		expect(next.weekStarts).toEqual(['2026-12-07']);
 		expect(next.sent).toContain(clinicianA.email);
-		expect((await listInbox()).filter((m) => m.to.includes(clinicianA.email))).toHaveLength(2);
+		expect(
+			(await listInbox(clinicA.id)).filter((m) => m.to.includes(clinicianA.email))
+		).toHaveLength(2);
 	});
 
 	it("goes out at the digest hour on each clinic's own clock", async () => {
@@ -401,9 +405,9 @@ describe('the weekly digest', () => {
 		const later = await sendWeeklyDigests({ now: new Date('2026-12-14T12:30:00Z'), onlyDue: true });
 		expect(later.sent).toEqual([wren.email]);
 		expect(later.notDueYet).toBe(0);
-		const mail = (await listInbox()).find((m) => m.to.includes(wren.email));
+		const mail = (await listInbox(west.id)).find((m) => m.to.includes(wren.email));
 		// Ned has logged nothing in the programme's first week, which the digest flags.
 		expect(mail?.subject).toBe('Your Kinelume week of 14 Dec 2026: 1 patient flagged');
-		expect((await readInboxMessage(mail!.id))?.text).toContain('No sessions logged');
+		expect((await readInboxMessage(west.id, mail!.id))?.text).toContain('No sessions logged');
 	});
 });

@@ -32,6 +32,9 @@ afterAll(async () => {
 	await rm(scratch, { recursive: true, force: true });
 });
 
+const CLINIC = 'clinic-mail-test';
+const OTHER_CLINIC = 'clinic-mail-other';
+
 describe('sending through the app and reading the development inbox', () => {
 	it('delivers a message whose link survives intact in text and HTML', async () => {
 		const link = 'http://localhost:3000/invite/abc123?token=Zx9_-q&next=%2Fpatient%2Fhome';
@@ -39,6 +42,7 @@ describe('sending through the app and reading the development inbox', () => {
 		const to = 'patient.one@example.test';
 
 		const sent = await sendMail({
+			clinicId: CLINIC,
 			to,
 			subject,
 			text: `Accept your invitation: ${link}\n`,
@@ -47,31 +51,41 @@ describe('sending through the app and reading the development inbox', () => {
 		expect(sent.messageId).toMatch(/^<.+>$/);
 
 		expect(inboxEnabled()).toBe(true);
-		const summary = (await listInbox()).find((m) => m.subject === subject);
+		const summary = (await listInbox(CLINIC)).find((m) => m.subject === subject);
 		expect(summary).toMatchObject({
 			to: [to],
 			from: expect.stringContaining('tests@kinelume.invalid')
 		});
 
-		const message = await readInboxMessage(summary!.id);
+		const message = await readInboxMessage(CLINIC, summary!.id);
 		expect(message?.text).toContain(link);
 		expect(message?.html).toContain(`href="${link.replaceAll('&', '&amp;')}"`);
 		expect(new Date(message!.date).getTime()).not.toBeNaN();
 	});
 
+	it('shows each clinic only the messages sent for it', async () => {
+		const subject = unique('Your sign-in link');
+		await sendMail({ clinicId: OTHER_CLINIC, to: 'someone@other.example', subject, text: 'link' });
+		const theirs = (await listInbox(OTHER_CLINIC)).find((m) => m.subject === subject);
+		expect(theirs?.clinic).toBe(OTHER_CLINIC);
+		expect((await listInbox(CLINIC)).some((m) => m.subject === subject)).toBe(false);
+		expect(await readInboxMessage(CLINIC, theirs!.id)).toBeNull();
+		expect((await readInboxMessage(OTHER_CLINIC, theirs!.id))?.text).toContain('link');
+	});
+
 	it('lists the newest message first', async () => {
 		const first = unique('first');
 		const second = unique('second');
-		await sendMail({ to: 'order@example.test', subject: first, text: '1' });
-		await sendMail({ to: 'order@example.test', subject: second, text: '2' });
-		const subjects = (await listInbox()).map((m) => m.subject);
+		await sendMail({ clinicId: CLINIC, to: 'order@example.test', subject: first, text: '1' });
+		await sendMail({ clinicId: CLINIC, to: 'order@example.test', subject: second, text: '2' });
+		const subjects = (await listInbox(CLINIC)).map((m) => m.subject);
 		expect(subjects.indexOf(second)).toBeGreaterThanOrEqual(0);
 		expect(subjects.indexOf(second)).toBeLessThan(subjects.indexOf(first));
 	});
 
 	it('answers null for an unknown id and for an id that tries to leave the inbox', async () => {
-		expect(await readInboxMessage('0000000000000-00000000')).toBeNull();
-		expect(await readInboxMessage('../../etc/passwd')).toBeNull();
+		expect(await readInboxMessage(CLINIC, '0000000000000-00000000')).toBeNull();
+		expect(await readInboxMessage(CLINIC, '../../etc/passwd')).toBeNull();
 		const raw = await fetch(`${testEnv.DEV_INBOX_URL}/messages/..%2F..%2Fetc%2Fpasswd`);
 		expect(raw.status).toBe(400);
 		expect(await raw.json()).toEqual({ error: 'invalid message id' });
@@ -150,12 +164,12 @@ describe('checkMail and the inbox client when things are off', () => {
 		const port = await closedPort();
 		await fresh({ DEV_INBOX_URL: `http://127.0.0.1:${port}` }, async () => {
 			const inbox = await import('$lib/server/mail/inbox');
-			await expect(inbox.listInbox()).rejects.toThrow(/not answering; start the fakes/);
+			await expect(inbox.listInbox(CLINIC)).rejects.toThrow(/not answering; start the fakes/);
 		});
 		await fresh({ DEV_INBOX_URL: '' }, async () => {
 			const inbox = await import('$lib/server/mail/inbox');
 			expect(inbox.inboxEnabled()).toBe(false);
-			await expect(inbox.readInboxMessage('x')).rejects.toThrow(/disabled/);
+			await expect(inbox.readInboxMessage(CLINIC, 'x')).rejects.toThrow(/disabled/);
 		});
 	});
 });

@@ -388,14 +388,14 @@ describe('programmes', () => {
 		expect(published.changed).toBe(false);
 		expect(published.view.programme.status).toBe('published');
 
-		const mails = (await listInbox()).filter(
+		const mails = (await listInbox(clinician.clinicId)).filter(
 			(m) =>
 				m.to.includes('publish.me@patients.example') && new Date(m.date).getTime() >= since - 1000
 		);
 		expect(mails.map((m) => m.subject)).toEqual([
 			'Your home programme from Invented Alder Test Clinic is ready'
 		]);
-		const message = await readInboxMessage(mails[0].id);
+		const message = await readInboxMessage(clinician.clinicId, mails[0].id);
 		expect(message?.text).toContain('Kneeling reach: 1 set of 8 reps');
 		expect(message?.text).toContain('/today');
 		expect(message?.text).toContain('first set up your account');
@@ -403,7 +403,7 @@ describe('programmes', () => {
 
 		const again = await publishProgramme(clinician, first.id);
 		expect(again.changed).toBe(true);
-		const subjects = (await listInbox())
+		const subjects = (await listInbox(clinician.clinicId))
 			.filter((m) => m.to.includes('publish.me@patients.example'))
 			.map((m) => m.subject);
 		expect(subjects).toContain('Your home programme from Invented Alder Test Clinic has changed');

@@ -131,6 +131,26 @@ describe('storage module against the storage fake', () => {
 		expect(await readBack(key)).toEqual({ hash: sha256(whole), bytes: whole.length });
 	});
 
+	it('a presigned part URL takes exactly its part’s size and refuses any other', async () => {
+		const { createMultipartUpload, presignPart, partBytes, abortMultipartUpload } = await import(
+			'$lib/server/storage/multipart'
+		);
+		const key = recordingKeys('clinic-bound', 'rec-1').original;
+		const uploadId = await createMultipartUpload(key, 'video/mp4');
+		// A 1,000-byte file has one part of 1,000 bytes.
+		const size = partBytes(1000, 8 * MiB, 1);
+		expect(size).toBe(1000);
+		const url = await presignPart(key, uploadId, 1, size);
+		expect(new URL(url).searchParams.get('X-Amz-SignedHeaders')).toContain('content-length');
+		const tooBig = await fetch(url, { method: 'PUT', body: randomBytes(2 * MiB) });
+		expect(tooBig.status).toBe(403);
+		await tooBig.arrayBuffer();
+		const exact = await fetch(url, { method: 'PUT', body: randomBytes(1000) });
+		expect(exact.status).toBe(200);
+		await exact.arrayBuffer();
+		await abortMultipartUpload(key, uploadId);
+	});
+
 	it('stores a plain put from a buffer and from a file stream without altering a byte', async () => {
 		const keys = recordingKeys('clinic-put', 'rec-1');
 		const poster = randomBytes(64 * 1024);

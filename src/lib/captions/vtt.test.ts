@@ -1,6 +1,13 @@
 import { describe, expect, it } from 'vitest';
 import type { Cue, CueSettings } from './types';
-import { formatTimestamp, parseTimestamp, parseVtt, serializeVtt, sortCues } from './vtt';
+import {
+	CaptionWriteError,
+	formatTimestamp,
+	parseTimestamp,
+	parseVtt,
+	serializeVtt,
+	sortCues
+} from './vtt';
 
 const file = (...lines: string[]) => lines.join('\n');
 
@@ -261,9 +268,17 @@ describe('serializeVtt', () => {
 		expect(again).toEqual(first);
 	});
 
-	it('keeps a cue whole when its text has a blank line or an arrow', () => {
-		const vtt = serializeVtt([{ id: 'x-->y', start: 0, end: 1, text: 'Heel --> toe\n\nwalk' }]);
-		expect(cuesOf(vtt)).toEqual([{ id: 'x->y', start: 0, end: 1, text: 'Heel --&gt; toe\nwalk' }]);
+	it('refuses, rather than rewrites, a field the file cannot hold (W3C WebVTT §4.1)', () => {
+		const write = (cue: Partial<Cue>) => () =>
+			serializeVtt([{ id: '', start: 0, end: 1, text: 'Heel slides', ...cue }]);
+		expect(write({ id: 'x-->y' })).toThrow(CaptionWriteError);
+		expect(write({ id: 'one\ntwo' })).toThrow(CaptionWriteError);
+		expect(write({ text: 'Heel --> toe' })).toThrow(CaptionWriteError);
+		expect(write({ text: 'Heel\n\nwalk' })).toThrow(CaptionWriteError);
+		expect(write({ settings: { region: 'r\n\n00:00:02.600 --> 00:00:05.500\nSMUGGLED' } })).toThrow(
+			CaptionWriteError
+		);
+		expect(write({ settings: { region: 'lower' } })).not.toThrow();
 	});
 
 	it('round-trips: parse(serialize(cues)) gives the cues back (seeded random property)', () => {

@@ -12,6 +12,7 @@
  *   an author has not fixed yet; only a missing signature fails.
  */
 import pkg from 'webvtt-parser';
+import { cueTextProblem, isCueIdentifier, isRegionIdentifier } from './grammar';
 import type { LibraryCue } from 'webvtt-parser';
 import { endTimeColumn, formatTimestamp, parseTimestamp, toMillis } from './timestamp';
 import type { CaptionProblem, Cue, CueSettings, Track } from './types';
@@ -459,7 +460,16 @@ export interface SerializeOptions {
 	regions?: Region[];
 }
 
-/** Writes WebVTT with HH:MM:SS.mmm times, cue identifiers and settings. */
+/** A field the writer cannot put into a WebVTT file without changing what the file says. */
+export class CaptionWriteError extends Error {}
+
+/**
+ * Writes WebVTT with HH:MM:SS.mmm times, cue identifiers and settings. A field that the file
+ * cannot hold as it is (grammar.ts: a line break or "-->" in an identifier, a region name with
+ * whitespace, words with an empty line) is refused with CaptionWriteError rather than rewritten,
+ * so nothing stored can be served as something else; cues that passed the save schema
+ * (schema.ts) always write.
+ */
 export function serializeVtt(
 	input: Track | readonly Cue[],
 	options: SerializeOptions = {}
@@ -468,6 +478,8 @@ export function serializeVtt(
 	const title = options.title?.replace(/[\r\n]+/g, ' ').trim();
 	const parts = [title ? `WEBVTT ${title}` : 'WEBVTT', ''];
 	for (const region of options.regions ?? []) {
+		if (!isRegionIdentifier(region.id))
+			throw new CaptionWriteError(`A region name cannot be written: ${JSON.stringify(region.id)}`);
 		const anchor = ([x, y]: [number, number]) => `${x}%,${y}%`;
 		parts.push(
 			'REGION',
@@ -475,22 +487,23 @@ export function serializeVtt(
 			''
 		);
 	}
-	for (const cue of cues) {
-		// An identifier is one line and may not hold "-->", or it would be read as a timing line.
-		const id = cue.id.replace(/[\r\n]+/g, ' ').replaceAll('-->', '->');
-		if (id !== '') parts.push(id);
+	cues.forEach((cue, index) => {
+		const where = `Cue ${index + 1}`;
+		if (cue.id !== '' && !isCueIdentifier(cue.id))
+			throw new CaptionWriteError(
+				`${where}: its name cannot be written: ${JSON.stringify(cue.id)}`
+			);
+		if (cue.settings?.region !== undefined && !isRegionIdentifier(cue.settings.region))
+			throw new CaptionWriteError(`${where}: its region name cannot be written`);
+		const textProblem = cueTextProblem(cue.text);
+		if (textProblem) throw new CaptionWriteError(`${where}: the ${textProblem}`);
+		if (cue.id !== '') parts.push(cue.id);
 		parts.push(
 			`${formatTimestamp(cue.start)} --> ${formatTimestamp(cue.end)}${settingsText(cue.settings)}`
 		);
-		// A blank line would end the cue early and "-->" would start a new one.
-		const text = cue.text
-			.split(/\r\n|\r|\n/)
-			.filter((l) => l.trim() !== '')
-			.join('\n')
-			.replaceAll('-->', '--&gt;');
-		if (text !== '') parts.push(text);
+		if (cue.text !== '') parts.push(cue.text);
 		parts.push('');
-	}
+	});
 	return parts.join('\n');
 }
 
@@ -510,4 +523,15 @@ function settingsText(s: CueSettings | undefined): string {
 	if (s.align) out.push(`align:${s.align}`);
 	if (s.region) out.push(`region:${s.region}`);
 	return out.length ? ' ' + out.join(' ') : '';
+}
+
+/**
+ * The cues exactly as a browser will read them from the file we serve for `cues`: written, then
+ * read back. Review checks, the patient-data detector and the transcript look at this, so they
+ * judge what will be shown, not a stored copy that could say something else. Throws
+ * CaptionWriteError for cues that cannot be served at all.
+ */
+export function cuesAsServed(cues: readonly Cue[]): Cue[] {
+	const read = parseVtt(serializeVtt(cues), { conformance: 'browser' });
+	return read.ok ? read.cues : [];
 }

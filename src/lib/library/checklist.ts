@@ -7,6 +7,7 @@
 import { checkCues, profiles, type GuidelineProfile } from '../captions/checks';
 import { plainText } from '../captions/text';
 import { formatTimestamp } from '../captions/timestamp';
+import { CaptionWriteError, cuesAsServed } from '../captions/vtt';
 import { DOSAGE_FIELD_LABELS, DOSAGE_FIELDS, DOSAGE_LIMITS } from '../dosage/types';
 import { excerptAround, findPatientData, PATIENT_DATA_LABELS } from './privacy';
 import { isLicence, type ExerciseSnapshot } from './types';
@@ -205,12 +206,34 @@ export function computeChecklist(
 	input: ChecklistInput,
 	profile: GuidelineProfile = LIBRARY_CAPTION_PROFILE
 ): Checklist {
+	// Every caption item judges the file that will be served, as a browser reads it.
+	let served: ExerciseSnapshot;
+	try {
+		served = { ...input.snapshot, cues: cuesAsServed(input.snapshot.cues) };
+	} catch (thrown) {
+		if (!(thrown instanceof CaptionWriteError)) throw thrown;
+		const unservable: ChecklistItem = {
+			id: 'captions',
+			label: `Captions pass the caption checks (${profile.label})`,
+			passed: false,
+			summary: 'The captions cannot be written as a caption file.',
+			problems: [thrown.message]
+		};
+		const items = [
+			unservable,
+			safetyNotesItem(input.snapshot),
+			dosageItem(input.snapshot),
+			consentItem(input),
+			patientDataItem(input)
+		];
+		return { profile: profile.id, passed: false, items };
+	}
 	const items = [
-		captionsItem(input.snapshot, profile),
-		safetyNotesItem(input.snapshot),
-		dosageItem(input.snapshot),
+		captionsItem(served, profile),
+		safetyNotesItem(served),
+		dosageItem(served),
 		consentItem(input),
-		patientDataItem(input)
+		patientDataItem({ ...input, snapshot: served })
 	];
 	return { profile: profile.id, passed: items.every((i) => i.passed), items };
 }

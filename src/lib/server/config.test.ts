@@ -11,6 +11,17 @@ describe('readConfig', () => {
 		expect(config.INVITATION_TTL_HOURS).toBe(72);
 	});
 
+	it('keeps the development inbox off unless set, and never lets it on in production', () => {
+		expect(readConfig({}).DEV_INBOX_URL).toBe('');
+		expect(readConfig({ DEV_INBOX_URL: 'http://127.0.0.1:2526' }).DEV_INBOX_URL).toBe(
+			'http://127.0.0.1:2526'
+		);
+		expect(() =>
+			readConfig({ NODE_ENV: 'production', DEV_INBOX_URL: 'http://127.0.0.1:2526' })
+		).toThrow(/DEV_INBOX_URL is invalid .*must be empty when NODE_ENV is production/);
+		expect(readConfig({ NODE_ENV: 'production' }).DEV_INBOX_URL).toBe('');
+	});
+
 	it('reads values and converts types', () => {
 		const config = readConfig({
 			SMTP_PORT: '587',

@@ -10,8 +10,6 @@ const bool = z
 	.enum(['true', 'false', '1', '0', 'yes', 'no'])
 	.transform((v) => v === 'true' || v === '1' || v === 'yes');
 
-const isProduction = process.env.NODE_ENV === 'production';
-
 const schema = z.object({
 	DATABASE_PATH: z.string().min(1).default('.data/kinelume.db'),
 	ORIGIN: z.url().default('http://localhost:3000'),
@@ -31,9 +29,9 @@ const schema = z.object({
 	SMTP_USER: z.string().default(''),
 	SMTP_PASSWORD: z.string().default(''),
 	MAIL_FROM: z.string().min(3).default('Kinelume <no-reply@kinelume.invalid>'),
-	DEV_INBOX_URL: z
-		.union([z.url(), z.literal('')])
-		.default(isProduction ? '' : 'http://127.0.0.1:2526'),
+	// The development inbox (/inbox, the mail fake's messages): off unless set, which the demo
+	// and the tests do; refused outright under NODE_ENV=production (readConfig).
+	DEV_INBOX_URL: z.union([z.url(), z.literal('')]).default(''),
 	INVITATION_TTL_HOURS: z.coerce
 		.number()
 		.int()
@@ -91,7 +89,17 @@ export function readConfig(env: Record<string, string | undefined> = process.env
 	const present = Object.fromEntries(
 		Object.entries(env).filter(([key, value]) => key in schema.shape && value !== undefined)
 	);
-	const parsed = schema.safeParse(present);
+	const parsed = schema
+		.superRefine((c, ctx) => {
+			if (env.NODE_ENV === 'production' && c.DEV_INBOX_URL !== '')
+				ctx.addIssue({
+					code: 'custom',
+					path: ['DEV_INBOX_URL'],
+					message:
+						'must be empty when NODE_ENV is production: the development inbox shows sign-in links'
+				});
+		})
+		.safeParse(present);
 	if (!parsed.success) {
 		const sentences = parsed.error.issues.map((issue) => {
 			const name = String(issue.path[0]);

@@ -95,7 +95,7 @@ export async function sendInvitation(input: {
 					expiresAt,
 					timeZone: clinic.timeZone
 				});
-	await sendMail({ to: email, ...content });
+	await sendMail({ clinicId: input.clinicId, to: email, ...content });
 	recordAudit({
 		kind: 'invitation-sent',
 		clinicId: input.clinicId,

@@ -4,6 +4,7 @@ import type { StaffRole } from './db/schema/clinics';
 import { recordAudit } from './audit';
 import { invitationStatus } from './invitations';
 import type { Principal } from './auth/principal';
+import { endSessionsOf } from './auth/sessions';
 
 export class MemberError extends Error {}
 
@@ -83,6 +84,8 @@ export function changeRole(actor: Principal, membershipId: string, role: StaffRo
 		subject: membership.userId,
 		detail: { from: membership.role, to: role }
 	});
+	// Their sessions were opened under the old role; they sign in again under the new one.
+	endSessionsOf(membership.userId, 'role-changed');
 }
 
 /** Removes a member from the clinic (their account stays, without a role). */
@@ -100,6 +103,7 @@ export function removeMember(actor: Principal, membershipId: string): void {
 		subject: membership.userId,
 		detail: { role: membership.role }
 	});
+	endSessionsOf(membership.userId, 'removed');
 }
 
 /** Withdraws a pending invitation of the actor's clinic. */
@@ -124,17 +128,26 @@ export function revokeInvitation(actor: Principal, invitationId: string): void {
 	});
 }
 
-/** Whether an address already has a role somewhere (a person belongs to one clinic). */
-export function emailHasRole(email: string): boolean {
+/**
+ * Whether an address already has a role in this clinic. Another clinic's people are not looked
+ * at: an invitation to them is made and answered like any other (it cannot be accepted, since a
+ * person belongs to one clinic, and its owner is told so), so the form never reveals that an
+ * address is known elsewhere.
+ */
+export function emailHasRoleIn(email: string, clinicId: string): boolean {
 	const user = db()
 		.query.users.findFirst({ where: eq(schema.users.email, email) })
 		.sync();
 	if (!user) return false;
 	const m = db()
-		.query.memberships.findFirst({ where: eq(schema.memberships.userId, user.id) })
+		.query.memberships.findFirst({
+			where: and(eq(schema.memberships.userId, user.id), eq(schema.memberships.clinicId, clinicId))
+		})
 		.sync();
 	const p = db()
-		.query.patients.findFirst({ where: eq(schema.patients.userId, user.id) })
+		.query.patients.findFirst({
+			where: and(eq(schema.patients.userId, user.id), eq(schema.patients.clinicId, clinicId))
+		})
 		.sync();
 	return Boolean(m || p);
 }

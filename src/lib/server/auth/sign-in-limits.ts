@@ -1,28 +1,39 @@
 import { and, eq, gt, lt, or } from 'drizzle-orm';
 import { lockoutFor, type Lockout } from '$lib/auth/lockout';
+import type { SignInAttemptKind } from '../db/schema/audit';
 import { config } from '../config';
 import { db, schema } from '../db';
 import { recordAudit } from '../audit';
 
-/** Failures from one address across all accounts allowed before the address waits too. */
+/** Attempts from one client address across all accounts allowed before the address waits too. */
 const ADDRESS_FACTOR = 5;
 
 /**
- * Whether a password sign-in for `email` from `address` must wait. Counted per account (so a
- * slow spread-out guess at one account stops) and per address (so one client cannot walk through
- * many accounts), each over the configured sliding window.
+ * Whether another attempt of `kind` for `email` from `address` must wait. Counted per account (so
+ * a slow spread-out guess at one account stops, and one inbox cannot be flooded with links) and
+ * per client address (so one client cannot walk through many accounts), each over the configured
+ * sliding window: SIGN_IN_MAX_FAILURES per account, five times that per address.
+ *
+ * These run inside Auth.js's own callbacks (src/auth.ts), so every way into a sign-in is counted;
+ * the sign-in page asks first only to answer with 429 and the wait in words.
  */
-export function signInLockout(email: string, address: string, now = Date.now()): Lockout {
+export function attemptLockout(
+	kind: SignInAttemptKind,
+	email: string,
+	address: string,
+	now = Date.now()
+): Lockout {
 	const { SIGN_IN_WINDOW_MINUTES, SIGN_IN_MAX_FAILURES } = config();
 	const windowMs = SIGN_IN_WINDOW_MINUTES * 60_000;
-	const since = new Date(now - windowMs);
+	const table = schema.signInAttempts;
 	const rows = db()
 		.select()
-		.from(schema.signInFailures)
+		.from(table)
 		.where(
 			and(
-				gt(schema.signInFailures.createdAt, since),
-				or(eq(schema.signInFailures.email, email), eq(schema.signInFailures.address, address))
+				eq(table.kind, kind),
+				gt(table.createdAt, new Date(now - windowMs)),
+				or(eq(table.email, email), eq(table.address, address))
 			)
 		)
 		.all();
@@ -41,46 +52,40 @@ export function signInLockout(email: string, address: string, now = Date.now()):
 	return byAccount.retryAfterSeconds >= byAddress.retryAfterSeconds ? byAccount : byAddress;
 }
 
-export function recordSignInFailure(email: string, address: string): void {
+function recordAttempt(kind: SignInAttemptKind, email: string, address: string): void {
 	const store = db();
-	store.insert(schema.signInFailures).values({ email, address }).run();
+	const table = schema.signInAttempts;
+	store.insert(table).values({ kind, email, address }).run();
 	// Old rows only ever matter inside the window; trimming here keeps the table small.
 	const cutoff = new Date(Date.now() - config().SIGN_IN_WINDOW_MINUTES * 60_000 * 2);
-	store.delete(schema.signInFailures).where(lt(schema.signInFailures.createdAt, cutoff)).run();
+	store.delete(table).where(lt(table.createdAt, cutoff)).run();
 }
 
-/** A successful sign-in clears the account's failures (not the address's). */
-export function clearSignInFailures(email: string): void {
-	db().delete(schema.signInFailures).where(eq(schema.signInFailures.email, email)).run();
+export function recordPasswordFailure(email: string, address: string, reason: string): void {
+	recordAttempt('password-failure', email, address);
+	recordAudit({
+		kind: 'sign-in-failed',
+		subject: email,
+		detail: { method: 'password', address, reason }
+	});
 }
 
-/**
- * Whether another sign-in link may be e-mailed to `email` now: at most SIGN_IN_MAX_FAILURES links
- * per account in the window, so the form cannot be used to flood someone's inbox. Counted from
- * the audit trail, where every link request is recorded.
- */
-export function linkRequestAllowed(email: string, now = Date.now()): boolean {
-	const { SIGN_IN_WINDOW_MINUTES, SIGN_IN_MAX_FAILURES } = config();
-	const windowMs = SIGN_IN_WINDOW_MINUTES * 60_000;
-	const sent = db()
-		.select({ createdAt: schema.auditEvents.createdAt })
-		.from(schema.auditEvents)
-		.where(
-			and(
-				eq(schema.auditEvents.kind, 'sign-in-link-requested'),
-				eq(schema.auditEvents.subject, email),
-				gt(schema.auditEvents.createdAt, new Date(now - windowMs))
-			)
-		)
-		.all();
-	return !lockoutFor(
-		sent.map((row) => row.createdAt.getTime()),
-		now,
-		windowMs,
-		SIGN_IN_MAX_FAILURES
-	).locked;
+/** A successful sign-in clears the account's failed passwords (not the address's). */
+export function clearPasswordFailures(email: string): void {
+	const table = schema.signInAttempts;
+	db()
+		.delete(table)
+		.where(and(eq(table.kind, 'password-failure'), eq(table.email, email)))
+		.run();
 }
 
-export function recordLinkRequest(email: string, address: string): void {
-	recordAudit({ kind: 'sign-in-link-requested', subject: email, detail: { address } });
+export function recordLinkRequest(email: string, address: string, sent: boolean): void {
+	recordAttempt('link-request', email, address);
+	recordAudit({ kind: 'sign-in-link-requested', subject: email, detail: { address, sent } });
+}
+
+/** "Wait 3 minutes": the wait in words, for the sign-in page. */
+export function waitInWords(lockout: Lockout): string {
+	const minutes = Math.max(1, Math.ceil(lockout.retryAfterSeconds / 60));
+	return `${minutes} minute${minutes === 1 ? '' : 's'}`;
 }

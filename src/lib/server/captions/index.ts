@@ -5,7 +5,6 @@
  */
 import { createHash } from 'node:crypto';
 import { and, asc, desc, eq, sql } from 'drizzle-orm';
-import { z } from 'zod';
 import { decodeCaptionFile } from '$lib/captions/decode';
 import { parseSrt, serializeSrt } from '$lib/captions/srt';
 import { plainText } from '$lib/captions/text';
@@ -15,7 +14,8 @@ import {
 	type Cue,
 	type TrackKind
 } from '$lib/captions/types';
-import { parseVtt, serializeVtt } from '$lib/captions/vtt';
+import { cueProblemSentence, cuesSchema, MAX_CUES } from '$lib/captions/schema';
+import { cuesAsServed, parseVtt, serializeVtt } from '$lib/captions/vtt';
 import { db, prepared } from '../db';
 import { ExportCache } from './export-cache';
 import {
@@ -39,39 +39,13 @@ export class CaptionError extends Error {
 	}
 }
 
-/** The largest track we accept: far above a long narrated recording's few hundred cues. */
-export const MAX_CUES = 10_000;
 /**
  * Caption files are small (an hour of speech is about 100 KB); this refuses a mistaken video or
  * archive before decoding it, and stays under adapter-node's default 512 KB request body limit.
  */
 export const MAX_IMPORT_BYTES = 400 * 1024;
 
-const settingsSchema = z
-	.object({
-		vertical: z.enum(['rl', 'lr']).optional(),
-		line: z.number().finite().optional(),
-		snapToLines: z.boolean().optional(),
-		lineAlign: z.enum(['start', 'center', 'end']).optional(),
-		position: z.number().min(0).max(100).optional(),
-		positionAlign: z.enum(['line-left', 'center', 'line-right']).optional(),
-		size: z.number().min(0).max(100).optional(),
-		align: z.enum(['start', 'center', 'end', 'left', 'right']).optional(),
-		region: z.string().max(200).optional()
-	})
-	.strict();
-
-export const cueSchema = z.object({
-	id: z.string().max(500),
-	start: z.number().finite().min(0),
-	end: z.number().finite().min(0),
-	text: z.string().max(5000),
-	settings: settingsSchema.optional()
-});
-
-export const cuesSchema = z
-	.array(cueSchema)
-	.max(MAX_CUES, `A track can hold at most ${MAX_CUES} cues.`);
+export { cueSchema, cuesSchema, MAX_CUES } from '$lib/captions/schema';
 
 export interface TrackSummary {
 	id: string;
@@ -268,6 +242,11 @@ export function saveVersion(
 		userId?: string | null;
 	}
 ): SaveResult {
+	// The one gate for every stored cue list (save, import, restore): what passes is what a
+	// WebVTT file can hold unchanged (src/lib/captions/schema.ts).
+	const checked = cuesSchema.safeParse(input.cues);
+	if (!checked.success) throw new CaptionError(422, cueProblemSentence(checked.error));
+	const cues = checked.data;
 	return db().transaction(
 		(tx): SaveResult => {
 			const now = tx
@@ -306,7 +285,7 @@ export function saveVersion(
 				.values({
 					trackId: track.id,
 					version,
-					cues: input.cues,
+					cues,
 					source: input.source ?? 'edit',
 					note: input.note?.trim().slice(0, 500) ?? '',
 					createdBy: input.userId ?? null
@@ -400,7 +379,17 @@ export function readCaptionFile(bytes: Uint8Array, filename: string): ReadResult
 			errors: []
 		};
 	}
-	return { ok: true, format: extension, cues: parsed.cues, warnings: parsed.warnings };
+	// The file parsed, but a field in it may still be one a served file could not hold as it is
+	// (a 600-character cue name, say): refused here, with the cue, rather than at a later save.
+	const checked = cuesSchema.safeParse(parsed.cues);
+	if (!checked.success) {
+		return {
+			ok: false,
+			message: `The file was not imported. ${cueProblemSentence(checked.error)}`,
+			errors: []
+		};
+	}
+	return { ok: true, format: extension, cues: checked.data, warnings: parsed.warnings };
 }
 
 export type ImportResult =
@@ -507,7 +496,8 @@ export function transcript(track: CaptionTrack, version?: number): Transcript | 
 		kind: track.kind,
 		language: track.language,
 		version: wanted,
-		lines: (row?.cues ?? []).map((cue) => ({
+		// The lines a browser reads from the served file, so the transcript says what the captions say.
+		lines: cuesAsServed(row?.cues ?? []).map((cue) => ({
 			id: cue.id,
 			start: cue.start,
 			end: cue.end,

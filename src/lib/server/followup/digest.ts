@@ -152,7 +152,7 @@ export async function sendWeeklyDigests(
 			basis: [`Adherence: ${ADHERENCE_BASIS}`, `Pain: ${PAIN_BASIS}`]
 		});
 		try {
-			await sendMail({ to: clinician.email, ...mail });
+			await sendMail({ clinicId: clinician.clinicId, to: clinician.email, ...mail });
 			run.sent.push(clinician.email);
 		} catch (error) {
 			db().delete(schema.weeklyDigests).where(digestOf(clinician.id, weekStart)).run();

@@ -160,7 +160,7 @@ export async function decideSubmission(
 		);
 	}
 
-	const mailed = await mailClinician(found.submitter?.email ?? null, {
+	const mailed = await mailClinician(found.submitter?.email ?? null, submission.clinicId, {
 		decision: input.decision,
 		title: submission.snapshot.title,
 		reviewerName: reviewer.name,
@@ -281,11 +281,12 @@ function publishVersion(
 
 async function mailClinician(
 	email: string | null,
+	clinicId: string,
 	content: Parameters<typeof decisionMail>[0]
 ): Promise<boolean> {
 	if (!email) return false;
 	try {
-		await sendMail({ to: email, ...decisionMail(content) });
+		await sendMail({ clinicId, to: email, ...decisionMail(content) });
 		return true;
 	} catch (error) {
 		console.error(`[library] the decision e-mail to ${email} failed:`, error);

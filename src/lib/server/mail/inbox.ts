@@ -12,7 +12,8 @@ const summarySchema = z.object({
 	from: z.string(),
 	to: z.array(z.string()),
 	subject: z.string(),
-	date: z.string()
+	date: z.string(),
+	clinic: z.string().nullable().default(null)
 });
 
 const messageSchema = summarySchema.extend({
@@ -56,14 +57,20 @@ async function parse<T>(response: Response, schema: z.ZodType<T>, what: string):
 	return parsed.data;
 }
 
-/** Every message the inbox holds, newest first. */
-export async function listInbox(): Promise<InboxSummary[]> {
-	return parse(await request('messages'), z.array(summarySchema), 'list');
+/**
+ * The messages sent for one clinic, newest first. A message that names no clinic (sent before
+ * the inbox was on, or by something else) is shown to nobody: an admin must never open another
+ * clinic's sign-in links or invitations.
+ */
+export async function listInbox(clinicId: string): Promise<InboxSummary[]> {
+	const all = await parse(await request('messages'), z.array(summarySchema), 'list');
+	return all.filter((m) => m.clinic === clinicId);
 }
 
-/** One message with its text and HTML bodies, or null if the inbox has no such id. */
-export async function readInboxMessage(id: string): Promise<InboxMessage | null> {
+/** One message of the clinic with its text and HTML bodies, or null (no such id, or another clinic's). */
+export async function readInboxMessage(clinicId: string, id: string): Promise<InboxMessage | null> {
 	const response = await request(`messages/${encodeURIComponent(id)}`);
 	if (response.status === 404 || response.status === 400) return null;
-	return parse(response, messageSchema, 'message');
+	const message = await parse(response, messageSchema, 'message');
+	return message.clinic === clinicId ? message : null;
 }

@@ -3,6 +3,8 @@ import type SMTPTransport from 'nodemailer/lib/smtp-transport';
 import { config } from '../config';
 
 export interface OutgoingMail {
+	/** The clinic the message is sent for; only that clinic's admins see it in a development inbox. */
+	clinicId: string;
 	to: string | string[];
 	subject: string;
 	text: string;
@@ -44,7 +46,9 @@ export async function sendMail(mail: OutgoingMail): Promise<{ messageId: string 
 		to: mail.to,
 		subject: mail.subject,
 		text: mail.text,
-		html: mail.html
+		html: mail.html,
+		// Only for the development inbox's clinic scoping; real recipients never get it.
+		...(config().DEV_INBOX_URL ? { headers: { 'X-Kinelume-Clinic': mail.clinicId } } : {})
 	});
 	return { messageId: info.messageId };
 }

@@ -293,6 +293,7 @@ export async function publishProgramme(
 	});
 	const view = findProgramme(clinician.clinicId, programmeId)!;
 	await sendMail({
+		clinicId: clinician.clinicId,
 		to: view.patient.email,
 		...programmePublishedMail({
 			clinicName: clinician.clinicName,

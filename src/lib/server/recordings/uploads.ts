@@ -20,6 +20,7 @@ import {
 	listMultipartUploads,
 	listParts,
 	partCount,
+	partBytes,
 	presignPart,
 	type StoredPart
 } from '../storage/multipart';
@@ -143,7 +144,12 @@ export async function presignParts(
 	return Promise.all(
 		partNumbers.map(async (partNumber) => ({
 			partNumber,
-			url: await presignPart(upload.objectKey, upload.s3UploadId, partNumber)
+			url: await presignPart(
+				upload.objectKey,
+				upload.s3UploadId,
+				partNumber,
+				partBytes(upload.sizeBytes, upload.partSize, partNumber)
+			)
 		}))
 	);
 }

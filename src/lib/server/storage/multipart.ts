@@ -36,6 +36,11 @@ export function partCount(size: number, partSize: number): number {
 	return Math.max(1, Math.ceil(size / partSize));
 }
 
+/** How many bytes part `partNumber` (1-based) of an upload of `size` bytes holds: the last one the rest. */
+export function partBytes(size: number, partSize: number, partNumber: number): number {
+	return Math.max(0, Math.min(partSize, size - (partNumber - 1) * partSize));
+}
+
 export function isNoSuchUpload(error: unknown): boolean {
 	return (
 		error instanceof S3ServiceException &&
@@ -52,11 +57,16 @@ export async function createMultipartUpload(key: string, contentType: string): P
 	return result.UploadId;
 }
 
-/** A URL the browser PUTs one part's bytes to, without credentials of its own. */
+/**
+ * A URL the browser PUTs one part's bytes to, without credentials of its own. The part's exact
+ * length is signed into the URL (Content-Length among the signed headers), so storage refuses a
+ * body of any other size: a URL for a 1,000-byte file cannot carry 20 MB.
+ */
 export async function presignPart(
 	key: string,
 	uploadId: string,
 	partNumber: number,
+	contentLength: number,
 	expiresIn = PART_URL_SECONDS
 ): Promise<string> {
 	return getSignedUrl(
@@ -65,9 +75,13 @@ export async function presignPart(
 			Bucket: bucketName(),
 			Key: key,
 			UploadId: uploadId,
-			PartNumber: partNumber
+			PartNumber: partNumber,
+			ContentLength: contentLength
 		}),
-		{ expiresIn: Math.min(expiresIn, PART_URL_SECONDS) }
+		{
+			expiresIn: Math.min(expiresIn, PART_URL_SECONDS),
+			signableHeaders: new Set(['content-length'])
+		}
 	);
 }
 

@@ -14,7 +14,7 @@ import {
 import { normaliseEmail, sendInvitation } from '$lib/server/invitations';
 import {
 	changeRole,
-	emailHasRole,
+	emailHasRoleIn,
 	listMembers,
 	listStaffInvitations,
 	MemberError,
@@ -81,8 +81,13 @@ export const actions: Actions = {
 				role: String(raw.role ?? '')
 			});
 		}
-		if (emailHasRole(parsed.data.email)) {
-			return failed('invite', 'That address already has an account in a clinic.', 409, parsed.data);
+		if (emailHasRoleIn(parsed.data.email, admin.clinicId)) {
+			return failed(
+				'invite',
+				'That address already has an account in your clinic.',
+				409,
+				parsed.data
+			);
 		}
 		await sendInvitation({ clinicId: admin.clinicId, ...parsed.data, invitedBy: admin });
 		return { action: 'invite', sent: parsed.data.email };

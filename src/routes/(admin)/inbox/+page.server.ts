@@ -4,11 +4,11 @@ import { inboxEnabled, listInbox } from '$lib/server/mail/inbox';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async () => {
-	requireRole('admin');
+	const admin = requireRole('admin');
 	// The development inbox exists only where the mail fake does (DEV_INBOX_URL set).
 	if (!inboxEnabled()) error(404, 'Not found.');
 	try {
-		return { messages: await listInbox(), problem: null };
+		return { messages: await listInbox(admin.clinicId), problem: null };
 	} catch (e) {
 		return { messages: [], problem: e instanceof Error ? e.message : String(e) };
 	}

@@ -1,7 +1,7 @@
 import { fail } from '@sveltejs/kit';
 import { z } from 'zod';
 import { requireRole } from '$lib/server/auth/guard';
-import { emailHasRole } from '$lib/server/members';
+import { emailHasRoleIn } from '$lib/server/members';
 import { normaliseEmail } from '$lib/server/invitations';
 import {
 	invitePatient,
@@ -51,10 +51,10 @@ export const actions: Actions = {
 		const parsed = parseDetails(details);
 		if (!parsed.ok)
 			return fail(400, { action: 'invite', message: parsed.message, path: parsed.path, values });
-		if (emailHasRole(parsedEmail.data)) {
+		if (emailHasRoleIn(parsedEmail.data, clinician.clinicId)) {
 			return fail(409, {
 				action: 'invite',
-				message: 'That address already has an account in a clinic.',
+				message: 'That address already has an account in your clinic.',
 				path: 'email',
 				values
 			});

@@ -1,9 +1,11 @@
-import { fail } from '@sveltejs/kit';
+import { fail, redirect } from '@sveltejs/kit';
 import { eq } from 'drizzle-orm';
 import { z } from 'zod';
 import { ROLE_LABELS } from '$lib/auth/roles';
 import { requireUser } from '$lib/server/auth/guard';
 import { hashPassword, PASSWORD_MIN_LENGTH, verifyPassword } from '$lib/server/auth/passwords';
+import { endSessionsOf, sessionCountOf } from '$lib/server/auth/sessions';
+import { sessionCookieName } from '$lib/server/auth/session';
 import { db, schema } from '$lib/server/db';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -18,6 +20,7 @@ export const load: PageServerLoad = () => {
 		roleLabel: ROLE_LABELS[user.role],
 		clinicName: user.clinicName,
 		hasPassword: Boolean(row?.passwordHash),
+		otherSessions: Math.max(0, sessionCountOf(user.id) - 1),
 		passwordMinLength: PASSWORD_MIN_LENGTH
 	};
 };
@@ -34,7 +37,16 @@ const passwordForm = z
 	.refine((f) => f.password === f.confirm, { message: 'The two new passwords differ.' });
 
 export const actions: Actions = {
-	password: async ({ request }) => {
+	/** Ends every session of this person, this one included (a phone left somewhere, a shared computer). */
+	everywhere: ({ locals, cookies, url }) => {
+		const user = requireUser();
+		endSessionsOf(user.id, 'signed-out-everywhere');
+		locals.user = null;
+		cookies.delete(sessionCookieName(url), { path: '/' });
+		redirect(303, '/signin?ended=everywhere');
+	},
+
+	password: async ({ request, locals }) => {
 		const user = requireUser();
 		const raw = Object.fromEntries(await request.formData());
 		const parsed = passwordForm.safeParse({
@@ -54,6 +66,8 @@ export const actions: Actions = {
 			.set({ passwordHash: await hashPassword(parsed.data.password) })
 			.where(eq(schema.users.id, user.id))
 			.run();
-		return { saved: true };
+		// Whoever knew the old password may hold a session: every other one ends.
+		const ended = endSessionsOf(user.id, 'password-changed', locals.sessionId ?? undefined);
+		return { saved: true, ended };
 	}
 };

@@ -2,15 +2,9 @@ import { CredentialsSignin } from '@auth/sveltekit';
 import { fail, isRedirect, redirect } from '@sveltejs/kit';
 import { z } from 'zod';
 import { ROLE_HOME } from '$lib/auth/roles';
-import { safeNext } from '$lib/forms/safe-next';
-import { recordAudit } from '$lib/server/audit';
-import {
-	clearSignInFailures,
-	linkRequestAllowed,
-	recordLinkRequest,
-	recordSignInFailure,
-	signInLockout
-} from '$lib/server/auth/sign-in-limits';
+import { safeRedirect } from '$lib/forms/safe-redirect';
+import { config } from '$lib/server/config';
+import { attemptLockout, waitInWords } from '$lib/server/auth/sign-in-limits';
 import { normaliseEmail } from '$lib/server/invitations';
 import { signIn } from '../../../auth';
 import type { Actions, PageServerLoad } from './$types';
@@ -27,23 +21,34 @@ const AUTH_ERRORS: Record<string, string> = {
 
 export const load: PageServerLoad = ({ locals, url }) => {
 	if (locals.user)
-		redirect(303, safeNext(url.searchParams.get('next'), ROLE_HOME[locals.user.role]));
+		redirect(
+			303,
+			safeRedirect(url.searchParams.get('next'), config().ORIGIN, ROLE_HOME[locals.user.role])
+		);
 	const code = url.searchParams.get('error');
 	return {
-		next: safeNext(url.searchParams.get('next')),
+		next: safeRedirect(url.searchParams.get('next'), config().ORIGIN),
 		authError: code ? (AUTH_ERRORS[code] ?? 'Signing in did not work. Please try again.') : null,
-		notice: url.searchParams.get('welcome') ? 'Your account is ready. Sign in below.' : null,
+		notice: url.searchParams.get('welcome')
+			? 'Your account is ready. Sign in below.'
+			: url.searchParams.get('ended') === 'everywhere'
+				? 'You are signed out on every device. Sign in again below.'
+				: null,
 		email: url.searchParams.get('email') ?? ''
 	};
 };
 
+// Auth.js's action reads the provider from the form's `providerId`; without it, it would only
+// redirect, so a post missing it is refused as incomplete rather than "signed in" nowhere.
 const passwordForm = z.object({
+	providerId: z.literal('credentials'),
 	email: z.email().max(320).transform(normaliseEmail),
 	password: z.string().min(1).max(1024),
 	redirectTo: z.string().optional()
 });
 
 const linkForm = z.object({
+	providerId: z.literal('nodemailer'),
 	email: z.email().max(320).transform(normaliseEmail),
 	redirectTo: z.string().optional()
 });
@@ -67,14 +72,15 @@ export const actions: Actions = {
 		}
 		const { email } = parsed.data;
 		const address = event.getClientAddress();
-		const lockout = signInLockout(email, address);
+		// authorize() (src/auth.ts) enforces the limit and counts failures wherever a sign-in
+		// comes from; asking here first lets the page answer 429 with the wait in words.
+		const lockout = attemptLockout('password-failure', email, address);
 		if (lockout.locked) {
 			event.setHeaders({ 'Retry-After': String(lockout.retryAfterSeconds) });
-			const minutes = Math.ceil(lockout.retryAfterSeconds / 60);
 			return fail(429, {
 				method: 'password',
 				email,
-				message: `Too many failed sign-ins. Wait ${minutes} minute${minutes === 1 ? '' : 's'} and try again, or ask for a sign-in link by e-mail.`
+				message: `Too many failed sign-ins. Wait ${waitInWords(lockout)} and try again, or ask for a sign-in link by e-mail.`
 			});
 		}
 		try {
@@ -85,18 +91,9 @@ export const actions: Actions = {
 			const failed =
 				thrown instanceof CredentialsSignin ||
 				(isRedirect(thrown) && redirectFailed(thrown.location, event.url));
-			if (failed) {
-				recordSignInFailure(email, address);
-				recordAudit({
-					kind: 'sign-in-failed',
-					subject: email,
-					detail: { method: 'password', address }
-				});
-				return fail(400, { method: 'password', email, message: GENERIC_FAILURE });
-			}
+			if (failed) return fail(400, { method: 'password', email, message: GENERIC_FAILURE });
 			if (!isRedirect(thrown)) throw thrown;
-			clearSignInFailures(email);
-			redirect(303, safeNext(parsed.data.redirectTo));
+			redirect(303, safeRedirect(parsed.data.redirectTo, config().ORIGIN));
 		}
 		return fail(500, {
 			method: 'password',
@@ -117,20 +114,24 @@ export const actions: Actions = {
 		}
 		const { email } = parsed.data;
 		// Past the limit nothing is sent, yet the answer is the same as always, so the form
-		// reveals neither the limit nor whether the address has an account.
-		if (!linkRequestAllowed(email)) redirect(303, '/signin/link-sent');
+		// reveals neither the limit nor whether the address has an account. The signIn callback
+		// (src/auth.ts) enforces the limit and counts requests wherever they come from.
+		if (attemptLockout('link-request', email, event.getClientAddress()).locked)
+			redirect(303, '/signin/link-sent');
 		try {
 			await signIn(event);
 		} catch (thrown) {
 			if (!isRedirect(thrown)) throw thrown;
-			if (redirectFailed(thrown.location, event.url)) {
+			// A refusal by the limit (a request racing past the check above) looks like any other.
+			const code = new URL(thrown.location, event.url).searchParams.get('error');
+			if (code === 'AccessDenied') redirect(303, '/signin/link-sent');
+			if (code) {
 				return fail(400, {
 					method: 'link',
 					email,
 					message: 'We could not send a link just now. Please try again in a minute.'
 				});
 			}
-			recordLinkRequest(email, event.getClientAddress());
 			redirect(303, '/signin/link-sent');
 		}
 		return fail(500, { method: 'link', email, message: 'Please try again.' });

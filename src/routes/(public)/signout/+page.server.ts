@@ -1,4 +1,5 @@
 import { redirect } from '@sveltejs/kit';
+import { endSession } from '$lib/server/auth/sessions';
 import { signOut } from '../../../auth';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -6,6 +7,8 @@ export const load: PageServerLoad = ({ locals }) => ({ signedIn: Boolean(locals.
 
 export const actions: Actions = {
 	default: async (event) => {
+		// Ending the server's record is what ends the session; Auth.js then clears the cookie.
+		endSession(event.locals.sessionId ?? undefined);
 		try {
 			await signOut(event);
 		} catch (thrown) {

@@ -5,8 +5,13 @@ import { checkStorage } from '$lib/server/storage';
 import { checkMail } from '$lib/server/mail';
 import type { RequestHandler } from './$types';
 
-export interface HealthReport {
+/** What anyone may know: up or not. */
+export interface PublicHealth {
 	status: 'ok' | 'degraded';
+}
+
+/** What a clinic's admin sees: each service, with its address and any error. */
+export interface HealthReport extends PublicHealth {
 	database: { ok: boolean; detail: string };
 	storage: { ok: boolean; detail: string };
 	mail: { ok: boolean; detail: string };
@@ -21,11 +26,17 @@ function checkDatabase(): { ok: boolean; detail: string } {
 	}
 }
 
-/** Public: reports whether each service Kinelume needs is reachable, without any data. */
-export const GET: RequestHandler = async () => {
+/**
+ * Whether each service Kinelume needs is reachable: 200 or 503 for anyone, with only the
+ * overall status; the details (service addresses, error messages) only for an admin, since they
+ * tell an attacker where the storage and mail servers are and what fails.
+ */
+export const GET: RequestHandler = async ({ locals }) => {
 	const [storage, mail] = await Promise.all([checkStorage(), checkMail()]);
 	const database = checkDatabase();
 	const ok = database.ok && storage.ok && mail.ok;
-	const report: HealthReport = { status: ok ? 'ok' : 'degraded', database, storage, mail };
-	return json(report, { status: ok ? 200 : 503, headers: { 'Cache-Control': 'no-store' } });
+	const status = ok ? 'ok' : 'degraded';
+	const body: PublicHealth | HealthReport =
+		locals.user?.role === 'admin' ? { status, database, storage, mail } : { status };
+	return json(body, { status: ok ? 200 : 503, headers: { 'Cache-Control': 'no-store' } });
 };

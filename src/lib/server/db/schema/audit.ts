@@ -6,6 +6,7 @@ export const AUDIT_KINDS = [
 	'sign-in-failed',
 	'sign-in-link-requested',
 	'sign-out',
+	'sessions-ended',
 	'invitation-sent',
 	'invitation-accepted',
 	'invitation-revoked',
@@ -33,17 +34,24 @@ export const auditEvents = sqliteTable(
 	(a) => [index('audit_clinic_time').on(a.clinicId, a.createdAt)]
 );
 
-/** Failed password sign-ins, counted per account and per client address for rate limiting. */
-export const signInFailures = sqliteTable(
-	'sign_in_failure',
+export const SIGN_IN_ATTEMPT_KINDS = ['password-failure', 'link-request'] as const;
+export type SignInAttemptKind = (typeof SIGN_IN_ATTEMPT_KINDS)[number];
+
+/**
+ * Sign-in attempts that count against the limits: failed passwords and e-mailed link requests,
+ * each counted per account and per client address (src/lib/server/auth/sign-in-limits.ts).
+ */
+export const signInAttempts = sqliteTable(
+	'sign_in_attempt',
 	{
 		id: integer('id').primaryKey({ autoIncrement: true }),
+		kind: text('kind', { enum: SIGN_IN_ATTEMPT_KINDS }).notNull().default('password-failure'),
 		email: text('email').notNull(),
 		address: text('address').notNull(),
 		createdAt: timestampNow('created_at')
 	},
 	(f) => [
-		index('sign_in_failure_email_time').on(f.email, f.createdAt),
-		index('sign_in_failure_address_time').on(f.address, f.createdAt)
+		index('sign_in_attempt_email_time').on(f.kind, f.email, f.createdAt),
+		index('sign_in_attempt_address_time').on(f.kind, f.address, f.createdAt)
 	]
 );

@@ -4,9 +4,9 @@ import { inboxEnabled, readInboxMessage } from '$lib/server/mail/inbox';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ params }) => {
-	requireRole('admin');
+	const admin = requireRole('admin');
 	if (!inboxEnabled()) error(404, 'Not found.');
-	const message = await readInboxMessage(params.id);
+	const message = await readInboxMessage(admin.clinicId, params.id);
 	if (!message) error(404, 'That message is not in the inbox.');
 	return {
 		message: {

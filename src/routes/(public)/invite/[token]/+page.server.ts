@@ -82,7 +82,8 @@ export const actions: Actions = {
 			await startSession(cookies, url, {
 				id: accepted.userId,
 				email: accepted.email,
-				name: parsed.data.name
+				name: parsed.data.name,
+				role: 'patient'
 			});
 			recordAudit({
 				kind: 'sign-in',

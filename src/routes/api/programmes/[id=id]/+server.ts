@@ -26,7 +26,16 @@ export const GET: RequestHandler = ({ params }) => {
 export const PUT: RequestHandler = async ({ params, request }) => {
 	const caller = apiCaller('clinician');
 	if (caller instanceof Response) return caller;
-	if (!findProgramme(caller.clinicId, params.id)) return apiError(404, 'Not found.');
+	const view = findProgramme(caller.clinicId, params.id);
+	if (!view) return apiError(404, 'Not found.');
+	// A published programme is what the patient follows: it changes only through "Save changes
+	// and e-mail" on the programme page, which tells them. The live save is for drafts.
+	if (view.programme.status === 'published') {
+		return apiError(
+			409,
+			'This programme is published, so it was not changed. Use “Save changes and e-mail” so the patient is told.'
+		);
+	}
 	const body = await request.json().catch(() => undefined);
 	if (body === undefined) return apiError(400, 'Send the programme as JSON.');
 	const outcome = saveDraft(caller, params.id, body, true);
