@@ -208,9 +208,7 @@ test('range-of-motion readings compare with normal, the other side and the measu
 	await addReading('Right', '117', addDays(today, -14));
 	await addReading('Left (affected)', '95', addDays(today, -14));
 	const readings = page.getByRole('table', { name: 'Range of motion' });
-	await expect(readings).toContainText(
-		'Knee flexion 95° = 70% of the AAOS normal 135° (from memory — check)'
-	);
+	await expect(readings).toContainText('Knee flexion 95° = 70% of the AAOS normal 135°');
 	await expect(readings).toContainText('81% of the right side (117°)');
 
 	await addReading('Left (affected)', '101', addDays(today, -7));

@@ -234,7 +234,7 @@ test('clinician builds a programme, the patient replays, restyles captions and l
 	await patient.getByLabel('Your name').press('Enter');
 	await expect(patient).toHaveURL(/\/today$/);
 	await expect(patient.getByRole('heading', { level: 1 })).toContainText(PATIENT.first);
-	await expect(patient.getByRole('heading', { name: 'Stop if it hurts' })).toBeVisible();
+	await expect(patient.getByRole('heading', { name: 'When to stop' })).toBeVisible();
 	await expect(patient.getByTestId('day-status')).toHaveText('0 of 3 sessions done today');
 	await expectNoAxeViolations(patient);
 

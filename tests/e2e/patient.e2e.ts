@@ -159,7 +159,7 @@ test('a patient replays an exercise, sets captions, counts by keyboard and logs 
 	await signInWithPassword(page, patient.email);
 	await visit(page, '/today');
 	await expect(page.getByRole('heading', { level: 1 })).toContainText('Mabel');
-	await expect(page.getByRole('heading', { name: 'Stop if it hurts' })).toBeVisible();
+	await expect(page.getByRole('heading', { name: 'When to stop' })).toBeVisible();
 	await expect(page.getByTestId('day-status')).toHaveText('0 of 6 sessions done today');
 	// The suggested time is 09:00; later in the day the first session is due at once.
 	await expect(page.getByTestId('next-session')).toHaveText(
@@ -177,7 +177,7 @@ test('a patient replays an exercise, sets captions, counts by keyboard and logs 
 	await expect(gate).toContainText('hot, red or more swollen');
 	await expect(gate.getByRole('listitem')).toHaveCount(2);
 	await expect(page.getByTestId('replay-video')).toHaveCount(0);
-	await expect(page.getByRole('heading', { name: 'Stop if it hurts' })).toBeVisible();
+	await expect(page.getByRole('heading', { name: 'When to stop' })).toBeVisible();
 	await expectNoAxeViolations(page);
 	await screens(page, 'replay-safety');
 	await gate.getByRole('button', { name: /I have read these notes/ }).click();

@@ -38,7 +38,7 @@ for (const home of HOMES) {
 
 test('the patient home carries the standing caution', async ({ page }) => {
 	await signInWithPassword(page, ACCOUNTS.patient);
-	await expect(page.getByRole('complementary', { name: 'Stop if it hurts' })).toContainText(
+	await expect(page.getByRole('complementary', { name: 'When to stop' })).toContainText(
 		'sharp or getting worse'
 	);
 });

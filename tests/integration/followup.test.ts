@@ -184,7 +184,7 @@ describe('the caseload', () => {
 		const [rise, stay] = caseload.rows;
 		expect(rise.adherence7).toMatchObject({ prescribed: 7, counted: 7, percent: 100 });
 		expect(rise.adherence28).toMatchObject({ from: '2026-11-03', prescribed: 28, counted: 28 });
-		expect(rise.pain).toMatchObject({ baseline: 2, recent: 5, flagged: true });
+		expect(rise.pain).toMatchObject({ baseline: 3, recent: 5, flagged: true });
 		expect(rise.flags.map((f) => f.kind)).toEqual(['pain-rise']);
 		// Today (Monday) has nothing yet, so it does not count against Sam: 5 of the 6 days before.
 		expect(stay.adherence7).toMatchObject({ prescribed: 6, counted: 5, percent: 83 });
@@ -281,9 +281,7 @@ describe('range-of-motion readings', () => {
 		);
 		const rows = patientFollowup(clinicA.id, rising.id, { now: NOW })!.figures.rom;
 		const last = rows.find((r) => r.id === later.id)!;
-		expect(last.normal?.text).toBe(
-			'Knee flexion 96° = 71% of the AAOS normal 135° (from memory — check)'
-		);
+		expect(last.normal?.text).toBe('Knee flexion 96° = 71% of the AAOS normal 135°');
 		expect(last.otherSide?.text).toBe('74% of the right side (130°, measured 16 Nov 2026)');
 		expect(last.change?.beyondError).toBe(false);
 
@@ -343,7 +341,7 @@ describe('the weekly digest', () => {
 		const message = await readInboxMessage(clinicA.id, toA[0].id);
 		expect(message?.text).toContain('Rhoda Rise');
 		expect(message?.text).toContain(
-			'Pain flag: recent average 5.0 is 3.0 above the baseline 2.0 (a rise of 2 points is clinically important — Farrar et al. 2001).'
+			'Pain flag: recent average 5.0 is 2.0 above the 7 days before (3.0) (a rise of 2 points or 30% is clinically important — Farrar et al. 2001, found for a fall in pain).'
 		);
 		expect(message?.text).toContain(
 			'Adherence, 7 days: 7 of 7 sessions (100%) over 24–30 Nov 2026'
@@ -409,5 +407,57 @@ describe('the weekly digest', () => {
 		// Ned has logged nothing in the programme's first week, which the digest flags.
 		expect(mail?.subject).toBe('Your Kinelume week of 14 Dec 2026: 1 patient flagged');
 		expect((await readInboxMessage(west.id, mail!.id))?.text).toContain('No sessions logged');
+	});
+});
+
+describe('severe or sharp pain reaches the clinicians by e-mail', () => {
+	it('e-mails once a patient a day, for a score of 7 or more or "sharp or new pain" (Serlin et al. 1995)', async () => {
+		const { recordSession } = await import('../../src/lib/server/sessions');
+		const { tellCliniciansOfPain } = await import('../../src/lib/server/followup/pain-alerts');
+		const clinic = makeClinic('Invented Pain Alert Clinic');
+		const clinician = makeClinician(clinic.id, 'Ivo Alert');
+		const patient = makePatient(clinician, 'Rhea Sharp', { timeZone: 'Europe/London' });
+		const { item } = publishProgramme(patient, '2026-11-02');
+		const log = (day: string, pain: number, sharpPain = false) =>
+			recordSession(
+				patient,
+				{
+					clientId: crypto.randomUUID(),
+					programmeItemId: item.id,
+					doneAt: `${day}T10:00:00Z`,
+					setsDone: 1,
+					repsDone: 10,
+					pain,
+					sharpPain,
+					note: ''
+				},
+				Date.parse('2026-12-31T00:00:00Z')
+			).log;
+
+		expect(await tellCliniciansOfPain(patient, log('2026-12-01', 6))).toBe('not-needed');
+		expect(await tellCliniciansOfPain(patient, log('2026-12-01', 8))).toBe('sent');
+		expect(await tellCliniciansOfPain(patient, log('2026-12-01', 9))).toBe('already-sent-today');
+		expect(await tellCliniciansOfPain(patient, log('2026-12-02', 3, true))).toBe('sent');
+
+		const mails = (await listInbox(clinic.id)).filter((m) => m.to.includes(clinician.email));
+		expect(mails.map((m) => m.subject)).toEqual([
+			'Kinelume: a patient logged severe or sharp pain',
+			'Kinelume: a patient logged severe or sharp pain'
+		]);
+		const texts = await Promise.all(
+			mails.map(async (m) => (await readInboxMessage(clinic.id, m.id))!.text)
+		);
+		// Newest first: the sharp one, then the severe one.
+		expect(texts[0]).toContain(
+			'Rhea Sharp (Invented Pain Alert Clinic) logged pain 3/10 and ticked “sharp or new pain” after “Heel slides” on 2 Dec 2026.'
+		);
+		expect(texts[1]).toContain('logged pain 8/10 after “Heel slides” on 1 Dec 2026.');
+		expect(texts[1]).toContain('7 to 10 is severe on the 0–10 scale (Serlin et al., Pain 1995');
+		expect(texts[1]).toContain(`/patients/${patient.id}`);
+		// And the caseload says so, with the flag first.
+		const figures = patientFollowup(clinic.id, patient.id, {
+			now: new Date('2026-12-02T18:00:00Z')
+		});
+		expect(figures?.figures.flags[0]).toMatchObject({ kind: 'pain-severe' });
 	});
 });

@@ -82,3 +82,68 @@ describe('precaution conflicts', () => {
 		});
 	});
 });
+
+describe('the movement type drives conflicts too', () => {
+	it('an active shoulder exercise clashes with "passive motion only" with no tag on it', () => {
+		// Common practice after a rotator cuff repair: protected passive motion first.
+		const conflicts = precautionConflicts(['rotator-cuff-repair-passive-only'], [], {
+			movementType: 'active',
+			bodyRegion: 'Shoulder'
+		});
+		expect(conflicts).toHaveLength(1);
+		expect(conflicts[0].fromMovementType).toBe('active');
+		expect(conflicts[0].reason).toBe(
+			'Rotator cuff repair: passive motion only on the operated side. This exercise is marked active, so it needs active shoulder motion: moving the shoulder with its own muscles works the repaired tendon.'
+		);
+		for (const movementType of ['active-assisted', 'resisted'] as const) {
+			expect(
+				precautionConflicts(['rotator-cuff-repair-passive-only'], [], {
+					movementType,
+					bodyRegion: 'shoulder'
+				}).length
+			).toBeGreaterThan(0);
+		}
+	});
+
+	it('a passive shoulder exercise, or an active one elsewhere, does not', () => {
+		const precautions = ['rotator-cuff-repair-passive-only'];
+		expect(
+			precautionConflicts(precautions, [], { movementType: 'passive', bodyRegion: 'Shoulder' })
+		).toEqual([]);
+		expect(
+			precautionConflicts(precautions, [], { movementType: 'active', bodyRegion: 'Knee' })
+		).toEqual([]);
+	});
+
+	it('a resisted exercise works against a load, whatever its tags say', () => {
+		const conflicts = precautionConflicts(['no-added-load'], [], {
+			movementType: 'resisted',
+			bodyRegion: 'Knee'
+		});
+		expect(conflicts.map((c) => c.tag)).toEqual([
+			{ kind: 'known', id: 'added-load', label: 'uses a weight or resistance band' }
+		]);
+	});
+
+	it('does not list a clash twice when the tag was also set by hand', () => {
+		const conflicts = precautionConflicts(
+			['rotator-cuff-repair-passive-only'],
+			['active-shoulder-motion'],
+			{ movementType: 'active', bodyRegion: 'Shoulder' }
+		);
+		expect(conflicts).toHaveLength(1);
+		expect(conflicts[0].fromMovementType).toBeUndefined();
+	});
+
+	it('knows what the shoulder needs: supination and lifting after a biceps repair, reaching behind after a cuff repair', () => {
+		expect(
+			precautionConflicts(['biceps-repair'], ['active-forearm-supination', 'lifting']).length
+		).toBe(2);
+		expect(
+			precautionConflicts(
+				['rotator-cuff-repair-passive-only'],
+				['hand-behind-back', 'shoulder-extension-behind-body']
+			).length
+		).toBe(2);
+	});
+});

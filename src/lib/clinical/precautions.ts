@@ -1,9 +1,12 @@
 /**
  * Precaution conflicts: a patient's precautions against an exercise's precaution tags. A small
  * vocabulary in our own plain words covers the common post-operative cases; anything else is free
- * text, and a free-text precaution conflicts with a tag of the same words. Conflicts are warnings
+ * text, and a free-text precaution conflicts with a tag of the same words. An exercise's movement
+ * type adds tags of its own (`impliedTags`), so "active" at the shoulder clashes with "passive
+ * motion only" even when nobody tagged it. Conflicts are warnings
  * for the clinician, who also judges which side an exercise works and whether it applies.
  */
+import { MOVEMENT_LABELS, type MovementType } from '../exercises/vocabulary';
 
 /** What an exercise asks of the body, as tags on the exercise. */
 export const EXERCISE_TAGS = {
@@ -21,7 +24,11 @@ export const EXERCISE_TAGS = {
 	'hip-flexion-beyond-90': 'bends the hip beyond 90°',
 	'hip-adduction-past-midline': 'brings the leg across the middle of the body',
 	'hip-internal-rotation': 'turns the hip inward',
-	'lying-prone': 'is done lying face down (prone)'
+	'lying-prone': 'is done lying face down (prone)',
+	'active-forearm-supination': 'turns the palm up with its own muscles (active supination)',
+	'hand-behind-back': 'reaches the hand up behind the back',
+	'shoulder-extension-behind-body': 'takes the arm back behind the body',
+	lifting: 'lifts or carries something'
 } as const;
 
 export type ExerciseTag = keyof typeof EXERCISE_TAGS;
@@ -51,12 +58,17 @@ export type PrecautionId = keyof typeof PRECAUTIONS;
 export const CONFLICTS: Record<PrecautionId, Partial<Record<ExerciseTag, string>>> = {
 	'biceps-repair': {
 		'active-elbow-flexion': 'bending the elbow with its own muscles works the repaired biceps',
-		'added-load': 'a load in the hand makes the biceps work'
+		'active-forearm-supination': 'turning the palm up works the repaired biceps',
+		'added-load': 'a load in the hand makes the biceps work',
+		lifting: 'lifting makes the biceps work'
 	},
 	'rotator-cuff-repair-passive-only': {
 		'active-shoulder-motion': 'moving the shoulder with its own muscles works the repaired tendon',
 		'weight-through-arm': 'taking weight through the arm loads the repair',
-		'added-load': 'a weight or band loads the repair'
+		'added-load': 'a weight or band loads the repair',
+		lifting: 'lifting loads the repair',
+		'hand-behind-back': 'reaching behind the back stretches the repaired tendon',
+		'shoulder-extension-behind-body': 'taking the arm back stretches the front of the shoulder'
 	},
 	'shoulder-elevation-limit-90': {
 		'shoulder-above-90': ''
@@ -68,7 +80,8 @@ export const CONFLICTS: Record<PrecautionId, Partial<Record<ExerciseTag, string>
 		'weight-through-arm': ''
 	},
 	'no-added-load': {
-		'added-load': ''
+		'added-load': '',
+		lifting: ''
 	},
 	'non-weight-bearing': {
 		'full-weight-bearing': '',
@@ -136,6 +149,21 @@ export interface PrecautionConflict {
 	tag: Resolved<ExerciseTag>;
 	/** A sentence for the clinician. */
 	reason: string;
+	/** Set when the tag came from the exercise's movement type rather than from its tags. */
+	fromMovementType?: MovementType;
+}
+
+/**
+ * Tags an exercise carries by its movement type, whether or not anyone also tagged it: any
+ * movement but passive at the shoulder moves it with its own muscles (so it clashes with
+ * "passive motion only"), and a resisted exercise works against a load.
+ */
+export function impliedTags(movementType: MovementType, bodyRegion: string): ExerciseTag[] {
+	const tags: ExerciseTag[] = [];
+	if (movementType !== 'passive' && /shoulder/i.test(bodyRegion))
+		tags.push('active-shoulder-motion');
+	if (movementType === 'resisted') tags.push('added-load');
+	return tags;
 }
 
 /** Shown with conflicts: the product flags; the clinician decides. */
@@ -148,9 +176,17 @@ export const PRECAUTION_CAUTION =
  */
 export function precautionConflicts(
 	patientPrecautions: readonly string[],
-	exerciseTags: readonly string[]
+	exerciseTags: readonly string[],
+	movement?: { movementType: MovementType; bodyRegion: string }
 ): PrecautionConflict[] {
-	const tags = exerciseTags.filter((t) => t.trim() !== '').map(resolveTag);
+	const tagged = exerciseTags.filter((t) => t.trim() !== '').map(resolveTag);
+	const taggedIds = new Set(tagged.flatMap((t) => (t.kind === 'known' ? [t.id] : [])));
+	const implied = movement
+		? impliedTags(movement.movementType, movement.bodyRegion)
+				.filter((id) => !taggedIds.has(id))
+				.map((id) => ({ ...resolveTag(id), implied: true as const }))
+		: [];
+	const tags: (Resolved<ExerciseTag> & { implied?: true })[] = [...tagged, ...implied];
 	const conflicts: PrecautionConflict[] = [];
 	const seen = new Set<string>();
 	for (const raw of patientPrecautions) {
@@ -161,7 +197,11 @@ export function precautionConflicts(
 			if (precaution.kind === 'known' && tag.kind === 'known') {
 				const why = CONFLICTS[precaution.id][tag.id];
 				if (why !== undefined) {
-					reason = `${precaution.label}. This exercise ${tag.label}${why ? `: ${why}` : ''}.`;
+					const what =
+						tag.implied && movement
+							? `is marked ${MOVEMENT_LABELS[movement.movementType].toLowerCase()}, so it ${tag.label}`
+							: tag.label;
+					reason = `${precaution.label}. This exercise ${what}${why ? `: ${why}` : ''}.`;
 				}
 			} else if (
 				precaution.kind === 'free' &&
@@ -173,7 +213,13 @@ export function precautionConflicts(
 			const key = `${precaution.label}\u0000${tag.label}`;
 			if (reason && !seen.has(key)) {
 				seen.add(key);
-				conflicts.push({ precaution, tag, reason });
+				const { implied, ...resolved } = tag;
+				conflicts.push({
+					precaution,
+					tag: resolved,
+					reason,
+					...(implied && movement ? { fromMovementType: movement.movementType } : {})
+				});
 			}
 		}
 	}

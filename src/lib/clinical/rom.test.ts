@@ -26,7 +26,8 @@ describe('normal values', () => {
 	it('marks the AAOS knee values as from memory (REFERENCES.md: flexion 135, extension 0, memory)', () => {
 		expect(normalValue('knee-flexion')).toMatchObject({ degrees: 135, confidence: 'memory' });
 		expect(normalValue('knee-extension')).toMatchObject({ degrees: 0, confidence: 'memory' });
-		expect(NORM_SOURCES.aaos.citation).toMatch(/from memory/);
+		// Marked in the data, not in the citation a clinician reads.
+		expect(NORM_SOURCES.aaos.citation).not.toMatch(/memory|check/i);
 	});
 
 	it('offers the AMA Guides lower limits (Norkin & White Table A.1, quoting the AMA Guides)', () => {
@@ -99,10 +100,16 @@ describe('percent of normal and of the other side', () => {
 		expect(percentOfNormal(100, 'knee-flexion', { source: 'cdc' })).toBeNull();
 	});
 
-	it('compares with the other side', () => {
-		expect(percentOfOtherSide(90, 120)).toBe(75);
-		expect(percentOfOtherSide(-5, 0)).toBeNull();
-		expect(percentOfOtherSide(10, -2)).toBeNull();
+	it('compares with the other side as a percentage only for motions measured from zero up', () => {
+		// Common practice: a ratio for flexion, abduction and rotations; degrees for extension.
+		expect(percentOfOtherSide('shoulder-flexion', 90, 120)).toBe(75);
+		expect(percentOfOtherSide('shoulder-external-rotation', 30, 60)).toBe(50);
+		expect(percentOfOtherSide('knee-flexion', 100, 0)).toBeNull();
+		expect(percentOfOtherSide('knee-flexion', -5, 120)).toBeNull();
+		// −10° short of straight against 3° past it is no "−333%".
+		expect(percentOfOtherSide('knee-extension', -10, 3)).toBeNull();
+		expect(percentOfOtherSide('knee-extension', 5, 5)).toBeNull();
+		expect(percentOfOtherSide('shoulder-extension', 40, 50)).toBeNull();
 	});
 });
 

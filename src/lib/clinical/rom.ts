@@ -51,8 +51,9 @@ export const NORM_SOURCES: Record<NormSourceId, NormSource> = {
 	aaos: {
 		id: 'aaos',
 		name: 'AAOS',
+		// The knee values are from memory (confidence 'memory' below; DEVELOPERS.md lists them).
 		citation:
-			'American Academy of Orthopaedic Surgeons, as quoted in Norkin & White, Measurement of Joint Motion, Table A.1. Knee values from memory: check before clinical use.',
+			'American Academy of Orthopaedic Surgeons, as quoted in Norkin & White, Measurement of Joint Motion, Table A.1.',
 		values: {
 			'shoulder-flexion': { degrees: 180, confidence: 'read' },
 			'shoulder-extension': { degrees: 60, confidence: 'read' },
@@ -165,9 +166,27 @@ export function percentOfNormal(
 	};
 }
 
-/** The affected side as a percentage of the other side; null when the other side is 0 or less. */
-export function percentOfOtherSide(affected: number, other: number): number | null {
-	return other > 0 ? (affected / other) * 100 : null;
+/**
+ * Motions where a percentage of the other side means something: those measured from zero
+ * upward (flexion, abduction, rotations). Extension readings sit near zero and change sign
+ * (−10° short of straight against +3° past it would be "−333%"), so they are compared by the
+ * difference in degrees (common practice; see the references).
+ */
+export function percentOfOtherSideApplies(motion: MotionId): boolean {
+	return !motion.endsWith('-extension');
+}
+
+/**
+ * The affected side as a percentage of the other side; null where a ratio means nothing: an
+ * extension motion, or either reading below zero, or the other side at zero.
+ */
+export function percentOfOtherSide(
+	motion: MotionId,
+	affected: number,
+	other: number
+): number | null {
+	if (!percentOfOtherSideApplies(motion) || affected < 0 || other <= 0) return null;
+	return (affected / other) * 100;
 }
 
 /** The smallest change a measurement can show beyond its error, with its source. */

@@ -48,7 +48,7 @@ export function painChart(
 	if (baseline !== null) {
 		series.push(
 			{
-				label: `Baseline, first week (${baseline.toFixed(1)})`,
+				label: `Baseline, earlier 7 days (${baseline.toFixed(1)})`,
 				data: days.map(() => Math.round(baseline * 10) / 10),
 				tone: 'slate',
 				style: 'dashed',

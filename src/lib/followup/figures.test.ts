@@ -23,6 +23,7 @@ function log(localDate: string, pain: number, item = 'item-a'): FigureLog {
 		setsDone: 1,
 		repsDone: 10,
 		pain,
+		sharpPain: false,
 		note: ''
 	};
 }
@@ -66,16 +67,39 @@ describe('a patient’s follow-up figures', () => {
 		expect(f.flags).toEqual([]);
 	});
 
-	it('flags a pain rise of 2 points or more over the first week (Farrar et al., Pain 2001)', () => {
+	it('flags a pain rise of 2 points or more over the 7 days before (Farrar et al., Pain 2001)', () => {
 		const logs = [
 			...datesFrom('2026-11-02', '2026-11-08').map((d) => log(d, 2)),
 			...datesFrom('2026-11-09', '2026-11-23').map((d) => log(d, 3)),
 			...datesFrom('2026-11-24', '2026-11-30').map((d) => log(d, 5))
 		];
 		const f = patientFigures(input(logs), now);
-		expect(f.pain).toMatchObject({ baseline: 2, recent: 5, flagged: true });
+		expect(f.pain).toMatchObject({
+			baseline: 3,
+			baselineKind: 'previous',
+			recent: 5,
+			flagged: true
+		});
 		expect(f.flags.map((x) => x.kind)).toEqual(['pain-rise']);
 		expect(f.flags[0].detail).toContain('Farrar et al. 2001');
+	});
+
+	it('flags one severe score or "sharp or new pain" at once (Serlin et al., Pain 1995: 7–10 severe)', () => {
+		const steady = datesFrom('2026-11-02', '2026-11-28').map((d) => log(d, 2));
+		expect(patientFigures(input(steady), now).flags).toEqual([]);
+		const severe = [...steady, log('2026-11-29', 8)];
+		const f = patientFigures(input(severe), now);
+		// The one score also lifts the week's average by a point and more: both flags, severe first.
+		expect(f.flags.map((x) => x.kind)).toEqual(['pain-severe', 'pain-rise']);
+		expect(f.flags[0].detail).toBe('8/10 on 29 Nov 2026 (7 to 10 is severe — Serlin et al. 1995).');
+		const sharp = [...steady, { ...log('2026-11-30', 4), sharpPain: true }];
+		expect(patientFigures(input(sharp), now).flags[0]).toMatchObject({
+			kind: 'pain-severe',
+			detail: '4/10 on 30 Nov 2026, with sharp or new pain.'
+		});
+		// Eight days ago is no longer "now".
+		const old = [...steady.filter((l) => l.localDate !== '2026-11-22'), log('2026-11-22', 9)];
+		expect(patientFigures(input(old), now).flags.map((x) => x.kind)).not.toContain('pain-severe');
 	});
 
 	it('flags a week of prescribed sessions with nothing logged, not a quiet day', () => {

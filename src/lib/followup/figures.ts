@@ -18,11 +18,17 @@ import {
 	weeksSince,
 	type LocalDate
 } from '../clinical/calendar';
-import { painTrend, PAIN_BASIS, type PainTrend } from '../clinical/pain';
+import { painAlerts, painTrend, PAIN_BASIS, type PainTrend } from '../clinical/pain';
 import { phaseOnDate, type PhaseHint } from '../clinical/phases';
 import type { NormSourceId } from '../clinical/rom';
 import { romLosses, romRows, type RomReading, type RomRow } from './rom-table';
-import { adherenceSentence, formatDateRange, painSentence, weekAfterSentence } from './words';
+import {
+	adherenceSentence,
+	formatDateRange,
+	painAlertSentence,
+	painSentence,
+	weekAfterSentence
+} from './words';
 
 export interface FigureItem {
 	id: string;
@@ -51,6 +57,8 @@ export interface FigureLog {
 	setsDone: number;
 	repsDone: number;
 	pain: number;
+	/** "Sharp or new pain" ticked. */
+	sharpPain: boolean;
 	note: string;
 }
 
@@ -64,10 +72,11 @@ export interface FigureInput {
 	rom: RomReading[];
 }
 
-export const FLAG_KINDS = ['pain-rise', 'no-sessions', 'rom-loss'] as const;
+export const FLAG_KINDS = ['pain-severe', 'pain-rise', 'no-sessions', 'rom-loss'] as const;
 export type FlagKind = (typeof FLAG_KINDS)[number];
 
 export const FLAG_LABELS: Record<FlagKind, string> = {
+	'pain-severe': 'Severe or sharp pain',
 	'pain-rise': 'Pain rising',
 	'no-sessions': 'No sessions logged',
 	'rom-loss': 'Range of motion lost'
@@ -156,14 +165,9 @@ export function patientFigures(
 		(last, log) => (!last || log.doneAt.getTime() > last.doneAt.getTime() ? log : last),
 		null
 	);
-	// The baseline is the first week with logs (painTrend's default).
-	const trend =
-		logs.length > 0
-			? painTrend(
-					logs.map((l) => ({ date: l.localDate, score: l.pain })),
-					today
-				)
-			: null;
+	// The last 7 days against the 7 before and the best 7 so far (painTrend).
+	const painEntries = logs.map((l) => ({ date: l.localDate, score: l.pain, sharp: l.sharpPain }));
+	const trend = logs.length > 0 ? painTrend(painEntries, today) : null;
 	const pain = trend ? { ...trend, text: painSentence(trend) } : null;
 
 	const since = input.operationDate ? weeksSince(input.operationDate, today) : null;
@@ -186,6 +190,15 @@ export function patientFigures(
 	});
 
 	const flags: Flag[] = [];
+	// A severe score or "sharp or new pain" in the last 7 days, whatever the trend says.
+	const alerts = painAlerts(painEntries, today);
+	if (alerts.length > 0) {
+		flags.push({
+			kind: 'pain-severe',
+			label: FLAG_LABELS['pain-severe'],
+			detail: painAlertSentence(alerts)
+		});
+	}
 	if (pain?.flagged) {
 		flags.push({ kind: 'pain-rise', label: FLAG_LABELS['pain-rise'], detail: pain.text });
 	}

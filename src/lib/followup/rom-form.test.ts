@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { romEntrySchema } from './rom-form';
+import { degreesHint, romEntrySchema } from './rom-form';
 
 const base = {
 	motion: 'knee-flexion',
@@ -30,5 +30,14 @@ describe('the range-of-motion entry form', () => {
 		expect(message({ measuredOn: '2026-02-30' })).toBe(
 			'Give the date of the measurement as a calendar date.'
 		);
+	});
+});
+
+describe('the degrees hint follows the motion chosen', () => {
+	it('speaks of the knee only for knee motions, and of the arm position for rotations', () => {
+		expect(degreesHint('knee-extension')).toMatch(/^Knee extension: 0 is straight/);
+		expect(degreesHint('shoulder-flexion')).not.toMatch(/knee/i);
+		expect(degreesHint('shoulder-external-rotation')).toMatch(/arm was at the side or raised/);
+		expect(degreesHint('')).toBe('Whole or half degrees, as read on the instrument.');
 	});
 });

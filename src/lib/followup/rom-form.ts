@@ -40,6 +40,22 @@ export const romEntrySchema = z.object({
 
 export type RomEntry = z.output<typeof romEntrySchema>;
 
-/** How the form says which way knee extension is written. */
-export const KNEE_EXTENSION_HINT =
-	'Knee extension: 0 is straight; write a lag as a negative number (−5 is 5° short of straight).';
+/** How to write the degrees of a motion, under the entry field; it follows the motion chosen. */
+export function degreesHint(motion: string): string {
+	switch (motion) {
+		case 'knee-extension':
+			return 'Knee extension: 0 is straight; write a lag as a negative number (−5 is 5° short of straight).';
+		case 'knee-flexion':
+			return 'Knee flexion: degrees of bend from straight (0).';
+		case 'shoulder-flexion':
+		case 'shoulder-abduction':
+			return 'Degrees the arm is raised from the side (0).';
+		case 'shoulder-extension':
+			return 'Degrees the arm moves back behind the body from the side (0).';
+		case 'shoulder-internal-rotation':
+		case 'shoulder-external-rotation':
+			return 'Degrees of turn from the forearm pointing straight ahead (0); say in the note whether the arm was at the side or raised.';
+		default:
+			return 'Whole or half degrees, as read on the instrument.';
+	}
+}

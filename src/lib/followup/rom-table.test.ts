@@ -26,14 +26,26 @@ describe('range-of-motion rows', () => {
 			{ source: 'aaos', affectedSide: 'left' }
 		);
 		const left = rows.find((r) => r.side === 'left')!;
-		// AAOS knee flexion 135° is from memory (REFERENCES.md): the text must say so.
-		expect(left.normal?.text).toBe(
-			'Knee flexion 95° = 70% of the AAOS normal 135° (from memory — check)'
-		);
+		// AAOS knee flexion 135° is from memory (REFERENCES.md); the screen names the table only.
+		expect(left.normal?.text).toBe('Knee flexion 95° = 70% of the AAOS normal 135°');
 		expect(left.otherSide?.text).toBe('81% of the right side (117°)');
 		expect(left.affected).toBe(true);
 		// The unaffected side is the reference, not compared with the affected one.
 		expect(rows.find((r) => r.side === 'right')!.otherSide).toBeNull();
+	});
+
+	it('compares extension with the other side in degrees, never as a percentage', () => {
+		// Common practice (REFERENCES.md): a ratio means nothing for readings near zero that change sign.
+		const rows = romRows(
+			[
+				reading({ motion: 'knee-extension', degrees: -10, measuredOn: '2026-11-20' }),
+				reading({ motion: 'knee-extension', side: 'right', degrees: 3, measuredOn: '2026-11-20' })
+			],
+			{ source: 'aaos', affectedSide: 'left' }
+		);
+		const left = rows.find((r) => r.side === 'left')!;
+		expect(left.otherSide).toMatchObject({ percent: null, difference: -13 });
+		expect(left.otherSide?.text).toBe('13° less than the right side (3°)');
 	});
 
 	it('counts a change only beyond the measurement error', () => {
@@ -79,9 +91,7 @@ describe('range-of-motion rows', () => {
 			}
 		);
 		expect(row.normal?.percent).toBeNull();
-		expect(row.normal?.text).toBe(
-			'Knee extension −5° = 5° short of the AAOS normal 0° (from memory — check)'
-		);
+		expect(row.normal?.text).toBe('Knee extension −5° = 5° short of the AAOS normal 0°');
 	});
 
 	it('says when the chosen table has no value, and compares both sides when neither is marked', () => {

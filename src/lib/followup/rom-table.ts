@@ -62,10 +62,12 @@ const seriesKey = (r: Pick<RomReading, 'motion' | 'side' | 'mode'>) =>
 const byDate = (a: RomReading, b: RomReading) =>
 	a.measuredOn < b.measuredOn ? -1 : a.measuredOn > b.measuredOn ? 1 : 0;
 
+/**
+ * How a value's source is worded on screen. A value recalled from memory is marked so in the
+ * code, tests and DEVELOPERS.md (its `confidence`), never as a note on a clinician's screen.
+ */
 function confidenceNote(confidence: string): string {
-	if (confidence === 'memory') return ' (from memory — check)';
-	if (confidence === 'secondary') return ' (from a secondary source)';
-	return '';
+	return confidence === 'secondary' ? ' (from a secondary source)' : '';
 }
 
 /**
@@ -117,7 +119,10 @@ export function romRows(
 			.at(-1);
 		const showOther = !sideKnown || reading.side === options.affectedSide;
 		if (other && showOther) {
-			const percent = percentOfOtherSide(reading.degrees, other.degrees);
+			// A motion off our list is compared in degrees only.
+			const percent = isMotionId(reading.motion)
+				? percentOfOtherSide(reading.motion, reading.degrees, other.degrees)
+				: null;
 			const difference = reading.degrees - other.degrees;
 			const when =
 				other.measuredOn === reading.measuredOn ? '' : `, measured ${formatDate(other.measuredOn)}`;

@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { adherence } from '../clinical/adherence';
 import { painTrend } from '../clinical/pain';
 import {
+	painAlertSentence,
 	adherenceBasis,
 	adherenceSentence,
 	daysAgo,
@@ -53,35 +54,46 @@ describe('figures with their basis', () => {
 		);
 	});
 
-	it('states a pain flag with both averages and the 2-point rule (Farrar et al., Pain 2001)', () => {
-		const first = ['2026-11-02', '2026-11-03', '2026-11-04', '2026-11-05'].map((date) => ({
+	it('states a pain flag with both averages and the rule (Farrar et al., Pain 2001)', () => {
+		const before = ['2026-11-17', '2026-11-18', '2026-11-19', '2026-11-20'].map((date) => ({
 			date,
 			score: 3
 		}));
 		const recent = [5, 6, 5, 6].map((score, i) => ({ date: `2026-11-2${i + 4}`, score }));
-		const trend = painTrend([...first, ...recent], '2026-11-30');
+		const trend = painTrend([...before, ...recent], '2026-11-30');
 		expect(trend.flagged).toBe(true);
-		expect(painBasis(trend)).toBe('last 7 days 5.5 vs first week 3.0');
+		expect(painBasis(trend)).toBe('last 7 days 5.5 vs 7 days before 3.0');
 		expect(painSentence(trend)).toBe(
-			'Pain flag: recent average 5.5 is 2.5 above the baseline 3.0 (a rise of 2 points is clinically important — Farrar et al. 2001).'
+			'Pain flag: recent average 5.5 is 2.5 above the 7 days before (3.0) (a rise of 2 points or 30% is clinically important — Farrar et al. 2001, found for a fall in pain).'
 		);
 	});
 
 	it('says why a small rise is no flag, and why too few scores are not compared', () => {
-		const first = ['2026-11-02', '2026-11-03', '2026-11-04'].map((date) => ({ date, score: 3 }));
-		const recent = ['2026-11-26', '2026-11-27', '2026-11-28'].map((date) => ({ date, score: 4 }));
-		const small = painTrend([...first, ...recent], '2026-11-30');
+		const before = ['2026-11-20', '2026-11-21', '2026-11-22'].map((date) => ({ date, score: 6 }));
+		const recent = ['2026-11-26', '2026-11-27', '2026-11-28'].map((date) => ({ date, score: 7 }));
+		const small = painTrend([...before, ...recent], '2026-11-30');
 		expect(painSentence(small)).toBe(
-			'No pain flag: recent average 4.0 is 1.0 above the baseline 3.0, under the 2 points that count (Farrar et al. 2001).'
+			'No pain flag: recent average 7.0 is 1.0 above the 7 days before (6.0), under the 2 points or 30% that count (Farrar et al. 2001, found for a fall in pain).'
 		);
-		const few = painTrend([{ date: '2026-11-02', score: 3 }], '2026-11-30');
+		const few = painTrend([{ date: '2026-11-29', score: 3 }], '2026-11-30');
 		expect(painSentence(few)).toMatch(/^Not compared/);
-		expect(painNotComparedBasis(few)).toBe('fewer than 3 scores in the first week');
-		expect(painNotComparedBasis(painTrend(first, '2026-11-05'))).toBe(
-			'the first week of scores is not over'
+		expect(painNotComparedBasis(few)).toBe('fewer than 3 scores in the last 7 days');
+		expect(painNotComparedBasis(painTrend(recent, '2026-11-30'))).toBe(
+			'no earlier 7 days with 3 scores'
 		);
-		expect(painNotComparedBasis(painTrend(first, '2026-11-30'))).toBe(
-			'fewer than 3 scores in the last 7 days'
+	});
+
+	it('lists severe or sharp pain with its dates and names the severity source', () => {
+		expect(
+			painAlertSentence([
+				{ date: '2026-12-03', score: 8, sharp: true },
+				{ date: '2026-12-01', score: 7 }
+			])
+		).toBe(
+			'8/10 on 3 Dec 2026, with sharp or new pain; 7/10 on 1 Dec 2026 (7 to 10 is severe — Serlin et al. 1995).'
+		);
+		expect(painAlertSentence([{ date: '2026-12-03', score: 2, sharp: true }])).toBe(
+			'2/10 on 3 Dec 2026, with sharp or new pain.'
 		);
 	});
 

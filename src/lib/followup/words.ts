@@ -4,7 +4,13 @@
  */
 import { describeAdherence, type AdherenceWindow } from '../clinical/adherence';
 import { describeTimeSince, weeksSince, type LocalDate } from '../clinical/calendar';
-import { PAIN_IMPORTANT_CHANGE, type PainTrend } from '../clinical/pain';
+import {
+	PAIN_IMPORTANT_CHANGE,
+	PAIN_IMPORTANT_PERCENT,
+	PAIN_SEVERE_FROM,
+	type PainEntry,
+	type PainTrend
+} from '../clinical/pain';
 
 const MONTHS = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec'];
 
@@ -66,44 +72,58 @@ export function adherenceBasis(window: AdherenceWindow): string {
 }
 
 /** Why a pain trend is not compared yet, in a few words for a table cell. */
-export function painNotComparedBasis(
-	trend: Pick<PainTrend, 'baseline' | 'recent' | 'baselineWindow' | 'recentWindow'>
-): string {
-	if (trend.baseline === null) return 'fewer than 3 scores in the first week';
-	if (trend.baselineWindow && trend.recentWindow.from <= trend.baselineWindow.to) {
-		return 'the first week of scores is not over';
-	}
-	return 'fewer than 3 scores in the last 7 days';
+export function painNotComparedBasis(trend: Pick<PainTrend, 'baseline' | 'recent'>): string {
+	if (trend.recent === null) return 'fewer than 3 scores in the last 7 days';
+	return 'no earlier 7 days with 3 scores';
 }
 
-/** What a table cell says under the pain trend: "last 7 days 6.0 vs first week 2.5". */
-export function painBasis(trend: Pick<PainTrend, 'baseline' | 'recent'>): string | null {
+/** Which earlier days a trend is measured from, in words: "the 7 days before", "the best 7 days". */
+function baselineWords(trend: Pick<PainTrend, 'baselineKind'>): string {
+	return trend.baselineKind === 'best' ? 'best 7 days' : '7 days before';
+}
+
+/** What a table cell says under the pain trend: "last 7 days 6.0 vs 7 days before 2.5". */
+export function painBasis(
+	trend: Pick<PainTrend, 'baseline' | 'recent' | 'baselineKind'>
+): string | null {
 	if (trend.baseline === null || trend.recent === null) return null;
-	return `last 7 days ${oneDecimal(trend.recent)} vs first week ${oneDecimal(trend.baseline)}`;
+	return `last 7 days ${oneDecimal(trend.recent)} vs ${baselineWords(trend)} ${oneDecimal(trend.baseline)}`;
 }
 
 /**
  * The pain trend in one sentence with its numbers and the threshold's source, e.g. "Pain flag:
- * recent average 5.5 is 2.5 above the baseline 3.0 (a rise of 2 points is clinically important —
- * Farrar et al. 2001)".
+ * recent average 5.5 is 2.5 above the 7 days before (3.0) (a rise of 2 points or 30% is
+ * clinically important — Farrar et al. 2001, found for a fall in pain)".
  */
 export function painSentence(trend: PainTrend): string {
-	const cite = 'Farrar et al. 2001';
+	const cite = 'Farrar et al. 2001, found for a fall in pain';
 	if (trend.baseline === null || trend.recent === null || trend.change === null) {
 		return trend.reason;
 	}
-	const baseline = oneDecimal(trend.baseline);
+	const baseline = `the ${baselineWords(trend)} (${oneDecimal(trend.baseline)})`;
 	const recent = oneDecimal(trend.recent);
 	const size = oneDecimal(Math.abs(trend.change));
-	const rule = `a rise of ${PAIN_IMPORTANT_CHANGE} points is clinically important — ${cite}`;
+	const rule = `a rise of ${PAIN_IMPORTANT_CHANGE} points or ${PAIN_IMPORTANT_PERCENT}% is clinically important — ${cite}`;
 	if (trend.flagged) {
-		return `Pain flag: recent average ${recent} is ${size} above the baseline ${baseline} (${rule}).`;
+		return `Pain flag: recent average ${recent} is ${size} above ${baseline} (${rule}).`;
 	}
 	if (trend.direction === 'better') {
-		return `Pain easing: recent average ${recent} is ${size} below the baseline ${baseline}.`;
+		return `Pain easing: recent average ${recent} is ${size} below ${baseline}.`;
 	}
 	const relation = trend.change >= 0 ? 'above' : 'below';
-	return `No pain flag: recent average ${recent} is ${size} ${relation} the baseline ${baseline}, under the ${PAIN_IMPORTANT_CHANGE} points that count (${cite}).`;
+	return `No pain flag: recent average ${recent} is ${size} ${relation} ${baseline}, under the ${PAIN_IMPORTANT_CHANGE} points or ${PAIN_IMPORTANT_PERCENT}% that count (${cite}).`;
+}
+
+/**
+ * The severe or sharp pain of the last 7 days in one sentence, newest first: "8/10 on 3 Dec 2026,
+ * with sharp or new pain; 7/10 on 1 Dec 2026 (7 to 10 is severe — Serlin et al. 1995)".
+ */
+export function painAlertSentence(alerts: readonly PainEntry[]): string {
+	const each = alerts.map(
+		(a) => `${a.score}/10 on ${formatDate(a.date)}${a.sharp ? ', with sharp or new pain' : ''}`
+	);
+	const severe = alerts.some((a) => a.score >= PAIN_SEVERE_FROM);
+	return `${each.join('; ')}${severe ? ` (${PAIN_SEVERE_FROM} to 10 is severe — Serlin et al. 1995)` : ''}.`;
 }
 
 /** "6 weeks 3 days after the operation on 12 Oct 2026", or how far ahead a planned one is. */

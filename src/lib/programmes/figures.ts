@@ -6,6 +6,7 @@
  * the server can repeat it. Each figure carries its basis; each hint its caution.
  */
 import { weeksSince, type LocalDate } from '$lib/clinical/calendar';
+import type { MovementType } from '$lib/exercises/vocabulary';
 import {
 	laterPhaseFlag,
 	phaseForWeek,
@@ -35,6 +36,9 @@ export interface FigureExercise {
 	title: string;
 	phase: number;
 	precautionTags: string[];
+	/** With the body region, adds the tags the movement type implies (precautions.ts). */
+	movementType?: MovementType;
+	bodyRegion?: string;
 	dosageBounds: DosageBounds | null;
 	secondsPerRep: number | null;
 	/** The demonstration's length, when it has one. */
@@ -146,7 +150,13 @@ export function programmeFigures(
 			minutes: sessionMinutes(dosage, pace),
 			paceBasis: basis,
 			phaseFlag: laterPhaseFlag(phaseOf(exercise.phase), week?.hint ?? null),
-			conflicts: precautionConflicts(patient.precautions, exercise.precautionTags),
+			conflicts: precautionConflicts(
+				patient.precautions,
+				exercise.precautionTags,
+				exercise.movementType
+					? { movementType: exercise.movementType, bodyRegion: exercise.bodyRegion ?? '' }
+					: undefined
+			),
 			bounds: outOfBounds(dosage, exercise.dosageBounds ?? {})
 		};
 	});

@@ -36,6 +36,8 @@ export const sessionLogSchema = z.object({
 	repsDone: whole('Reps in each set', MAX_REPS_DONE),
 	/** 0–10 on the numeric rating scale. */
 	pain: whole('Pain', 10),
+	/** The patient ticked "sharp or new pain": the clinician is told at once. */
+	sharpPain: z.boolean({ error: 'Sharp or new pain is a yes or no.' }).default(false),
 	note: z
 		.string()
 		.max(MAX_NOTE_LENGTH, `A note can be at most ${MAX_NOTE_LENGTH} characters.`)
@@ -56,6 +58,7 @@ export interface StoredSessionLog {
 	setsDone: number;
 	repsDone: number;
 	pain: number;
+	sharpPain: boolean;
 	note: string;
 }
 

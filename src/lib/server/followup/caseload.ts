@@ -1,3 +1,4 @@
+import type { PainTrend } from '$lib/clinical/pain';
 import {
 	FLAG_KINDS,
 	patientFigures,
@@ -44,15 +45,13 @@ export interface CaseloadRow {
 	adherence7: AdherenceFigure | null;
 	adherence28: AdherenceFigure | null;
 	lastSession: { localDate: string; doneAt: Date; pain: number; exerciseTitle: string } | null;
-	pain: {
-		baseline: number | null;
-		recent: number | null;
-		change: number | null;
-		flagged: boolean;
-		text: string;
-		/** Why it is not compared yet, in a few words; null once it is. */
-		notCompared: string | null;
-	} | null;
+	pain:
+		| (Pick<PainTrend, 'baseline' | 'baselineKind' | 'recent' | 'change' | 'flagged'> & {
+				text: string;
+				/** Why it is not compared yet, in a few words; null once it is. */
+				notCompared: string | null;
+		  })
+		| null;
 	operationDate: string | null;
 	sinceOperation: { days: number; weeks: number; text: string } | null;
 	phase: { label: string; protocolName: string; caution: string } | null;
@@ -143,6 +142,7 @@ export function listCaseload(
 			pain: f.pain
 				? {
 						baseline: f.pain.baseline,
+						baselineKind: f.pain.baselineKind,
 						recent: f.pain.recent,
 						change: f.pain.change,
 						flagged: f.pain.flagged,

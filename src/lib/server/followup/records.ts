@@ -26,6 +26,7 @@ export interface FollowupLog {
 	setsDone: number;
 	repsDone: number;
 	pain: number;
+	sharpPain: boolean;
 	note: string;
 }
 
@@ -127,6 +128,7 @@ export function loadRecords(
 			setsDone: log.setsDone,
 			repsDone: log.repsDone,
 			pain: log.pain,
+			sharpPain: log.sharpPain,
 			note: log.note
 		});
 	}

@@ -208,11 +208,48 @@ export function programmePublishedMail(input: {
 		input.hasAccount
 			? 'Open it to replay each exercise with captions and to log your sessions.'
 			: 'To open it, first set up your account with the invitation e-mail we sent to this address (ask the clinic for a new one if it has expired).',
-		'If anything in your programme causes sharp or worsening pain, new numbness or swelling, stop and contact your clinician. This programme was prescribed for you and replaces no assessment.'
+		'If anything in your programme causes sharp or worsening pain, new numbness or swelling, stop and contact your clinician. This programme was prescribed for you and does not replace an assessment.'
 	];
 	return {
 		subject,
 		text: `${lines.join('\n\n')}\n\nOpen your programme: ${input.url}\n`,
 		html: layout(subject, lines, { url: input.url, label: 'Open my programme' })
+	};
+}
+
+/**
+ * To a patient's clinician when a log carries severe pain (7 to 10) or "sharp or new pain". The
+ * subject names no patient (it shows on lock screens); the body says what was logged and links to
+ * the patient's page. A prompt to look, not an assessment.
+ */
+export function painAlertMail(input: {
+	clinicianName: string;
+	clinicName: string;
+	patientName: string;
+	exerciseTitle: string;
+	score: number;
+	severe: boolean;
+	sharp: boolean;
+	dateText: string;
+	hasNote: boolean;
+	url: string;
+}): MailContent {
+	const subject = 'Kinelume: a patient logged severe or sharp pain';
+	const what = [
+		`pain ${input.score}/10`,
+		...(input.sharp ? ['ticked “sharp or new pain”'] : [])
+	].join(' and ');
+	const lines = [
+		`Hello ${input.clinicianName},`,
+		`${input.patientName} (${input.clinicName}) logged ${what} after “${input.exerciseTitle}” on ${input.dateText}.${input.hasNote ? ' Their note is on their page.' : ''}`,
+		...(input.severe
+			? ['7 to 10 is severe on the 0–10 scale (Serlin et al., Pain 1995, set in cancer pain).']
+			: []),
+		'Kinelume sends at most one such e-mail a patient a day. It is a prompt to look, not an assessment: the treating clinician decides what happens next.'
+	];
+	return {
+		subject,
+		text: `${lines.join('\n\n')}\n\nOpen their page: ${input.url}\n`,
+		html: layout(subject, lines, { url: input.url, label: 'Open their page' })
 	};
 }

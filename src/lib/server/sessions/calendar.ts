@@ -79,7 +79,7 @@ export function reminderDays(input: CalendarInput): ReminderDay[] {
 }
 
 const CAUTION =
-	'Stop and contact your clinician if pain is sharp or getting worse. This programme was prescribed for you and replaces no assessment.';
+	'Stop and contact your clinician if pain is sharp or getting worse. This programme was prescribed for you and does not replace an assessment.';
 
 /** The events of the file, in time order. */
 export function reminderEvents(input: CalendarInput): EventAttributes[] {

@@ -333,6 +333,7 @@ function stored(row: SessionLog): StoredSessionLog {
 		setsDone: row.setsDone,
 		repsDone: row.repsDone,
 		pain: row.pain,
+		sharpPain: row.sharpPain,
 		note: row.note
 	};
 }
@@ -396,6 +397,7 @@ export function recordSession(
 					setsDone: input.setsDone,
 					repsDone: input.repsDone,
 					pain: input.pain,
+					sharpPain: input.sharpPain,
 					note: input.note
 				})
 				.returning()

@@ -175,6 +175,8 @@ export const sessionLogs = sqliteTable(
 		repsDone: integer('reps_done').notNull(),
 		/** 0–10 on the numeric rating scale. */
 		pain: integer('pain').notNull(),
+		/** The patient ticked "sharp or new pain": flagged at once, like a severe score. */
+		sharpPain: integer('sharp_pain', { mode: 'boolean' }).notNull().default(false),
 		note: text('note').notNull().default(''),
 		createdAt: timestampNow('created_at')
 	},
@@ -183,6 +185,26 @@ export const sessionLogs = sqliteTable(
 		index('session_log_patient_date').on(l.patientId, l.localDate),
 		index('session_log_item').on(l.programmeItemId)
 	]
+);
+
+/**
+ * That the clinicians were e-mailed about a patient's severe or sharp pain on one of the
+ * patient's days: at most one such e-mail a patient a day. Claimed (inserted) before sending and
+ * given back if sending fails, so two logs at once never send twice.
+ */
+export const painAlertMails = sqliteTable(
+	'pain_alert_mail',
+	{
+		patientId: text('patient_id')
+			.notNull()
+			.references(() => patients.id, { onDelete: 'cascade' }),
+		localDate: text('local_date').notNull(),
+		sessionLogId: text('session_log_id')
+			.notNull()
+			.references(() => sessionLogs.id, { onDelete: 'cascade' }),
+		createdAt: timestampNow('created_at')
+	},
+	(a) => [primaryKey({ columns: [a.patientId, a.localDate] })]
 );
 
 /** That a patient read an exercise's safety notes before its first replay. */
