@@ -19,11 +19,18 @@ import { ACCOUNTS, expectNoAxeViolations, visit } from './support';
 let risingId: string;
 let steadyId: string;
 
+// Names of this run's own people: a rerun on the same data (or a worker restarted after a
+// failure, which runs beforeAll again) seeds new ones instead of doubling these.
+const RUN = crypto.randomUUID().slice(0, 4).toUpperCase();
+const MABEL = `Mabel Thorne ${RUN}`;
+const NORMAN = `Norman Pike ${RUN}`;
+const HARBOUR = `Harbour Patient ${RUN}`;
+
 test.beforeAll(() => {
 	const today = londonToday();
 	const start = addDays(today, -27);
-	// Pain 2 in the first week, 3 after, 6 in the last 7 days (a 4-point rise), every day.
-	risingId = seedCaseloadPatient(ACCOUNTS.clinician, { name: 'Mabel Thorne' });
+	// Pain 2 in the first week, 3 after, 6 in the last 7 days (3 points over the 7 before), every day.
+	risingId = seedCaseloadPatient(ACCOUNTS.clinician, { name: MABEL });
 	const rising = seedProgramme(
 		risingId,
 		[{ title: 'Knee bends (follow-up e2e)', sessionsPerDay: 1, daysPerWeek: 7 }],
@@ -38,7 +45,7 @@ test.beforeAll(() => {
 		...daysBack(6, 0).map((date) => ({ date, pain: 6 }))
 	]);
 	// Five of the six whole days before today, nothing yet today, pain steady.
-	steadyId = seedCaseloadPatient(ACCOUNTS.clinician, { name: 'Norman Pike' });
+	steadyId = seedCaseloadPatient(ACCOUNTS.clinician, { name: NORMAN });
 	const steady = seedProgramme(
 		steadyId,
 		[{ title: 'Thigh tightening (follow-up e2e)', sessionsPerDay: 1, daysPerWeek: 7 }],
@@ -53,7 +60,7 @@ test.beforeAll(() => {
 	// Enough patients in the other clinic for two pages of 25.
 	for (let i = 1; i <= 27; i++) {
 		seedCaseloadPatient(ACCOUNTS.otherClinicClinician, {
-			name: `Harbour Patient ${String(i).padStart(2, '0')}`,
+			name: `${HARBOUR} ${String(i).padStart(2, '0')}`,
 			operationDaysAgo: i
 		});
 	}
@@ -70,20 +77,20 @@ test('the caseload shows adherence, pain flags with their basis, and sorts and f
 	await visit(page, '/caseload');
 	await expect(page.getByRole('heading', { name: 'Caseload' })).toBeVisible();
 
-	const rising = rowOf(page, 'Mabel Thorne');
+	const rising = rowOf(page, MABEL);
 	await expect(rising).toContainText('100%');
 	await expect(rising).toContainText('7 of 7 sessions, ');
 	await expect(rising).toContainText('Pain rising');
 	await expect(rising).toContainText(
-		'Pain flag: recent average 6.0 is 4.0 above the baseline 2.0 (a rise of 2 points is clinically important — Farrar et al. 2001).'
+		'Pain flag: recent average 6.0 is 3.0 above the 7 days before (3.0) (a rise of 2 points or 30% is clinically important — Farrar et al. 2001, found for a fall in pain).'
 	);
 	await expect(rising).toContainText('Week 6');
-	const steady = rowOf(page, 'Norman Pike');
+	const steady = rowOf(page, NORMAN);
 	await expect(steady).toContainText('83%');
 	await expect(steady).toContainText('5 of 6 sessions, ');
 	await expect(steady).toContainText('None');
 	// Another clinic's patients never appear.
-	await expect(page.getByText('Harbour Patient 01')).toHaveCount(0);
+	await expect(page.getByText(`${HARBOUR} 01`)).toHaveCount(0);
 	await expect(page.getByRole('heading', { name: 'How these figures are counted' })).toBeVisible();
 	await expectNoAxeViolations(page);
 
@@ -96,20 +103,20 @@ test('the caseload shows adherence, pain flags with their basis, and sorts and f
 	);
 	const names = await page.getByRole('rowheader').allInnerTexts();
 	const order = names.map((n) => n.split('\n')[0]);
-	expect(order.indexOf('Norman Pike')).toBeLessThan(order.indexOf('Mabel Thorne'));
+	expect(order.indexOf(NORMAN)).toBeLessThan(order.indexOf(MABEL));
 
 	// Filter by flag with the form, then search by name.
 	await page.getByLabel('Flags').selectOption('pain-rise');
 	await page.getByRole('button', { name: 'Show' }).click();
 	await expect(page).toHaveURL(/flag=pain-rise/);
-	await expect(rowOf(page, 'Mabel Thorne')).toBeVisible();
-	await expect(rowOf(page, 'Norman Pike')).toHaveCount(0);
+	await expect(rowOf(page, MABEL)).toBeVisible();
+	await expect(rowOf(page, NORMAN)).toHaveCount(0);
 	await page.getByLabel('Flags').selectOption('all');
-	await page.getByLabel('Name').fill('norman');
+	await page.getByLabel('Name').fill(NORMAN.toLowerCase());
 	await page.getByLabel('Name').press('Enter');
 	await expect(page).toHaveURL(/q=norman/);
 	await expect(page.getByRole('rowheader')).toHaveCount(1);
-	await expect(rowOf(page, 'Norman Pike')).toBeVisible();
+	await expect(rowOf(page, NORMAN)).toBeVisible();
 	await page.getByLabel('Name').fill('Harbour');
 	await page.getByLabel('Name').press('Enter');
 	await expect(page.getByText('No patient matches this filter.')).toBeVisible();
@@ -117,23 +124,23 @@ test('the caseload shows adherence, pain flags with their basis, and sorts and f
 
 test('the caseload pages by 25 and sorts by name both ways', async ({ page }) => {
 	await signInAs(page, ACCOUNTS.otherClinicClinician);
-	await visit(page, '/caseload?q=Harbour+Patient');
+	await visit(page, `/caseload?q=${encodeURIComponent(HARBOUR)}`);
 	await expect(page.getByRole('heading', { name: '27 patients match' })).toBeVisible();
 	await expect(page.getByRole('rowheader')).toHaveCount(25);
 	await expect(page.getByText('Page 1 of 2')).toBeVisible();
 	await page.getByRole('link', { name: 'Next' }).click();
 	await expect(page).toHaveURL(/page=2/);
 	await expect(page.getByRole('rowheader')).toHaveCount(2);
-	await expect(page.getByRole('rowheader').first()).toContainText('Harbour Patient 26');
+	await expect(page.getByRole('rowheader').first()).toContainText(`${HARBOUR} 26`);
 	// Sorting starts again at the first page.
 	await page.getByRole('link', { name: /^Patient.*sort/ }).click();
 	await expect(page).toHaveURL(/sort=name&dir=desc/);
 	await expect(page).not.toHaveURL(/page=/);
-	await expect(page.getByRole('rowheader').first()).toContainText('Harbour Patient 27');
+	await expect(page.getByRole('rowheader').first()).toContainText(`${HARBOUR} 27`);
 	// By week after the operation, soonest first (patient 01 was operated on a day ago).
 	await page.getByRole('link', { name: /Since operation/ }).click();
-	await expect(page.getByRole('rowheader').first()).toContainText('Harbour Patient 01');
-	await expect(page.getByText('Mabel Thorne')).toHaveCount(0);
+	await expect(page.getByRole('rowheader').first()).toContainText(`${HARBOUR} 01`);
+	await expect(page.getByText(MABEL)).toHaveCount(0);
 });
 
 /** The number of painted pixels on a chart's canvas (0 until chart.js has drawn). */
@@ -152,14 +159,14 @@ async function paintedPixels(page: Page, chart: string): Promise<number> {
 test('a patient page draws its charts, each with a table of the same numbers', async ({ page }) => {
 	await signInAs(page, ACCOUNTS.clinician);
 	await visit(page, `/patients/${risingId}`);
-	await expect(page.getByRole('heading', { name: 'Mabel Thorne' })).toBeVisible();
+	await expect(page.getByRole('heading', { name: MABEL })).toBeVisible();
 	await expect(page.getByRole('link', { name: 'Knee home programme' })).toBeVisible();
 	await expect(page.getByRole('link', { name: 'New programme' })).toHaveAttribute(
 		'href',
 		`/programmes/new?patient=${risingId}`
 	);
 	await expect(
-		page.getByText('Pain flag: recent average 6.0 is 4.0 above the baseline 2.0').first()
+		page.getByText('Pain flag: recent average 6.0 is 3.0 above the 7 days before (3.0)').first()
 	).toBeVisible();
 
 	for (const chart of ['adherence-chart', 'pain-chart']) {
@@ -244,7 +251,7 @@ test('range-of-motion readings compare with normal, the other side and the measu
 
 	// The caseload carries the range-of-motion flag too.
 	await visit(page, '/caseload?flag=rom-loss');
-	await expect(rowOf(page, 'Norman Pike')).toContainText('Range of motion lost');
+	await expect(rowOf(page, NORMAN)).toContainText('Range of motion lost');
 });
 
 test("another clinic's patient page is not found", async ({ page }) => {
