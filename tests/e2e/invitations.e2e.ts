@@ -2,6 +2,11 @@ import { expect, test } from '@playwright/test';
 import { ACCOUNTS, database, firstLink, signInWithPassword, waitForMail } from './support';
 import { E2E } from './ports';
 
+// People of this run's own: the suite can run again on the same data without meeting them twice.
+const RUN = crypto.randomUUID().slice(0, 4).toUpperCase();
+const NEWCOMER = `Noor Ashby ${RUN}`;
+const JOINING_PATIENT = `Hattie Groves ${RUN}`;
+
 test('an admin invites a clinician, who accepts and signs in; the link then is spent', async ({
 	page,
 	browser
@@ -33,7 +38,7 @@ test('an admin invites a clinician, who accepts and signs in; the link then is s
 	await expect(newcomer.getByRole('heading', { level: 1 })).toHaveText(
 		'Join Alder Street Community Clinic'
 	);
-	await newcomer.getByLabel('Your name').fill('Noor Ashby');
+	await newcomer.getByLabel('Your name').fill(NEWCOMER);
 	await newcomer.getByLabel('Choose a password').fill('a-long-enough-secret');
 	await newcomer.getByLabel('Type the password again').fill('a-long-enough-secret');
 	await newcomer.getByRole('button', { name: 'Accept and create my account' }).click();
@@ -47,7 +52,7 @@ test('an admin invites a clinician, who accepts and signs in; the link then is s
 	await guest.close();
 
 	await page.reload();
-	await expect(page.getByRole('cell', { name: 'Noor Ashby', exact: true })).toBeVisible();
+	await expect(page.getByRole('cell', { name: NEWCOMER, exact: true })).toBeVisible();
 });
 
 test('an expired invitation link is refused with a clear message and changes nothing', async ({
@@ -94,19 +99,19 @@ test('a clinician invites a patient, who joins without a password, lands on Toda
 	await signInWithPassword(page, ACCOUNTS.clinician);
 	const since = Date.now();
 	const invite = page.locator('form[action="?/invite"]');
-	await invite.getByLabel('Full name').fill('Hattie Groves');
+	await invite.getByLabel('Full name').fill(JOINING_PATIENT);
 	await invite.getByLabel('E-mail address').fill(email);
 	await invite.getByLabel('Operation or injury').fill('Left total knee replacement');
 	await invite.getByLabel('Affected side').selectOption('left');
 	await invite.getByRole('button', { name: 'Send invitation' }).click();
-	const row = page.getByRole('row').filter({ hasText: 'Hattie Groves' });
+	const row = page.getByRole('row').filter({ hasText: JOINING_PATIENT });
 	await expect(row.getByText('Invited')).toBeVisible();
 
 	const link = firstLink((await waitForMail(email, since)).text, '/invite/');
 	const guest = await browser.newContext({ baseURL: E2E.origin });
 	const patient = await guest.newPage();
 	await patient.goto(link);
-	await patient.getByLabel('Your name').fill('Hattie Groves');
+	await patient.getByLabel('Your name').fill(JOINING_PATIENT);
 	await patient.getByRole('button', { name: 'Accept and create my account' }).click();
 	// Accepting signs the patient in at once and opens their programme.
 	await expect(patient).toHaveURL(/\/today$/);
@@ -130,7 +135,7 @@ test('a clinician invites a patient, who joins without a password, lands on Toda
 
 	await page.reload();
 	await expect(
-		page.getByRole('row').filter({ hasText: 'Hattie Groves' }).getByText('Signed up')
+		page.getByRole('row').filter({ hasText: JOINING_PATIENT }).getByText('Signed up')
 	).toBeVisible();
 });
 

@@ -32,7 +32,11 @@ import {
 const run = promisify(execFile);
 const CLIPS = resolve(import.meta.dirname, '../.run/demo-clips');
 const EXERCISE = 'Heel slides';
-const PATIENT = { name: 'Nora Ashdown', first: 'Nora' };
+// Named per run, so the journey can run again on the same data.
+const PATIENT = {
+	name: `Nora Ashdown ${crypto.randomUUID().slice(0, 4).toUpperCase()}`,
+	first: 'Nora'
+};
 
 // The demo's own exercise (src/lib/server/demo/exercises.ts): title, cues, notes and dosage.
 const SAFETY = `Stop and call the clinic if:

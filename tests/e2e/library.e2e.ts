@@ -22,7 +22,12 @@ import { seedCollection, seedExercise, seedPublicExercise } from './library-supp
 
 const run = promisify(execFile);
 const SHOTS = join(import.meta.dirname, '../.run/e2e-results');
-const TITLE = 'Sit to stand from a chair';
+// Letters of this run's own (slugs are made of words): the suite can run again on the same data.
+const RUN = Array.from(
+	{ length: 4 },
+	() => 'abcdefghijklmnopqrstuvwxyz'[Math.floor(Math.random() * 26)]
+).join('');
+const TITLE = `Sit to stand from a chair ${RUN}`;
 const CUES = [
 	{ id: '1', start: 0.5, end: 2.5, text: 'Sit tall on the chair.' },
 	{ id: '2', start: 3.5, end: 5.5, text: 'Now stand up slowly.' }
@@ -264,13 +269,16 @@ test('submit → changes requested → fixed → approved → found by a signed-
 	}
 	expect((await visitor.request.get(`/api/segments/${segmentId}/clip.mp4`)).status()).toBe(401);
 	const sitemap = await (await visitor.request.get('/sitemap.xml')).text();
-	expect(sitemap).toContain('/library/exercises/sit-to-stand-from-a-chair');
+	expect(sitemap).toContain(`/library/exercises/sit-to-stand-from-a-chair-${RUN}`);
 
 	// A collection with it is public too, and readable.
-	seedCollection('Chair exercises for week two', 'chair-exercises-for-week-two', 'published', [
-		entryId
-	]);
-	await visitor.goto('/library/collections/chair-exercises-for-week-two');
+	seedCollection(
+		'Chair exercises for week two',
+		`chair-exercises-for-week-two-${RUN}`,
+		'published',
+		[entryId]
+	);
+	await visitor.goto(`/library/collections/chair-exercises-for-week-two-${RUN}`);
 	await expect(
 		visitor.getByRole('heading', { name: 'Chair exercises for week two', level: 1 })
 	).toBeVisible();
@@ -329,16 +337,21 @@ test('an educator builds a collection in order, with a cover, and publishes it',
 		.get() as { clinicId: string };
 	db.close();
 	await seedPublicExercise(clinicId, {
-		title: 'Collection ankle circles',
-		slug: 'collection-ankle-circles'
+		title: `Collection ankle circles ${RUN}`,
+		slug: `collection-ankle-circles-${RUN}`
 	});
-	await seedPublicExercise(clinicId, { title: 'Collection bridging', slug: 'collection-bridging' });
+	await seedPublicExercise(clinicId, {
+		title: `Collection bridging ${RUN}`,
+		slug: `collection-bridging-${RUN}`
+	});
 
 	const educator = await asNewPerson(browser, ACCOUNTS.educator);
 	await educator.goto('/curate/collections');
-	await educator.getByLabel('Title').fill('Morning routine');
+	await educator.getByLabel('Title').fill(`Morning routine ${RUN}`);
 	await educator.getByRole('button', { name: 'Create the collection' }).click();
-	await expect(educator.getByRole('heading', { name: 'Morning routine', level: 1 })).toBeVisible();
+	await expect(
+		educator.getByRole('heading', { name: `Morning routine ${RUN}`, level: 1 })
+	).toBeVisible();
 	await expect(educator.getByText('Draft', { exact: true })).toBeVisible();
 	await educator
 		.getByLabel('Introduction (Markdown: **bold**, lists, links)')
@@ -346,17 +359,17 @@ test('an educator builds a collection in order, with a cover, and publishes it',
 	await educator.getByRole('button', { name: 'Save' }).click();
 	await expect(educator.getByText('Saved.')).toBeVisible();
 
-	for (const title of ['Collection ankle circles', 'Collection bridging']) {
+	for (const title of [`Collection ankle circles ${RUN}`, `Collection bridging ${RUN}`]) {
 		await educator.getByLabel('Add a published exercise').selectOption({ label: title });
 		await educator.getByRole('button', { name: 'Add', exact: true }).click();
 		await expect(educator.getByText('Added.')).toBeVisible();
 	}
 	const items = educator.getByRole('region', { name: /Exercises, in order/ }).getByRole('listitem');
 	await expect(items).toHaveText([/1\. Collection ankle circles/, /2\. Collection bridging/]);
-	await educator.getByRole('button', { name: 'Move Collection bridging up' }).click();
+	await educator.getByRole('button', { name: `Move Collection bridging ${RUN} up` }).click();
 	await expect(items).toHaveText([/1\. Collection bridging/, /2\. Collection ankle circles/]);
 
-	await educator.getByRole('radio', { name: 'Collection ankle circles, still 1' }).check();
+	await educator.getByRole('radio', { name: `Collection ankle circles ${RUN}, still 1` }).check();
 	await educator.getByRole('button', { name: 'Use this cover' }).click();
 	await expect(educator.getByText('Cover chosen.')).toBeVisible();
 	await educator.getByRole('button', { name: 'Publish the collection' }).click();
@@ -364,8 +377,10 @@ test('an educator builds a collection in order, with a cover, and publishes it',
 	await expectNoAxeViolations(educator);
 
 	const visitor = await asNewPerson(browser, null);
-	await visitor.goto('/library/collections/morning-routine');
-	await expect(visitor.getByRole('heading', { name: 'Morning routine', level: 1 })).toBeVisible();
+	await visitor.goto(`/library/collections/morning-routine-${RUN}`);
+	await expect(
+		visitor.getByRole('heading', { name: `Morning routine ${RUN}`, level: 1 })
+	).toBeVisible();
 	await expect(visitor.locator('strong', { hasText: 'slowly' })).toBeVisible();
 	await expect(
 		visitor.getByRole('region', { name: /exercises, in order/ }).getByRole('listitem')

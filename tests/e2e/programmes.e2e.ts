@@ -23,7 +23,11 @@ import { E2E } from './ports';
 
 const run = promisify(execFile);
 const SHOTS = join(import.meta.dirname, '../.run/e2e-results');
-const NEW_EXERCISE = 'Kneeling reach (e2e)';
+// What each run makes itself is named per run (Playwright evaluates this once per worker, and a
+// repeat runs in a worker of its own), so the suite can run again on the same data.
+const RUN = crypto.randomUUID().slice(0, 4).toUpperCase();
+const NEW_EXERCISE = `Kneeling reach (e2e) ${RUN}`;
+const NEW_PATIENT = `Mabel Quill ${RUN}`;
 const SEEDED_EXERCISE = 'Ankle pumps (e2e)';
 
 let dir: string;
@@ -220,7 +224,7 @@ test('a clinician adds a patient, builds a flagged programme by keyboard, publis
 	await signInWithPassword(page, ACCOUNTS.clinician);
 	await page.goto('/patients');
 	const invite = page.locator('form[action="?/invite"]');
-	await invite.getByLabel('Full name').fill('Mabel Quill');
+	await invite.getByLabel('Full name').fill(NEW_PATIENT);
 	await invite.getByLabel('E-mail address').fill(email);
 	await invite
 		.getByLabel('Operation or injury', { exact: true })
@@ -232,13 +236,13 @@ test('a clinician adds a patient, builds a flagged programme by keyboard, publis
 	await invite.getByRole('checkbox', { name: 'No kneeling' }).check();
 	const inviteSince = Date.now();
 	await invite.getByRole('button', { name: 'Send invitation' }).click();
-	const patientRow = page.getByRole('row').filter({ hasText: 'Mabel Quill' });
+	const patientRow = page.getByRole('row').filter({ hasText: NEW_PATIENT });
 	await expect(patientRow.getByText('Invited')).toBeVisible();
 	await expectNoAxeViolations(page);
 	await shot(page, 'patients');
 
 	// The details page shows what the invitation recorded, and edits it.
-	await patientRow.getByRole('link', { name: 'Details of Mabel Quill' }).click();
+	await patientRow.getByRole('link', { name: `Details of ${NEW_PATIENT}` }).click();
 	await expect(page.getByLabel('Date of the operation (or injury)')).toHaveValue(operationDate);
 	await expect(page.getByRole('checkbox', { name: 'No kneeling' })).toBeChecked();
 	await page.getByLabel('Other precautions').fill('Avoid long car journeys for now');
@@ -249,7 +253,7 @@ test('a clinician adds a patient, builds a flagged programme by keyboard, publis
 	await shot(page, 'patient-details');
 	await page.goto('/patients');
 
-	await patientRow.getByRole('link', { name: 'New programme for Mabel Quill' }).click();
+	await patientRow.getByRole('link', { name: `New programme for ${NEW_PATIENT}` }).click();
 	await expect(page.getByRole('heading', { name: 'New home programme' })).toBeVisible();
 	await expectNoAxeViolations(page);
 	await page.getByRole('button', { name: 'Start building' }).click();
@@ -301,7 +305,7 @@ test('a clinician adds a patient, builds a flagged programme by keyboard, publis
 
 	const since = Date.now();
 	await page.getByRole('button', { name: 'Publish and e-mail Mabel' }).click();
-	await expect(page.getByText('Published and e-mailed to Mabel Quill.')).toBeVisible();
+	await expect(page.getByText(`Published and e-mailed to ${NEW_PATIENT}.`)).toBeVisible();
 	await expect(page.getByText('Published', { exact: true })).toBeVisible();
 	const mail = await waitForMail(email, since, 'home programme');
 	expect(mail.subject).toBe('Your home programme from Alder Street Community Clinic is ready');
@@ -330,7 +334,7 @@ test('a clinician adds a patient, builds a flagged programme by keyboard, publis
 	const guest = await browser.newContext({ baseURL: E2E.origin });
 	const patient = await guest.newPage();
 	await patient.goto(invitation);
-	await patient.getByLabel('Your name').fill('Mabel Quill');
+	await patient.getByLabel('Your name').fill(NEW_PATIENT);
 	await patient.getByRole('button', { name: 'Accept and create my account' }).click();
 	await expect(patient).toHaveURL(/\/today$/);
 	const replay = replayLinks[0].match(/https?:\/\/\S+\/replay\/[0-9a-f-]{36}/)![0];

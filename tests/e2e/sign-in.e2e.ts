@@ -1,6 +1,27 @@
 import { expect, test } from '@playwright/test';
-import { ACCOUNTS, DEMO_PASSWORD, firstLink, signInWithPassword, waitForMail } from './support';
+import {
+	ACCOUNTS,
+	database,
+	DEMO_PASSWORD,
+	firstLink,
+	signInWithPassword,
+	waitForMail
+} from './support';
 import { E2E } from './ports';
+
+// The limit tests spend these accounts' attempts; each test leaves them as it found them, so the
+// suite can run again on the same data (and the rest of it is never locked out).
+test.afterEach(() => {
+	const db = database();
+	try {
+		db.prepare('delete from sign_in_attempt where email in (?, ?)').run(
+			ACCOUNTS.otherPatient,
+			ACCOUNTS.otherClinicClinician
+		);
+	} finally {
+		db.close();
+	}
+});
 
 const HOMES = [
 	{

@@ -68,6 +68,9 @@ const submissionRows = (route: string, file: (submissionId: string) => string): 
 	}
 ];
 
+/** Slugs of this run's own: a rerun on the same data seeds new ones beside the old. */
+const RUN = crypto.randomUUID().slice(0, 6);
+
 export const libraryPart: MatrixPart = {
 	async seed(f) {
 		const segmentId = await seedReadySegment(f.recordingId, { title: 'Matrix library segment' });
@@ -81,25 +84,30 @@ export const libraryPart: MatrixPart = {
 		const submissionId = seedSubmission(exerciseId, ACCOUNTS.clinician);
 		const published = await seedPublicExercise(f.clinicId, {
 			title: 'Matrix published exercise',
-			slug: 'matrix-published-exercise'
+			slug: `matrix-published-exercise-${RUN}`
 		});
 		const unpublished = await seedPublicExercise(f.clinicId, {
 			title: 'Matrix unpublished exercise',
-			slug: 'matrix-unpublished-exercise',
+			slug: `matrix-unpublished-exercise-${RUN}`,
 			status: 'unpublished'
 		});
 		const retired = await seedPublicExercise(f.clinicId, {
 			title: 'Matrix retired exercise',
-			slug: 'matrix-retired-exercise',
+			slug: `matrix-retired-exercise-${RUN}`,
 			status: 'retired'
 		});
-		const collection = seedCollection('Matrix collection', 'matrix-collection', 'published', [
-			published.entryId,
-			unpublished.entryId
-		]);
-		const draft = seedCollection('Matrix draft collection', 'matrix-draft-collection', 'draft', [
-			published.entryId
-		]);
+		const collection = seedCollection(
+			'Matrix collection',
+			`matrix-collection-${RUN}`,
+			'published',
+			[published.entryId, unpublished.entryId]
+		);
+		const draft = seedCollection(
+			'Matrix draft collection',
+			`matrix-draft-collection-${RUN}`,
+			'draft',
+			[published.entryId]
+		);
 		return {
 			librarySegmentId: segmentId,
 			libraryExerciseId: exerciseId,
@@ -131,19 +139,19 @@ export const libraryPart: MatrixPart = {
 		{
 			route: '/(public)/library/exercises/[slug=slug]',
 			note: 'a published exercise',
-			path: () => '/library/exercises/matrix-published-exercise',
+			path: () => `/library/exercises/matrix-published-exercise-${RUN}`,
 			expect: everyone(200)
 		},
 		{
 			route: '/(public)/library/exercises/[slug=slug]',
 			note: 'an unpublished exercise',
-			path: () => '/library/exercises/matrix-unpublished-exercise',
+			path: () => `/library/exercises/matrix-unpublished-exercise-${RUN}`,
 			expect: everyone(404)
 		},
 		{
 			route: '/(public)/library/exercises/[slug=slug]',
 			note: 'a retired exercise',
-			path: () => '/library/exercises/matrix-retired-exercise',
+			path: () => `/library/exercises/matrix-retired-exercise-${RUN}`,
 			expect: everyone(410)
 		},
 		{
@@ -155,13 +163,13 @@ export const libraryPart: MatrixPart = {
 		{
 			route: '/(public)/library/collections/[slug=slug]',
 			note: 'a published collection',
-			path: () => '/library/collections/matrix-collection',
+			path: () => `/library/collections/matrix-collection-${RUN}`,
 			expect: everyone(200)
 		},
 		{
 			route: '/(public)/library/collections/[slug=slug]',
 			note: 'a draft collection',
-			path: () => '/library/collections/matrix-draft-collection',
+			path: () => `/library/collections/matrix-draft-collection-${RUN}`,
 			expect: everyone(404)
 		},
 		{ route: '/(public)/sitemap.xml', path: () => '/sitemap.xml', expect: everyone(200) },
