@@ -5,6 +5,7 @@
  * `next`/`redirectTo`/`callbackUrl` can send anyone off the site.
  */
 import { spawn, type ChildProcess } from 'node:child_process';
+import { createServer, type AddressInfo } from 'node:net';
 import { resolve } from 'node:path';
 import { expect, request, test, type APIRequestContext } from '@playwright/test';
 import { E2E } from './ports';
@@ -455,12 +456,25 @@ test.describe('the smaller holes', () => {
 	});
 });
 
+/** A port nobody listens on now (a rerun must not wait for the last server to let go of its own). */
+function freePort(): Promise<number> {
+	return new Promise((resolvePort, reject) => {
+		const probe = createServer();
+		probe.once('error', reject);
+		probe.listen(0, '127.0.0.1', () => {
+			const { port } = probe.address() as AddressInfo;
+			probe.close(() => resolvePort(port));
+		});
+	});
+}
+
 test.describe('served over https', () => {
-	const port = E2E.appPort + 11;
 	const origin = 'https://kinelume-tls.example';
+	let port: number;
 	let server: ChildProcess;
 
 	test.beforeAll(async () => {
+		port = await freePort();
 		// The same build, data and fakes as the main stack, told that it is served over https
 		// (as behind a TLS proxy); it shares the database, so it runs no background work.
 		server = spawn(process.execPath, [resolve(import.meta.dirname, '../../build')], {
@@ -475,7 +489,9 @@ test.describe('served over https', () => {
 				DEV_INBOX_URL: E2E.mailApi,
 				AUTH_SECRET: 'e2e-only-secret-that-is-long-enough-0123456789',
 				WORKER_IN_APP: 'false',
-				DIGEST_ENABLED: 'false'
+				DIGEST_ENABLED: 'false',
+				// adapter-node waits this long for open connections at shutdown (seconds).
+				SHUTDOWN_TIMEOUT: '1'
 			},
 			stdio: 'ignore'
 		});
@@ -487,8 +503,11 @@ test.describe('served over https', () => {
 		throw new Error('the https-origin server did not start');
 	});
 
-	test.afterAll(() => {
-		server?.kill('SIGTERM');
+	test.afterAll(async () => {
+		if (!server || server.exitCode !== null) return;
+		const exited = new Promise((done) => server.once('exit', done));
+		server.kill('SIGTERM');
+		await exited;
 	});
 
 	test('sends HSTS and sets only Secure session cookies', async () => {

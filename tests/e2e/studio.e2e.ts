@@ -260,6 +260,34 @@ test('a finding’s fix lengthens a cue read too fast, and the finding goes', as
 	await expect(page.getByTestId('checks-summary')).toContainText('DCMP Captioning Key');
 });
 
+test('a fix far down a long list works on the first click', async ({ page }) => {
+	// Twelve calm cues, then one read far too fast at the bottom of the list, with time after it.
+	const calm = Array.from({ length: 12 }, (_, i) => ({
+		id: `calm-${i + 1}`,
+		start: i * 1.2,
+		end: (i + 1) * 1.2,
+		text: 'Breathe out.'
+	}));
+	const fast = {
+		id: 'fast',
+		start: 15,
+		end: 16,
+		text: 'Keep your heel on the bed\nand slide it up towards you.'
+	};
+	const trackId = seedCaptionTrack(recordingId, [...calm, fast], {
+		kind: 'subtitles',
+		language: 'en-IE'
+	});
+	await signInWithPassword(page, ACCOUNTS.clinician);
+	await openStudio(page, trackId);
+	await page.getByLabel('Check against').selectOption('bbc');
+	const last = page.getByRole('list', { name: 'Checks of cue 13' });
+	await expect(last).toContainText('Error: Reading rate');
+	// One click, as a person would make it: the fix must land on the first try.
+	await last.getByRole('button', { name: /Fix: Lengthen into the gap/ }).click();
+	await expect(page.getByRole('list', { name: 'Checks of cue 13' })).toHaveCount(0);
+});
+
 test('a save that meets a newer version shows both side by side and overwrites nothing', async ({
 	page
 }) => {

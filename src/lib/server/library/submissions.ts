@@ -9,6 +9,7 @@ import { and, asc, desc, eq, inArray, ne } from 'drizzle-orm';
 import { computeChecklist, type Checklist } from '$lib/library/checklist';
 import type { ExerciseSnapshot, Licence, SubmissionStatus } from '$lib/library/types';
 import { db } from '../db';
+import { segmentCaptions } from '../segments';
 import {
 	clinics,
 	exercises,
@@ -64,7 +65,8 @@ export interface PublicWording {
 
 /**
  * The exercise frozen for the library: its clinical fields and dosage as they stand, the
- * segment's clipped captions, and the public wording (the exercise's own unless the clinician
+ * segment's captions as patients see them now (the recording's current track, clipped), and the
+ * public wording (the exercise's own unless the clinician
  * adjusted it). A coaching cue keeps its moment in the clip when its words are unchanged.
  */
 export function snapshotOf(
@@ -72,6 +74,7 @@ export function snapshotOf(
 	segment: SegmentRow,
 	wording?: PublicWording
 ): ExerciseSnapshot {
+	const captions = segmentCaptions(segment);
 	const words = wording ?? {
 		title: exercise.title,
 		description: exercise.description,
@@ -101,9 +104,9 @@ export function snapshotOf(
 			id: segment.id,
 			durationSeconds: segment.clipDurationSeconds,
 			posterCount: segment.posterCount,
-			captionsLanguage: segment.captionsLanguage
+			captionsLanguage: captions.language
 		},
-		cues: segment.cues.map((c) => ({ ...c }))
+		cues: captions.cues.map((c) => ({ ...c }))
 	};
 }
 

@@ -666,10 +666,57 @@ export function markSegmentReady(
 // ---------------------------------------------------------------------------------------------
 // Captions of a segment
 
-/** Strong validator for a segment's cues in one format; they never change, so neither does it. */
-export function segmentTag(segment: SegmentRow, format: string): string {
+/** Which captions a segment shows now: the track and version they come from, and the cues. */
+export interface SegmentCaptions {
+	/** The recording's captions track they follow, or null when it has none any more. */
+	trackId: string | null;
+	/** That track's version; with no track, the version copied at confirmation. */
+	version: number;
+	language: string;
+	cues: Cue[];
+}
+
+// Clipped cues by track, version and segment: a version never changes, so neither do they.
+const clippedCaptions = new Map<string, Cue[]>();
+const CLIPPED_KEPT = 500;
+
+/**
+ * A segment's captions as patients see them: the recording's current captions track clipped to
+ * the segment and shifted to start at zero. A fix saved in the caption editor reaches every
+ * replay at once; the clip's pictures did not change, so nothing is cut again. A recording whose
+ * captions track is gone keeps the copy made when the segment was confirmed.
+ */
+export function segmentCaptions(segment: SegmentRow): SegmentCaptions {
+	const track = firstCaptionsTrack(segment.clinicId, segment.recordingId);
+	if (!track) {
+		return {
+			trackId: null,
+			version: segment.captionsVersion,
+			language: segment.captionsLanguage,
+			cues: segment.cues
+		};
+	}
+	const key = `${track.id}\n${track.currentVersion}\n${segment.id}`;
+	let cues = clippedCaptions.get(key);
+	if (!cues) {
+		cues = shiftAndClip(getVersion(track)?.cues ?? [], segment.startSeconds, segment.endSeconds);
+		if (clippedCaptions.size >= CLIPPED_KEPT) {
+			const oldest = clippedCaptions.keys().next().value;
+			if (oldest !== undefined) clippedCaptions.delete(oldest);
+		}
+		clippedCaptions.set(key, cues);
+	}
+	return { trackId: track.id, version: track.currentVersion, language: track.language, cues };
+}
+
+/** Strong validator for a segment's captions in one format: it names the track version shown. */
+export function segmentTag(
+	segment: SegmentRow,
+	format: string,
+	captions = segmentCaptions(segment)
+): string {
 	const hash = createHash('sha256')
-		.update(`segment\n${segment.id}\n${segment.captionsVersion}\n${format}`)
+		.update(`segment\n${segment.id}\n${captions.trackId ?? ''}\n${captions.version}\n${format}`)
 		.digest('base64url');
 	return `"${hash.slice(0, 32)}"`;
 }
@@ -679,10 +726,11 @@ export function segmentVtt(segment: SegmentRow): {
 	etag: string;
 	filename: string;
 } {
+	const captions = segmentCaptions(segment);
 	return {
-		body: () => serializeVtt(segment.cues),
-		etag: segmentTag(segment, 'vtt'),
-		filename: `segment-${segment.position + 1}-${segment.captionsLanguage.replace(/[^A-Za-z0-9-]/g, '')}.vtt`
+		body: () => serializeVtt(captions.cues),
+		etag: segmentTag(segment, 'vtt', captions),
+		filename: `segment-${segment.position + 1}-${captions.language.replace(/[^A-Za-z0-9-]/g, '')}.vtt`
 	};
 }
 
@@ -690,15 +738,21 @@ export interface SegmentTranscript {
 	segmentId: string;
 	title: string;
 	language: string;
+	/** The captions track version the lines come from. */
+	captionsVersion: number;
 	lines: { id: string; start: number; end: number; text: string; plain: string }[];
 }
 
-export function segmentTranscript(segment: SegmentRow): SegmentTranscript {
+export function segmentTranscript(
+	segment: SegmentRow,
+	captions = segmentCaptions(segment)
+): SegmentTranscript {
 	return {
 		segmentId: segment.id,
 		title: segment.title,
-		language: segment.captionsLanguage,
-		lines: segment.cues.map((cue) => ({
+		language: captions.language,
+		captionsVersion: captions.version,
+		lines: captions.cues.map((cue) => ({
 			id: cue.id,
 			start: cue.start,
 			end: cue.end,

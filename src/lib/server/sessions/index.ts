@@ -25,6 +25,7 @@ import { db, schema } from '../db';
 import type { Patient } from '../db/schema/patients';
 import type { Exercise, Programme, ProgrammeItem, SessionLog } from '../db/schema/programmes';
 import type { SegmentRow } from '../db/schema/segments';
+import { segmentCaptions } from '../segments';
 import type { CalendarInput } from './calendar';
 
 /** The patient's current programme: the most recently published one still in force. */
@@ -240,10 +241,13 @@ export function findReplayItem(patientId: string, itemId: string): ReplayItem | 
 	return row ?? undefined;
 }
 
-/** The segment's cues as transcript lines of plain words (tags dropped, never rendered as HTML). */
+/**
+ * The segment's captions as transcript lines of plain words (tags dropped, never rendered as
+ * HTML): the recording's current track, as the `<track>` shows it.
+ */
 export function transcriptLines(segment: SegmentRow | null): TranscriptLine[] {
 	if (!segment) return [];
-	return segment.cues.map((cue) => ({
+	return segmentCaptions(segment).cues.map((cue) => ({
 		id: cue.id,
 		start: cue.start,
 		end: cue.end,
@@ -365,9 +369,10 @@ export function recordSession(
 			if (existing) return { log: stored(existing), created: false };
 
 			const item = tx
-				.select({ id: schema.programmeItems.id })
+				.select({ id: schema.programmeItems.id, segmentId: schema.exercises.segmentId })
 				.from(schema.programmeItems)
 				.innerJoin(schema.programmes, eq(schema.programmes.id, schema.programmeItems.programmeId))
+				.innerJoin(schema.exercises, eq(schema.exercises.id, schema.programmeItems.exerciseId))
 				.where(
 					and(
 						eq(schema.programmeItems.id, input.programmeItemId),
@@ -377,6 +382,12 @@ export function recordSession(
 				)
 				.get();
 			if (!item) throw new SessionLogError(404, 'That exercise is not in your programme.');
+
+			// Which captions the replay showed: the segment's, which follow the recording's track.
+			const segment = item.segmentId
+				? tx.select().from(schema.segments).where(eq(schema.segments.id, item.segmentId)).get()
+				: undefined;
+			const shown = segment ? segmentCaptions(segment) : null;
 
 			const doneAt = new Date(input.doneAt);
 			if (doneAt.getTime() > now + FUTURE_ALLOWANCE_MS) {
@@ -398,7 +409,9 @@ export function recordSession(
 					repsDone: input.repsDone,
 					pain: input.pain,
 					sharpPain: input.sharpPain,
-					note: input.note
+					note: input.note,
+					captionsTrackId: shown?.trackId ?? null,
+					captionsVersion: shown?.trackId ? shown.version : null
 				})
 				.returning()
 				.get();

@@ -178,6 +178,12 @@ export const sessionLogs = sqliteTable(
 		/** The patient ticked "sharp or new pain": flagged at once, like a severe score. */
 		sharpPain: integer('sharp_pain', { mode: 'boolean' }).notNull().default(false),
 		note: text('note').notNull().default(''),
+		/**
+		 * The captions the patient was shown: the recording's track and its version when the
+		 * session was logged (segment captions follow the track). Null when it had none.
+		 */
+		captionsTrackId: text('captions_track_id'),
+		captionsVersion: integer('captions_version'),
 		createdAt: timestampNow('created_at')
 	},
 	(l) => [

@@ -8,4 +8,6 @@ CREATE TABLE `pain_alert_mail` (
 	FOREIGN KEY (`session_log_id`) REFERENCES `session_log`(`id`) ON UPDATE no action ON DELETE cascade
 );
 --> statement-breakpoint
-ALTER TABLE `session_log` ADD `sharp_pain` integer DEFAULT false NOT NULL;
+ALTER TABLE `session_log` ADD `sharp_pain` integer DEFAULT false NOT NULL;--> statement-breakpoint
+ALTER TABLE `session_log` ADD `captions_track_id` text;--> statement-breakpoint
+ALTER TABLE `session_log` ADD `captions_version` integer;
