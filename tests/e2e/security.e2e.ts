@@ -493,14 +493,16 @@ test.describe('served over https', () => {
 				// adapter-node waits this long for open connections at shutdown (seconds).
 				SHUTDOWN_TIMEOUT: '1'
 			},
-			stdio: 'ignore'
+			stdio: ['ignore', 'ignore', 'pipe']
 		});
-		for (let i = 0; i < 100; i++) {
+		let said = '';
+		server.stderr?.on('data', (chunk: Buffer) => (said += chunk.toString()));
+		for (let i = 0; i < 300 && server.exitCode === null; i++) {
 			const up = await fetch(`http://127.0.0.1:${port}/api/health`).catch(() => null);
 			if (up?.ok) return;
 			await new Promise((r) => setTimeout(r, 100));
 		}
-		throw new Error('the https-origin server did not start');
+		throw new Error(`the https-origin server did not start: ${said.slice(-2000)}`);
 	});
 
 	test.afterAll(async () => {
