@@ -3,6 +3,7 @@
  * logs, safety acknowledgements and the caption look. Every function takes the patient's own
  * record (found from the session, never from a URL), so another patient's ids match nothing.
  */
+import { howToMove, type HowToMove } from '$lib/sessions/how-to-move';
 import { and, desc, eq, inArray, isNotNull } from 'drizzle-orm';
 import { plainText } from '$lib/captions/text';
 import { scheduledWeekdays } from '$lib/clinical/adherence';
@@ -91,6 +92,8 @@ export interface TodayItem {
 	title: string;
 	position: string;
 	equipment: string[];
+	/** How to move and which side, in plain words. */
+	howToMove: HowToMove;
 	dosage: Dosage;
 	dosageWords: string;
 	status: ItemDayStatus;
@@ -180,6 +183,7 @@ export function todayFor(patient: Patient, now: number = Date.now()): TodayView 
 			title: exercise.title,
 			position: exercise.position,
 			equipment: exercise.equipment,
+			howToMove: howToMove({ ...exercise, affectedSide: patient.affectedSide }),
 			dosage,
 			dosageWords: describeDosage(dosage),
 			status,

@@ -1,6 +1,7 @@
 import { error, redirect } from '@sveltejs/kit';
 import { localDateOf } from '$lib/clinical/calendar';
 import { describeDosage } from '$lib/dosage';
+import { howToMove } from '$lib/sessions/how-to-move';
 import { renderSafetyNotes } from '$lib/server/markdown';
 import {
 	acknowledgeSafety,
@@ -41,6 +42,7 @@ export const load: PageServerLoad = ({ params }) => {
 			equipment: exercise.equipment,
 			coachingCues: exercise.coachingCues
 		},
+		howToMove: howToMove({ ...exercise, affectedSide: patient.affectedSide }),
 		programmeTitle: programme.title,
 		dosage,
 		dosageWords: describeDosage(dosage),
