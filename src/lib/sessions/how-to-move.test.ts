@@ -22,7 +22,7 @@ describe('how to move, in plain words', () => {
 		const say = (movementType: 'active-assisted' | 'active' | 'resisted') =>
 			howToMove({ movementType, bodyRegion: 'Knee', side: 'left', affectedSide: 'left' }).movement;
 		expect(say('active-assisted')).toMatch(/helps; the leg being treated does part/);
-		expect(say('active')).toBe('The leg being treated moves by itself, without help.');
+		expect(say('active')).toBe('You make the movement yourself, without help.');
 		expect(say('resisted')).toMatch(/against the band or weight/);
 	});
 

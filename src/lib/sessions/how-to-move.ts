@@ -25,21 +25,21 @@ const MOVEMENT: Record<Exclude<Limb, null> | 'other', Record<MovementType, strin
 	arm: {
 		passive: 'Your other arm does the work; keep the arm being treated relaxed.',
 		'active-assisted': 'Your other arm helps; the arm being treated does part of the work.',
-		active: 'The arm being treated moves by itself, without help.',
-		resisted: 'The arm being treated moves against the band or weight you were given.'
+		active: 'You make the movement yourself, without help.',
+		resisted: 'You make the movement yourself, against the band or weight you were given.'
 	},
 	leg: {
 		passive: 'Your hands, a strap or a helper does the work; keep the leg being treated relaxed.',
 		'active-assisted':
 			'Your hands, a strap or a helper helps; the leg being treated does part of the work.',
-		active: 'The leg being treated moves by itself, without help.',
-		resisted: 'The leg being treated moves against the band or weight you were given.'
+		active: 'You make the movement yourself, without help.',
+		resisted: 'You make the movement yourself, against the band or weight you were given.'
 	},
 	other: {
 		passive: 'Something else does the work (your hands, a strap or a helper); stay relaxed.',
 		'active-assisted': 'Your hands, a strap or a helper helps; you do part of the work.',
-		active: 'You move by yourself, without help.',
-		resisted: 'You move against the band or weight you were given.'
+		active: 'You make the movement yourself, without help.',
+		resisted: 'You make the movement yourself, against the band or weight you were given.'
 	}
 };
 
