@@ -16,9 +16,11 @@ import { currentClientAddress } from '$lib/server/auth/request-context';
 import { createSession, endSession } from '$lib/server/auth/sessions';
 import {
 	attemptLockout,
+	auditLinkRequest,
+	auditPasswordFailure,
 	clearPasswordFailures,
-	recordLinkRequest,
-	recordPasswordFailure
+	countLinkRequest,
+	countPasswordAttempt
 } from '$lib/server/auth/sign-in-limits';
 import { sendMail, smtpOptions } from '$lib/server/mail';
 import { signInLinkMail } from '$lib/server/mail/templates';
@@ -28,6 +30,25 @@ const credentialsSchema = z.object({
 	email: z.email().transform(normaliseEmail),
 	password: z.string().min(1).max(1024)
 });
+
+/**
+ * The e-mailed link on this site's own origin. Auth.js builds it from the request's Host and
+ * X-Forwarded-Host headers, which the sender of the request chooses: trusted, a link request with
+ * a forged header would send the clinic's own e-mail pointing at another host, and its token to
+ * whoever holds that host. Path and query are Auth.js's; the origin is ORIGIN.
+ */
+function onThisSite(url: string): string {
+	const origin = config().ORIGIN;
+	const link = new URL(url);
+	// Where the link lands after signing in was made absolute from the same headers.
+	const callback = link.searchParams.get('callbackUrl');
+	if (callback !== null) {
+		const parsed = URL.canParse(callback) ? new URL(callback) : null;
+		const path = parsed ? `${parsed.pathname}${parsed.search}` : callback;
+		link.searchParams.set('callbackUrl', new URL(safeRedirect(path, origin), origin).toString());
+	}
+	return new URL(`${link.pathname}${link.search}`, origin).toString();
+}
 
 function userByEmail(email: string) {
 	return db()
@@ -78,13 +99,16 @@ function makeAuthConfig(): SvelteKitAuthConfig {
 					if (!parsed.success) return null;
 					const { email, password } = parsed.data;
 					const address = currentClientAddress();
-					// A locked account or address is refused before any password is checked.
+					// A locked account or address is refused before any password is checked; an
+					// attempt let through is counted in the same step, before the slow check, so
+					// requests sent all at once cannot all pass.
 					if (attemptLockout('password-failure', email, address).locked) return null;
+					countPasswordAttempt(email, address);
 					const user = userByEmail(email);
 					const ok = await verifyPassword(user?.passwordHash ?? null, password);
 					// Someone without a role in any clinic cannot use the product yet.
 					if (!user || !ok || !loadPrincipal(user.id)) {
-						recordPasswordFailure(email, address, !user || !ok ? 'wrong' : 'no role');
+						auditPasswordFailure(email, address, !user || !ok ? 'wrong' : 'no role');
 						return null;
 					}
 					clearPasswordFailures(email);
@@ -102,7 +126,7 @@ function makeAuthConfig(): SvelteKitAuthConfig {
 					// so the form does not reveal who has an account.
 					const user = userByEmail(identifier);
 					const principal = user ? loadPrincipal(user.id) : null;
-					recordLinkRequest(identifier, currentClientAddress(), Boolean(principal));
+					auditLinkRequest(identifier, currentClientAddress(), Boolean(principal));
 					if (!principal) return;
 					// Only the newest link works: the older unused ones are retired. Auth.js stores
 					// this one alongside with exactly `expires`, which the condition keeps.
@@ -114,7 +138,11 @@ function makeAuthConfig(): SvelteKitAuthConfig {
 					await sendMail({
 						clinicId: principal.clinicId,
 						to: identifier,
-						...signInLinkMail({ url, expiresAt: expires, timeZone: principal.timeZone })
+						...signInLinkMail({
+							url: onThisSite(url),
+							expiresAt: expires,
+							timeZone: principal.timeZone
+						})
 					});
 				}
 			})
@@ -125,7 +153,10 @@ function makeAuthConfig(): SvelteKitAuthConfig {
 					// Past the limit no link is made or sent; the sign-in page answers the same as
 					// always, so the form reveals neither the limit nor who has an account.
 					const address = normaliseEmail(user.email ?? '');
-					return !attemptLockout('link-request', address, currentClientAddress()).locked;
+					const client = currentClientAddress();
+					if (attemptLockout('link-request', address, client).locked) return false;
+					countLinkRequest(address, client);
+					return true;
 				}
 				// Never create an account from a sign-in link: accounts come from invitations only.
 				const existing = user.email ? userByEmail(user.email) : undefined;
@@ -145,12 +176,16 @@ function makeAuthConfig(): SvelteKitAuthConfig {
 				if (typeof token.sid === 'string') session.sessionId = token.sid;
 				return session;
 			},
-			redirect({ url, baseUrl }) {
-				// Auth.js hands absolute URLs; only a path on this site survives.
+			redirect({ url }) {
+				// Auth.js hands absolute URLs built from the request's Host headers; only a path
+				// on this site (ORIGIN, never a header) survives.
+				const origin = config().ORIGIN;
 				const parsed = URL.canParse(url) ? new URL(url) : null;
 				const target =
-					parsed && parsed.origin === baseUrl ? `${parsed.pathname}${parsed.search}` : url;
-				return new URL(safeRedirect(target, baseUrl), baseUrl).toString();
+					parsed && parsed.origin === new URL(origin).origin
+						? `${parsed.pathname}${parsed.search}`
+						: url;
+				return new URL(safeRedirect(target, origin), origin).toString();
 			}
 		},
 		logger: {

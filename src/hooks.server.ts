@@ -46,8 +46,9 @@ const contentTypeRequired: Handle = ({ event, resolve }) => {
 		method !== 'GET' &&
 		method !== 'HEAD' &&
 		(Number(headers.get('content-length') ?? 0) > 0 || headers.has('transfer-encoding'));
+	// Answered here rather than thrown, so the answer passes back through securityHeaders.
 	if (hasBody && !headers.get('content-type')) {
-		error(
+		return plainAnswer(
 			400,
 			'The request had no Content-Type, so it could not be read. Send it from the page’s form.'
 		);
@@ -69,10 +70,18 @@ const AUTH_ROUTES_IN_USE = new Set([
 const authRoutes: Handle = ({ event, resolve }) => {
 	const path = event.url.pathname;
 	if (path === '/auth' || path.startsWith('/auth/')) {
-		if (!AUTH_ROUTES_IN_USE.has(`${event.request.method} ${path}`)) error(404, 'Not found.');
+		if (!AUTH_ROUTES_IN_USE.has(`${event.request.method} ${path}`))
+			return plainAnswer(404, 'Not found.');
 	}
 	return resolve(event);
 };
+
+function plainAnswer(status: number, message: string): Response {
+	return new Response(message, {
+		status,
+		headers: { 'Content-Type': 'text/plain; charset=utf-8', 'Cache-Control': 'no-store' }
+	});
+}
 
 /**
  * Who is asking: fills `locals.user` from the session token, the session record and the

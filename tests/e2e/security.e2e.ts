@@ -203,6 +203,57 @@ test.describe('every sign-in path is limited and audited', () => {
 	});
 });
 
+test.describe('sign-in under attack', () => {
+	test('requests sent all at once cannot pass the password limit', async () => {
+		const email = seedStaff('clinician');
+		const api = await request.newContext({ baseURL: E2E.origin });
+		// Twenty guesses at once: each arrives while the others are still being hashed.
+		await Promise.all(
+			Array.from({ length: 20 }, (_, i) =>
+				api.post('/signin?/password', passwordSignIn({ email, password: `parallel-${i}` }))
+			)
+		);
+		expect(
+			count(
+				"select count(*) as n from sign_in_attempt where kind = 'password-failure' and email = ?",
+				email
+			)
+		).toBe(5);
+		await api.dispose();
+	});
+
+	test('a forged Host header cannot send the e-mailed link to another site', async () => {
+		const email = seedStaff('clinician');
+		const since = Date.now();
+		const api = await request.newContext({ baseURL: E2E.origin });
+		const asked = await api.post('/signin?/link', {
+			...linkRequest({ email, redirectTo: '/home' }),
+			headers: {
+				Origin: E2E.origin,
+				Accept: 'text/html',
+				'X-Forwarded-Host': 'evil.example',
+				'X-Forwarded-Proto': 'https'
+			}
+		});
+		expect(asked.status()).toBe(303);
+		const mail = await waitForMail(email, since);
+		const links = mail.text.match(/https?:\/\/[^\s<>"]+/g) ?? [];
+		expect(links.length).toBeGreaterThan(0);
+		for (const link of links) expect(new URL(link).origin).toBe(E2E.origin);
+		expect(mail.text).not.toContain('evil.example');
+		await api.dispose();
+	});
+
+	test('refusals made before any page runs carry the security headers too', async () => {
+		const api = await request.newContext({ baseURL: E2E.origin });
+		const closed = await api.get('/auth/signin', { maxRedirects: 0 });
+		expect(closed.status()).toBe(404);
+		expect(closed.headers()['x-content-type-options']).toBe('nosniff');
+		expect(closed.headers()['x-frame-options']).toBe('DENY');
+		await api.dispose();
+	});
+});
+
 test.describe('sessions that can be ended', () => {
 	test('a copied token stops working after sign-out', async () => {
 		const { patientId, email } = await seedSignInPatient(ACCOUNTS.clinician);

@@ -56,6 +56,8 @@ const settingsSchema = z
 		}
 	})
 	.transform((s): CueSettings | undefined => {
+		// A line as a percentage prints like the other percentages ("0.001", never "1e-7").
+		if (s.line !== undefined && s.snapToLines === false) s.line = Math.round(s.line * 1000) / 1000;
 		// Kinelume keeps no REGION blocks with a track, so a region name would point at nothing
 		// in the file we serve; it is checked above, then not kept.
 		const settings: CueSettings = { ...s };

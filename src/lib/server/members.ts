@@ -85,7 +85,7 @@ export function changeRole(actor: Principal, membershipId: string, role: StaffRo
 		detail: { from: membership.role, to: role }
 	});
 	// Their sessions were opened under the old role; they sign in again under the new one.
-	endSessionsOf(membership.userId, 'role-changed');
+	endSessionsOf(membership.userId, 'role-changed', { by: actor });
 }
 
 /** Removes a member from the clinic (their account stays, without a role). */
@@ -103,7 +103,7 @@ export function removeMember(actor: Principal, membershipId: string): void {
 		subject: membership.userId,
 		detail: { role: membership.role }
 	});
-	endSessionsOf(membership.userId, 'removed');
+	endSessionsOf(membership.userId, 'removed', { by: actor });
 }
 
 /** Withdraws a pending invitation of the actor's clinic. */

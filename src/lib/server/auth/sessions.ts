@@ -1,5 +1,5 @@
 import { randomBytes } from 'node:crypto';
-import { and, eq, ne, sql } from 'drizzle-orm';
+import { and, eq, lt, ne, sql } from 'drizzle-orm';
 import type { Role } from '$lib/auth/roles';
 import { sessionLifetime, sessionState, shouldTouch } from '$lib/auth/session-policy';
 import { recordAudit } from '../audit';
@@ -13,6 +13,13 @@ import { db, prepared, schema } from '../db';
 export function createSession(userId: string, role: Role, now = Date.now()): string {
 	const id = randomBytes(32).toString('base64url');
 	const lifetime = sessionLifetime(role);
+	// Sessions past their absolute end are gone for good; a sign-in clears this person's.
+	db()
+		.delete(schema.userSessions)
+		.where(
+			and(eq(schema.userSessions.userId, userId), lt(schema.userSessions.expiresAt, new Date(now)))
+		)
+		.run();
 	db()
 		.insert(schema.userSessions)
 		.values({
@@ -73,8 +80,9 @@ export function endSession(sessionId: string | undefined): void {
 export function endSessionsOf(
 	userId: string,
 	reason: 'password-changed' | 'role-changed' | 'removed' | 'signed-out-everywhere',
-	keep?: string
+	options: { keep?: string; by?: { id: string; clinicId: string } } = {}
 ): number {
+	const { keep, by } = options;
 	const ended = db()
 		.delete(schema.userSessions)
 		.where(
@@ -85,17 +93,20 @@ export function endSessionsOf(
 		.run().changes;
 	recordAudit({
 		kind: 'sessions-ended',
-		actorUserId: userId,
+		clinicId: by?.clinicId ?? null,
+		actorUserId: by?.id ?? userId,
 		subject: userId,
 		detail: { reason, ended }
 	});
 	return ended;
 }
 
-export function sessionCountOf(userId: string): number {
+/** How many of a person's sessions are still alive (ended or run-out ones do not count). */
+export function sessionCountOf(userId: string, now = Date.now()): number {
 	return db()
-		.select({ id: schema.userSessions.id })
+		.select()
 		.from(schema.userSessions)
 		.where(eq(schema.userSessions.userId, userId))
-		.all().length;
+		.all()
+		.filter((row) => sessionState(row, now) === 'active').length;
 }

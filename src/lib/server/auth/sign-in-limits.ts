@@ -61,8 +61,16 @@ function recordAttempt(kind: SignInAttemptKind, email: string, address: string):
 	store.delete(table).where(lt(table.createdAt, cutoff)).run();
 }
 
-export function recordPasswordFailure(email: string, address: string, reason: string): void {
+/**
+ * Counts a password attempt before its (slow) check. Counting only after the check would let
+ * every request that arrives during the hashing time pass the limit: hundreds sent at once would
+ * all be checked. A success clears the account's count again (`clearPasswordFailures`).
+ */
+export function countPasswordAttempt(email: string, address: string): void {
 	recordAttempt('password-failure', email, address);
+}
+
+export function auditPasswordFailure(email: string, address: string, reason: string): void {
 	recordAudit({
 		kind: 'sign-in-failed',
 		subject: email,
@@ -79,8 +87,12 @@ export function clearPasswordFailures(email: string): void {
 		.run();
 }
 
-export function recordLinkRequest(email: string, address: string, sent: boolean): void {
+/** Counts a link request as it is let through, in the same step as its check (see above). */
+export function countLinkRequest(email: string, address: string): void {
 	recordAttempt('link-request', email, address);
+}
+
+export function auditLinkRequest(email: string, address: string, sent: boolean): void {
 	recordAudit({ kind: 'sign-in-link-requested', subject: email, detail: { address, sent } });
 }
 

@@ -40,7 +40,7 @@ export const actions: Actions = {
 	/** Ends every session of this person, this one included (a phone left somewhere, a shared computer). */
 	everywhere: ({ locals, cookies, url }) => {
 		const user = requireUser();
-		endSessionsOf(user.id, 'signed-out-everywhere');
+		endSessionsOf(user.id, 'signed-out-everywhere', { by: user });
 		locals.user = null;
 		cookies.delete(sessionCookieName(url), { path: '/' });
 		redirect(303, '/signin?ended=everywhere');
@@ -67,7 +67,10 @@ export const actions: Actions = {
 			.where(eq(schema.users.id, user.id))
 			.run();
 		// Whoever knew the old password may hold a session: every other one ends.
-		const ended = endSessionsOf(user.id, 'password-changed', locals.sessionId ?? undefined);
+		const ended = endSessionsOf(user.id, 'password-changed', {
+			keep: locals.sessionId ?? undefined,
+			by: user
+		});
 		return { saved: true, ended };
 	}
 };
