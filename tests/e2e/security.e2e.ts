@@ -275,6 +275,7 @@ test.describe('sessions that can be ended', () => {
 		const email = seedStaff('clinician');
 		const desk = await signedInRequest(email);
 		const phone = await signedInRequest(email);
+		const since = Date.now();
 		const changed = await phone.post(
 			'/account?/password',
 			form({
@@ -286,6 +287,10 @@ test.describe('sessions that can be ended', () => {
 		expect(changed.status()).toBe(200);
 		expect((await desk.get('/account', { maxRedirects: 0 })).status()).toBe(303);
 		expect((await phone.get('/account', { maxRedirects: 0 })).status()).toBe(200);
+		// The owner hears of it, in case the session that changed it was not theirs.
+		const notice = await waitForMail(email, since, 'Your Kinelume password was changed');
+		expect(notice.text).toContain('Your other sessions were signed out.');
+		expect(notice.text).toContain('“Sign out everywhere”');
 		await Promise.all([desk.dispose(), phone.dispose()]);
 	});
 

@@ -183,6 +183,32 @@ export function signInLinkMail(input: {
 	};
 }
 
+/**
+ * To the owner of an account whose password was just set or changed: if it was not them, someone
+ * holding one of their sessions did it, and the way back is an e-mailed link and their clinic.
+ */
+export function passwordChangedMail(input: {
+	name: string;
+	firstPassword: boolean;
+	at: Date;
+	timeZone: string;
+	signInUrl: string;
+}): MailContent {
+	const subject = input.firstPassword
+		? 'A password was set on your Kinelume account'
+		: 'Your Kinelume password was changed';
+	const lines = [
+		`Hello ${input.name},`,
+		`${input.firstPassword ? 'A password was set on' : 'The password of'} your Kinelume account ${input.firstPassword ? '' : 'was changed '}on ${formatInstant(input.at, input.timeZone, 'date-time-zone')}. Your other sessions were signed out.`,
+		'If this was you, there is nothing to do. If it was not, sign in with a link sent to this address, choose a new password on your account page, use “Sign out everywhere”, and tell your clinic.'
+	];
+	return {
+		subject,
+		text: `${lines.join('\n\n')}\n\nSign in: ${input.signInUrl}\n`,
+		html: layout(subject, lines, { url: input.signInUrl, label: 'Sign in to Kinelume' })
+	};
+}
+
 /** A patient's home programme was published, or changed after publishing. */
 export function programmePublishedMail(input: {
 	clinicName: string;

@@ -6,7 +6,10 @@ import { requireUser } from '$lib/server/auth/guard';
 import { hashPassword, PASSWORD_MIN_LENGTH, verifyPassword } from '$lib/server/auth/passwords';
 import { endSessionsOf, sessionCountOf } from '$lib/server/auth/sessions';
 import { sessionCookieName } from '$lib/server/auth/session';
+import { config } from '$lib/server/config';
 import { db, schema } from '$lib/server/db';
+import { sendMail } from '$lib/server/mail';
+import { passwordChangedMail } from '$lib/server/mail/templates';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = () => {
@@ -71,6 +74,22 @@ export const actions: Actions = {
 			keep: locals.sessionId ?? undefined,
 			by: user
 		});
+		// The owner hears of it by e-mail, in case the session that did it was not theirs.
+		try {
+			await sendMail({
+				clinicId: user.clinicId,
+				to: user.email,
+				...passwordChangedMail({
+					name: user.name,
+					firstPassword: !row?.passwordHash,
+					at: new Date(),
+					timeZone: user.timeZone,
+					signInUrl: new URL('/signin', config().ORIGIN).toString()
+				})
+			});
+		} catch (error) {
+			console.error(`[account] the password notice to ${user.email} failed:`, error);
+		}
 		return { saved: true, ended };
 	}
 };
