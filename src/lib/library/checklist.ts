@@ -206,30 +206,25 @@ export function computeChecklist(
 	input: ChecklistInput,
 	profile: GuidelineProfile = LIBRARY_CAPTION_PROFILE
 ): Checklist {
-	// Every caption item judges the file that will be served, as a browser reads it.
-	let served: ExerciseSnapshot;
+	// Every caption item judges the file that will be served, as a browser reads it; captions
+	// that cannot be written as a file at all fail their item, and the rest is judged as stored.
+	let served = input.snapshot;
+	let captions: ChecklistItem;
 	try {
 		served = { ...input.snapshot, cues: cuesAsServed(input.snapshot.cues) };
+		captions = captionsItem(served, profile);
 	} catch (thrown) {
 		if (!(thrown instanceof CaptionWriteError)) throw thrown;
-		const unservable: ChecklistItem = {
+		captions = {
 			id: 'captions',
 			label: `Captions pass the caption checks (${profile.label})`,
 			passed: false,
 			summary: 'The captions cannot be written as a caption file.',
 			problems: [thrown.message]
 		};
-		const items = [
-			unservable,
-			safetyNotesItem(input.snapshot),
-			dosageItem(input.snapshot),
-			consentItem(input),
-			patientDataItem(input)
-		];
-		return { profile: profile.id, passed: false, items };
 	}
 	const items = [
-		captionsItem(served, profile),
+		captions,
 		safetyNotesItem(served),
 		dosageItem(served),
 		consentItem(input),

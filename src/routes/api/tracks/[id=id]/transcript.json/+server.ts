@@ -12,12 +12,18 @@ export const GET: RequestHandler = ({ params, url, request }) => {
 	if (found instanceof Response) return found;
 	const version = versionParam(url);
 	if (version instanceof Response) return version;
-	const body = transcript(found.track, version);
-	if (!body) return apiError(404, `There is no version ${version} of this track.`);
-	const etag = exportTag(found.track.id, body.version, 'transcript');
+	// Versions run from 1 to the current one and never change: a revalidation is answered
+	// from the tag alone, before the lines are read back from the served file.
+	const wanted = version ?? found.track.currentVersion;
+	if (wanted > found.track.currentVersion) {
+		return apiError(404, `There is no version ${version} of this track.`);
+	}
+	const etag = exportTag(found.track.id, wanted, 'transcript');
 	const headers = { ETag: etag, 'Cache-Control': REVALIDATE };
 	if (matchesNoneMatch(request.headers.get('if-none-match'), etag)) {
 		return new Response(null, { status: 304, headers });
 	}
+	const body = transcript(found.track, version);
+	if (!body) return apiError(404, `There is no version ${version} of this track.`);
 	return json(body satisfies Transcript, { headers });
 };
