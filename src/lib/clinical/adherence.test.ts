@@ -5,9 +5,10 @@ import {
 	adherenceSummary,
 	adherenceToDate,
 	combinedAdherence,
+	chosenWeekdays,
+	countsAsSession,
+	daysAskedInWeek,
 	describeAdherence,
-	prescribedSessions,
-	scheduledWeekdays,
 	sessionsPrescribedOn,
 	type Schedule
 } from './adherence';
@@ -23,18 +24,46 @@ const daily: Schedule = {
 
 const repeat = (date: string, n: number) => Array.from({ length: n }, () => date);
 
+/** Sessions asked from `from` to `to` when nothing is logged and every day is complete. */
+const prescribedSessions = (s: Schedule, from: string, to: string) =>
+	adherence(s, [], to, datesFrom(from, to).length).prescribed;
+
 describe('sessions prescribed', () => {
-	it('spreads fewer days a week over Monday-first weeks', () => {
-		expect(scheduledWeekdays({ ...daily, daysPerWeek: 3 })).toEqual([1, 3, 5]);
-		expect(scheduledWeekdays({ ...daily, daysPerWeek: 2 })).toEqual([1, 4]);
-		expect(scheduledWeekdays({ ...daily, daysPerWeek: 5 })).toEqual([1, 2, 3, 4, 5]);
-		expect(scheduledWeekdays({ ...daily, daysPerWeek: 3, weekdays: [4, 2, 2] })).toEqual([2, 4]);
-		expect(() => scheduledWeekdays({ ...daily, daysPerWeek: 0 })).toThrow('from 1 to 7');
+	it('keeps the weekdays the clinician chose, Monday first, and invents none', () => {
+		expect(chosenWeekdays({ weekdays: [4, 2, 2] })).toEqual([2, 4]);
+		expect(chosenWeekdays({ weekdays: [] })).toBeNull();
+		expect(chosenWeekdays({})).toBeNull();
+		// "Any 3 days a week" asks for no particular day.
+		expect(sessionsPrescribedOn({ ...daily, daysPerWeek: 3 }, '2026-05-11')).toBeNull();
+		expect(() => adherence({ ...daily, daysPerWeek: 0 }, [], '2026-05-17', 7)).toThrow(
+			'from 1 to 7'
+		);
 	});
 
-	it('counts a programme that starts mid-week only from its start', () => {
+	it('asks for any N days of a full week, and fewer in a week cut short (our rounding)', () => {
+		const s: Schedule = { ...daily, daysPerWeek: 3 };
+		expect(daysAskedInWeek(s, '2026-05-11')).toBe(3);
+		// Starts on Saturday 9 May: 2 of 7 days left, 3 × 2/7 ≈ 0.86 → 1 day.
+		expect(daysAskedInWeek({ ...s, startDate: '2026-05-09' }, '2026-05-04')).toBe(1);
+		// Five days paused: 2 left, 1 day asked; every day of a week paused asks for none.
+		expect(
+			daysAskedInWeek({ ...s, pauses: [{ from: '2026-05-11', to: '2026-05-15' }] }, '2026-05-11')
+		).toBe(1);
+		expect(
+			daysAskedInWeek({ ...s, pauses: [{ from: '2026-05-11', to: '2026-05-17' }] }, '2026-05-11')
+		).toBe(0);
+		// Every day a week is every open day, however few.
+		expect(daysAskedInWeek({ ...daily, startDate: '2026-05-09' }, '2026-05-04')).toBe(2);
+	});
+
+	it('counts a programme with chosen weekdays that starts mid-week only from its start', () => {
 		// Starts Wednesday 6 May, Monday/Wednesday/Friday, twice a day.
-		const s: Schedule = { ...daily, startDate: '2026-05-06', daysPerWeek: 3, sessionsPerDay: 2 };
+		const s: Schedule = {
+			...daily,
+			startDate: '2026-05-06',
+			weekdays: [1, 3, 5],
+			sessionsPerDay: 2
+		};
 		expect(prescribedSessions(s, '2026-05-04', '2026-05-10')).toBe(4); // Wed + Fri
 		expect(prescribedSessions(s, '2026-05-11', '2026-05-17')).toBe(6); // Mon + Wed + Fri
 		expect(sessionsPrescribedOn(s, '2026-05-04')).toBe(0);
@@ -51,8 +80,67 @@ describe('sessions prescribed', () => {
 	it('leaves out paused days', () => {
 		const s: Schedule = { ...daily, pauses: [{ from: '2026-05-12', to: '2026-05-14' }] };
 		expect(prescribedSessions(s, '2026-05-11', '2026-05-17')).toBe(4 * 3);
-		expect(sessionsPrescribedOn(s, '2026-05-12')).toBe(0);
-		expect(sessionsPrescribedOn(s, '2026-05-15')).toBe(3);
+		expect(sessionsPrescribedOn({ ...s, weekdays: [2] }, '2026-05-12')).toBe(0);
+	});
+
+	it('counts a log as a session only when at least one set was done', () => {
+		expect(countsAsSession({ setsDone: 1 })).toBe(true);
+		expect(countsAsSession({ setsDone: 0 })).toBe(false);
+	});
+});
+
+describe('any N days a week (the review’s cases)', () => {
+	const threeAWeek: Schedule = { ...daily, sessionsPerDay: 1, daysPerWeek: 3 };
+	// Four weeks from Monday 4 May 2026; Tuesday 5 is the first Tuesday.
+	const tueThuSat = [0, 7, 14, 21].flatMap((w) =>
+		[1, 3, 5].map((d) => addDays('2026-05-04', w + d))
+	);
+
+	it('reads 100%, not 0%, for a patient who exercised on Tuesday, Thursday and Saturday', () => {
+		const w = adherence(threeAWeek, tueThuSat, '2026-05-31', 28);
+		expect(w).toMatchObject({ prescribed: 12, counted: 12, extra: 0, percent: 100 });
+		expect(describeAdherence(w)).toBe('12 of 12 sessions (100%)');
+	});
+
+	it('counts days beyond the week’s N as extra, and missed days once the week is over', () => {
+		// Week of 11 May: four days logged (one extra); week of 18 May: one day only.
+		const logs = ['2026-05-11', '2026-05-12', '2026-05-13', '2026-05-14', '2026-05-20'];
+		expect(adherence(threeAWeek, logs, '2026-05-24', 14)).toMatchObject({
+			prescribed: 6,
+			counted: 4,
+			extra: 1
+		});
+	});
+
+	it('does not count a week as missed while it can still be finished', () => {
+		// Nothing yet on Monday to Wednesday 18–20 May: Thursday to Sunday can still hold 3 days.
+		expect(adherence(threeAWeek, [], '2026-05-20', 3)).toMatchObject({ prescribed: 0 });
+		// By Friday night only two days are left: one day is already missed.
+		expect(adherence(threeAWeek, [], '2026-05-22', 5)).toMatchObject({ prescribed: 1, counted: 0 });
+		// A day done early in the week counts at once.
+		expect(adherence(threeAWeek, ['2026-05-18'], '2026-05-20', 3)).toMatchObject({
+			prescribed: 1,
+			counted: 1,
+			percent: 100
+		});
+	});
+
+	it('gives a window that starts mid-week the week’s days not already done before it', () => {
+		// Sessions Monday and Tuesday 11–12 May; the window is Wednesday 13 to Sunday 17.
+		const logs = ['2026-05-11', '2026-05-12'];
+		expect(adherence(threeAWeek, logs, '2026-05-17', 5)).toMatchObject({
+			prescribed: 1,
+			counted: 0
+		});
+	});
+
+	it('keeps chosen weekdays strict: Tuesday sessions do not count for Monday', () => {
+		const monWedFri: Schedule = { ...threeAWeek, weekdays: [1, 3, 5] };
+		expect(adherence(monWedFri, tueThuSat, '2026-05-31', 28)).toMatchObject({
+			prescribed: 12,
+			counted: 0,
+			extra: 12
+		});
 	});
 });
 
@@ -95,7 +183,7 @@ describe('adherence over the last 7 and 28 days', () => {
 
 	it('caps each day at what was prescribed and shows the rest as extra', () => {
 		// Five sessions on Monday cannot make up for nothing on Tuesday.
-		const s: Schedule = { ...daily, daysPerWeek: 3 }; // Mon, Wed, Fri
+		const s: Schedule = { ...daily, weekdays: [1, 3, 5] };
 		const logs = [...repeat('2026-05-11', 5), '2026-05-12'];
 		const w = adherence(s, logs, '2026-05-17', 7);
 		expect(w).toMatchObject({ prescribed: 9, counted: 3, extra: 3, percent: 33 });

@@ -116,3 +116,33 @@ describe('exercises from a later phase', () => {
 		expect(flag?.message).toMatch(/a phase the table does not reach/);
 	});
 });
+
+describe('a surgeon’s earlier or later start', () => {
+	it('moves every phase by the surgeon’s weeks (ASSET passive motion from about week 2 to 6, Thigpen 2016)', () => {
+		// Two weeks later: week 6 is still passive motion, active motion starts at week 8.
+		const later = phaseForWeek('rotator-cuff-repair', 6, 2);
+		expect(later).toMatchObject({
+			phase: 'early-motion',
+			fromWeek: 4,
+			untilWeek: 8,
+			shiftWeeks: 2
+		});
+		expect(later?.next).toMatchObject({ phase: 'active-motion', fromWeek: 8 });
+		// One week earlier: week 5 is already active motion.
+		expect(phaseForWeek('rotator-cuff-repair', 5, -1)?.phase).toBe('active-motion');
+		expect(phaseForWeek('rotator-cuff-repair', 6)?.phase).toBe('active-motion');
+	});
+
+	it('does not flag an exercise the surgeon’s timing allows, and names the move when it flags', () => {
+		const later = phaseForWeek('rotator-cuff-repair', 6, 2);
+		expect(laterPhaseFlag('early-motion', later)).toBeNull();
+		expect(laterPhaseFlag('active-motion', later)?.message).toBe(
+			'This exercise is marked active motion, which the table starts at week 8. At week 6 after surgery the rotator cuff repair table (moved 2 weeks later for the surgeon’s timing) suggests early motion.'
+		);
+	});
+
+	it('says which repairs each table describes (ASSET: small and medium tears)', () => {
+		expect(phaseForWeek('rotator-cuff-repair', 3)?.appliesTo).toMatch(/Small and medium tears/);
+		expect(phaseForWeek('knee-replacement', 3)?.appliesTo).toMatch(/primary/);
+	});
+});

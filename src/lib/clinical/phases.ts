@@ -47,6 +47,8 @@ export interface ProtocolTable {
 	basis: string;
 	/** 'published' when the weeks were read from a source; otherwise 'common practice'. */
 	confidence: 'published' | 'common practice';
+	/** Which operations the weeks describe, and which they do not. */
+	appliesTo: string;
 	phases: ProtocolPhase[];
 }
 
@@ -60,6 +62,8 @@ export const PROTOCOLS: Record<ProtocolId, ProtocolTable> = {
 		basis:
 			'ASSET consensus statement on rehabilitation after arthroscopic rotator cuff repair (Thigpen et al., J Shoulder Elbow Surg 2016;25:521–35): about 2 weeks of strict immobilisation, protected passive motion from about week 2 to 6, then restoring active motion, strengthening from about week 12.',
 		confidence: 'published',
+		appliesTo:
+			'Small and medium tears repaired arthroscopically. Large, massive or revision repairs usually move more slowly: follow the surgeon’s timing.',
 		phases: [
 			{
 				phase: 'protection',
@@ -94,6 +98,8 @@ export const PROTOCOLS: Record<ProtocolId, ProtocolTable> = {
 		basis:
 			'Common practice, from memory: no published source for these weeks is on our reference list. Check against the surgeon’s protocol before clinical use.',
 		confidence: 'common practice',
+		appliesTo:
+			'A first (primary) total knee replacement without complications. A revision or a complicated recovery follows the surgeon’s timing.',
 		phases: [
 			{
 				phase: 'early-motion',
@@ -137,6 +143,12 @@ export interface PhaseHint {
 	protocolId: ProtocolId;
 	protocolName: string;
 	weeksAfter: number;
+	/**
+	 * Weeks the surgeon's timing runs behind (+) or ahead of (−) the table: the phase is looked
+	 * up at `weeksAfter − shiftWeeks`, and the table's weeks read that much later.
+	 */
+	shiftWeeks: number;
+	appliesTo: string;
 	phase: Phase;
 	label: string;
 	description: string;
@@ -149,12 +161,26 @@ export interface PhaseHint {
 	caution: string;
 }
 
-/** The suggested phase `weeksAfter` completed weeks after surgery; null for an unknown protocol or before surgery. */
-export function phaseForWeek(protocolId: string, weeksAfter: number): PhaseHint | null {
+/** The most weeks a surgeon's timing may be set apart from a table, either way. */
+export const MAX_SHIFT_WEEKS = 12;
+
+/**
+ * The suggested phase `weeksAfter` completed weeks after surgery; null for an unknown protocol or
+ * before surgery. `shiftWeeks` moves the table by the surgeon's timing (+2: every phase starts two
+ * weeks later than the table says), so a slower protocol does not flag every exercise. The weeks
+ * in the answer (`fromWeek`, `untilWeek`, `next.fromWeek`) are the patient's, shift included.
+ */
+export function phaseForWeek(
+	protocolId: string,
+	weeksAfter: number,
+	shiftWeeks = 0
+): PhaseHint | null {
 	const table = protocolById(protocolId);
 	if (!table || weeksAfter < 0 || !Number.isFinite(weeksAfter)) return null;
+	const tableWeek = Math.max(0, weeksAfter - shiftWeeks);
+	const shifted = (week: number) => Math.max(0, week + shiftWeeks);
 	const index = table.phases.findIndex(
-		(p) => weeksAfter >= p.fromWeek && (p.untilWeek === null || weeksAfter < p.untilWeek)
+		(p) => tableWeek >= p.fromWeek && (p.untilWeek === null || tableWeek < p.untilWeek)
 	);
 	if (index === -1) return null;
 	const row = table.phases[index];
@@ -163,16 +189,18 @@ export function phaseForWeek(protocolId: string, weeksAfter: number): PhaseHint 
 		protocolId: table.id,
 		protocolName: table.name,
 		weeksAfter,
+		shiftWeeks,
+		appliesTo: table.appliesTo,
 		phase: row.phase,
 		label: PHASE_LABELS[row.phase],
 		description: row.description,
-		fromWeek: row.fromWeek,
-		untilWeek: row.untilWeek,
+		fromWeek: index === 0 ? row.fromWeek : shifted(row.fromWeek),
+		untilWeek: row.untilWeek === null ? null : shifted(row.untilWeek),
 		next: following
 			? {
 					phase: following.phase,
 					label: PHASE_LABELS[following.phase],
-					fromWeek: following.fromWeek
+					fromWeek: shifted(following.fromWeek)
 				}
 			: null,
 		basis: table.basis,
@@ -185,9 +213,10 @@ export function phaseForWeek(protocolId: string, weeksAfter: number): PhaseHint 
 export function phaseOnDate(
 	protocolId: string,
 	operationDate: LocalDate,
-	date: LocalDate
+	date: LocalDate,
+	shiftWeeks = 0
 ): PhaseHint | null {
-	return phaseForWeek(protocolId, weeksSince(operationDate, date).weeks);
+	return phaseForWeek(protocolId, weeksSince(operationDate, date).weeks, shiftWeeks);
 }
 
 /** An exercise marked for a later phase than the weeks after surgery suggest. */
@@ -211,9 +240,13 @@ export function laterPhaseFlag(
 	if (!exercisePhase || !suggested || order(exercisePhase) <= order(suggested.phase)) return null;
 	const table = PROTOCOLS[suggested.protocolId];
 	const row = table.phases.find((p) => p.phase === exercisePhase);
-	const when = `At week ${suggested.weeksAfter} after surgery the ${table.name.toLowerCase()} table suggests ${suggested.label.toLowerCase()}`;
+	const timing =
+		suggested.shiftWeeks === 0
+			? ''
+			: ` (moved ${Math.abs(suggested.shiftWeeks)} ${Math.abs(suggested.shiftWeeks) === 1 ? 'week' : 'weeks'} ${suggested.shiftWeeks > 0 ? 'later' : 'earlier'} for the surgeon’s timing)`;
+	const when = `At week ${suggested.weeksAfter} after surgery the ${table.name.toLowerCase()} table${timing} suggests ${suggested.label.toLowerCase()}`;
 	const message = row
-		? `This exercise is marked ${PHASE_LABELS[exercisePhase].toLowerCase()}, which the table starts at week ${row.fromWeek}. ${when}.`
+		? `This exercise is marked ${PHASE_LABELS[exercisePhase].toLowerCase()}, which the table starts at week ${Math.max(0, row.fromWeek + suggested.shiftWeeks)}. ${when}.`
 		: `This exercise is marked ${PHASE_LABELS[exercisePhase].toLowerCase()}, a phase the table does not reach. ${when}.`;
 	return { exercisePhase, suggested, message, caution: PHASE_CAUTION };
 }

@@ -5,7 +5,10 @@ import {
 	PRECAUTIONS,
 	precautionConflicts,
 	resolvePrecaution,
-	resolveTag
+	resolveTag,
+	describePrecaution,
+	precautionDetailSchema,
+	precautionsOn
 } from './precautions';
 
 describe('precaution conflicts', () => {
@@ -145,5 +148,50 @@ describe('the movement type drives conflicts too', () => {
 				['hand-behind-back', 'shoulder-extension-behind-body']
 			).length
 		).toBe(2);
+	});
+});
+
+describe('precautions with an end and degrees', () => {
+	const op = '2026-11-02';
+	const details = {
+		'biceps-repair': { degrees: null, untilWeek: 6, untilDate: null },
+		'shoulder-external-rotation-limit': { degrees: 20, untilWeek: null, untilDate: '2026-12-20' }
+	};
+	const precautions = ['biceps-repair', 'shoulder-external-rotation-limit', 'falls-risk'];
+
+	it('keeps a precaution until its week after the operation has begun (completed weeks, as phase tables count)', () => {
+		expect(precautionsOn(precautions, details, op, '2026-12-13')).toEqual(precautions);
+		expect(precautionsOn(precautions, details, op, '2026-12-14')).toEqual([
+			'shoulder-external-rotation-limit',
+			'falls-risk'
+		]);
+		expect(precautionsOn(precautions, details, op, '2026-12-21')).toEqual(['falls-risk']);
+		// With no operation date the week cannot be placed: the precaution holds.
+		expect(precautionsOn(precautions, details, null, '2027-06-01')).toContain('biceps-repair');
+	});
+
+	it('says the degrees and the end in words, by label', () => {
+		const day = (d: string) => `[${d}]`;
+		expect(describePrecaution('shoulder-external-rotation-limit', details, op, day)).toBe(
+			'Shoulder: limit outward rotation (20°), until [2026-12-20]'
+		);
+		expect(describePrecaution('biceps-repair', details, op, day)).toBe(
+			'Biceps repair: no active elbow flexion, until [2026-12-13]'
+		);
+		expect(describePrecaution('biceps-repair', details, null, day)).toBe(
+			'Biceps repair: no active elbow flexion, until week 6 after the operation'
+		);
+		expect(describePrecaution('Watch the wound', {}, op, day)).toBe('Watch the wound');
+	});
+
+	it('refuses details that cannot be stored, in words', () => {
+		expect(precautionDetailSchema.safeParse({ degrees: 20.5 }).error?.issues[0].message).toBe(
+			'Give whole degrees, e.g. 20.'
+		);
+		expect(precautionDetailSchema.parse({})).toEqual({
+			degrees: null,
+			untilWeek: null,
+			untilDate: null
+		});
 	});
 });

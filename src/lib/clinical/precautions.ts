@@ -6,7 +6,10 @@
  * motion only" even when nobody tagged it. Conflicts are warnings
  * for the clinician, who also judges which side an exercise works and whether it applies.
  */
+import { z } from 'zod';
 import { MOVEMENT_LABELS, type MovementType } from '../exercises/vocabulary';
+import type { LocalDate } from './calendar';
+import { holdsOn, lastDay, untilSchema } from './until';
 
 /** What an exercise asks of the body, as tags on the exercise. */
 export const EXERCISE_TAGS = {
@@ -224,4 +227,64 @@ export function precautionConflicts(
 		}
 	}
 	return conflicts;
+}
+
+/** What a precaution may carry beyond its words: an end, and degrees where it limits a range. */
+export const precautionDetailSchema = z
+	.object({
+		degrees: z
+			.number()
+			.int('Give whole degrees, e.g. 20.')
+			.min(0, 'Degrees cannot be below 0.')
+			.max(180, 'Degrees cannot be above 180.')
+			.nullable()
+			.default(null)
+	})
+	.and(untilSchema);
+
+export type PrecautionDetail = z.output<typeof precautionDetailSchema>;
+
+/** Details stored for each precaution, keyed by the precaution as stored. */
+export const precautionDetailsSchema = z.record(z.string(), precautionDetailSchema);
+
+const NO_DETAIL: PrecautionDetail = { degrees: null, untilWeek: null, untilDate: null };
+
+/** The detail of a precaution, or none. */
+export function detailOf(
+	details: Readonly<Record<string, PrecautionDetail>>,
+	precaution: string
+): PrecautionDetail {
+	return Object.hasOwn(details, precaution) ? details[precaution] : NO_DETAIL;
+}
+
+/** The precautions that still hold on a date: those with no end, or whose end has not passed. */
+export function precautionsOn(
+	precautions: readonly string[],
+	details: Readonly<Record<string, PrecautionDetail>>,
+	operationDate: LocalDate | null,
+	date: LocalDate
+): string[] {
+	return precautions.filter((p) => holdsOn(detailOf(details, p), operationDate, date));
+}
+
+/**
+ * A precaution in words with its degrees and end: "Shoulder: limit outward rotation (20°), until
+ * Sunday 13 December". `formatDay` writes a date the way the screen does.
+ */
+export function describePrecaution(
+	precaution: string,
+	details: Readonly<Record<string, PrecautionDetail>>,
+	operationDate: LocalDate | null,
+	formatDay: (date: LocalDate) => string
+): string {
+	const detail = detailOf(details, precaution);
+	const degrees = detail.degrees !== null ? ` (${detail.degrees}°)` : '';
+	const last = lastDay(detail, operationDate);
+	const end =
+		last !== null
+			? `, until ${formatDay(last)}`
+			: detail.untilWeek !== null
+				? `, until week ${detail.untilWeek} after the operation`
+				: '';
+	return `${resolvePrecaution(precaution).label}${degrees}${end}`;
 }

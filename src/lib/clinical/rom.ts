@@ -1,22 +1,97 @@
 /**
- * Range of motion in degrees (goniometer or inclinometer): against normative values, against the
- * other side, and change between two measurements, counted only when it exceeds the published
- * measurement error. Knee extension is the angle past straight: 0 is straight, −5 is 5° short.
+ * Range of motion in degrees (goniometer, inclinometer or a camera estimate): against normative
+ * values, against the other side, and change between two measurements, counted only when it
+ * exceeds the published measurement error of the instrument used. Knee extension is the angle
+ * past straight: 0 is straight, −5 is 5° short.
  */
 
-/** The motions Kinelume records. */
+/** What took a reading; the measurement error depends on it. */
+export const ROM_INSTRUMENTS = ['goniometer', 'inclinometer', 'camera'] as const;
+export type RomInstrument = (typeof ROM_INSTRUMENTS)[number];
+export const INSTRUMENT_LABELS: Record<RomInstrument, string> = {
+	goniometer: 'Goniometer',
+	inclinometer: 'Inclinometer',
+	camera: 'Estimate from a photo or video'
+};
+
+/**
+ * Where the arm was for a shoulder rotation. Published normal values for rotation are measured
+ * with the arm raised to 90°; after a cuff repair rotation is measured with the arm at the side
+ * or in the scapular plane, and the two must not be compared (see the references).
+ */
+export const ARM_POSITIONS = ['side', 'scapular-plane', 'abducted-90'] as const;
+export type ArmPosition = (typeof ARM_POSITIONS)[number];
+export const ARM_POSITION_LABELS: Record<ArmPosition, string> = {
+	side: 'Arm at the side',
+	'scapular-plane': 'Arm raised a little in the scapular plane',
+	'abducted-90': 'Arm raised to 90° out to the side'
+};
+
+/** The motions Kinelume records: the clinician's name, and plain words for the patient. */
 export const MOTIONS = {
-	'shoulder-flexion': { joint: 'shoulder', label: 'Shoulder flexion' },
-	'shoulder-extension': { joint: 'shoulder', label: 'Shoulder extension' },
-	'shoulder-abduction': { joint: 'shoulder', label: 'Shoulder abduction' },
-	'shoulder-internal-rotation': { joint: 'shoulder', label: 'Shoulder internal (medial) rotation' },
+	'shoulder-flexion': {
+		joint: 'shoulder',
+		label: 'Shoulder flexion',
+		plain: 'raising the arm forward and up'
+	},
+	'shoulder-extension': {
+		joint: 'shoulder',
+		label: 'Shoulder extension',
+		plain: 'taking the arm back behind the body'
+	},
+	'shoulder-abduction': {
+		joint: 'shoulder',
+		label: 'Shoulder abduction',
+		plain: 'raising the arm out to the side'
+	},
+	'shoulder-internal-rotation': {
+		joint: 'shoulder',
+		label: 'Shoulder internal (medial) rotation',
+		plain: 'turning the forearm in toward the body'
+	},
 	'shoulder-external-rotation': {
 		joint: 'shoulder',
-		label: 'Shoulder external (lateral) rotation'
+		label: 'Shoulder external (lateral) rotation',
+		plain: 'turning the forearm out away from the body'
 	},
-	'knee-flexion': { joint: 'knee', label: 'Knee flexion' },
-	'knee-extension': { joint: 'knee', label: 'Knee extension' }
+	'knee-flexion': { joint: 'knee', label: 'Knee flexion', plain: 'bending the knee' },
+	'knee-extension': { joint: 'knee', label: 'Knee extension', plain: 'straightening the knee' },
+	'hip-flexion': {
+		joint: 'hip',
+		label: 'Hip flexion',
+		plain: 'bending the hip (knee toward the chest)'
+	},
+	'hip-extension': {
+		joint: 'hip',
+		label: 'Hip extension',
+		plain: 'taking the leg back behind the body'
+	},
+	'hip-abduction': {
+		joint: 'hip',
+		label: 'Hip abduction',
+		plain: 'moving the leg out to the side'
+	},
+	'hip-adduction': {
+		joint: 'hip',
+		label: 'Hip adduction',
+		plain: 'moving the leg in across the middle'
+	},
+	'hip-internal-rotation': {
+		joint: 'hip',
+		label: 'Hip internal (medial) rotation',
+		plain: 'turning the leg inward'
+	},
+	'hip-external-rotation': {
+		joint: 'hip',
+		label: 'Hip external (lateral) rotation',
+		plain: 'turning the leg outward'
+	}
 } as const;
+
+/** Motions whose normal values hold only for one arm position (shoulder rotations). */
+export function needsArmPosition(motion: MotionId): boolean {
+	return motion === 'shoulder-internal-rotation' || motion === 'shoulder-external-rotation';
+}
 
 export type MotionId = keyof typeof MOTIONS;
 
@@ -61,7 +136,14 @@ export const NORM_SOURCES: Record<NormSourceId, NormSource> = {
 			'shoulder-internal-rotation': { degrees: 70, confidence: 'read' },
 			'shoulder-external-rotation': { degrees: 90, confidence: 'read' },
 			'knee-flexion': { degrees: 135, confidence: 'memory' },
-			'knee-extension': { degrees: 0, confidence: 'memory' }
+			'knee-extension': { degrees: 0, confidence: 'memory' },
+			// Hip values from memory of the same table (confidence 'memory'; DEVELOPERS.md lists them).
+			'hip-flexion': { degrees: 120, confidence: 'memory' },
+			'hip-extension': { degrees: 30, confidence: 'memory' },
+			'hip-abduction': { degrees: 45, confidence: 'memory' },
+			'hip-adduction': { degrees: 30, confidence: 'memory' },
+			'hip-internal-rotation': { degrees: 45, confidence: 'memory' },
+			'hip-external-rotation': { degrees: 45, confidence: 'memory' }
 		}
 	},
 	ama: {
@@ -108,6 +190,14 @@ export interface NormOptions {
 	sex?: Sex;
 	/** Needed by sources that give values for an age band. */
 	age?: number;
+	/** For shoulder rotations: the normal values hold only with the arm raised to 90°. */
+	armPosition?: ArmPosition | null;
+}
+
+/** The age a person born in `birthYear` may be on a date: a year's uncertainty, so null at a band's edge. */
+export function ageOn(birthYear: number, date: string): { low: number; high: number } {
+	const year = Number(date.slice(0, 4));
+	return { low: year - birthYear - 1, high: year - birthYear };
 }
 
 /** A normal value found for a motion, with where it comes from. */
@@ -125,6 +215,7 @@ export function normalValue(motion: MotionId, options: NormOptions = {}): Normal
 	const source = NORM_SOURCES[options.source ?? 'aaos'];
 	const value = source.values[motion];
 	if (!value) return null;
+	if (needsArmPosition(motion) && options.armPosition !== 'abducted-90') return null;
 	if (value.ages) {
 		const age = options.age;
 		if (age === undefined || age < value.ages[0] || age > value.ages[1]) return null;
@@ -198,19 +289,51 @@ export interface MeasurementError {
 }
 
 const KOLBER =
-	'Kolber & Hanney 2011: inter-rater minimal detectable change (90%) with an inclinometer; goniometer error can be larger (Mullaney 2010: limits of agreement 6–25°).';
+	'Kolber & Hanney 2011: inter-rater minimal detectable change (90%) with an inclinometer.';
+const MULLANEY =
+	'Mullaney et al. 2010: inter-tester limits of agreement with a goniometer of 6–25° across shoulder motions; the figure for each motion is not on our list, so the largest is used.';
 const KNEE =
 	'Knee goniometry study, J Exp Orthop 2018 (doi 10.1186/s40634-018-0161-5): a long-arm goniometer needs a 10° difference to be sure of a change; after knee replacement, two testers differed by up to about 19° (Lenssen et al., BMC Musculoskelet Disord 2007;8:83).';
 
-/** Measurement error by motion; shoulder extension has no published value on our list. */
-export const MEASUREMENT_ERROR: Partial<Record<MotionId, MeasurementError>> = {
-	'shoulder-flexion': { degrees: 8, basis: KOLBER, confidence: 'read' },
-	'shoulder-abduction': { degrees: 4, basis: KOLBER, confidence: 'read' },
-	'shoulder-internal-rotation': { degrees: 8, basis: KOLBER, confidence: 'read' },
-	'shoulder-external-rotation': { degrees: 9, basis: KOLBER, confidence: 'read' },
-	'knee-flexion': { degrees: 10, basis: KNEE, confidence: 'read' },
-	'knee-extension': { degrees: 10, basis: KNEE, confidence: 'read' }
+const SHOULDER_MOTIONS = [
+	'shoulder-flexion',
+	'shoulder-extension',
+	'shoulder-abduction',
+	'shoulder-internal-rotation',
+	'shoulder-external-rotation'
+] as const satisfies readonly MotionId[];
+
+/**
+ * Measurement error by instrument and motion, each from its source. A pair not listed (a camera
+ * estimate, the hip, shoulder extension with an inclinometer) has no published value on our list.
+ */
+export const MEASUREMENT_ERROR: Record<
+	RomInstrument,
+	Partial<Record<MotionId, MeasurementError>>
+> = {
+	inclinometer: {
+		'shoulder-flexion': { degrees: 8, basis: KOLBER, confidence: 'read' },
+		'shoulder-abduction': { degrees: 4, basis: KOLBER, confidence: 'read' },
+		'shoulder-internal-rotation': { degrees: 8, basis: KOLBER, confidence: 'read' },
+		'shoulder-external-rotation': { degrees: 9, basis: KOLBER, confidence: 'read' }
+	},
+	goniometer: {
+		...Object.fromEntries(
+			SHOULDER_MOTIONS.map((m) => [m, { degrees: 25, basis: MULLANEY, confidence: 'read' }])
+		),
+		'knee-flexion': { degrees: 10, basis: KNEE, confidence: 'read' },
+		'knee-extension': { degrees: 10, basis: KNEE, confidence: 'read' }
+	},
+	camera: {}
 };
+
+/** The measurement error of a motion read with an instrument; null when none is on our list. */
+export function measurementError(
+	motion: MotionId,
+	instrument: RomInstrument
+): MeasurementError | null {
+	return MEASUREMENT_ERROR[instrument][motion] ?? null;
+}
 
 export interface RomChange {
 	/** after − before: positive is more motion (for knee extension, nearer straight or past it). */
@@ -223,13 +346,15 @@ export interface RomChange {
 }
 
 /**
- * The change between two measurements of one motion, counted as a change only when it exceeds
- * the measurement error (or `errorDegrees`, a clinic's own figure, when given).
+ * The change between two measurements of one motion with one instrument, counted as a change only
+ * when it exceeds that instrument's measurement error (or `errorDegrees`, a clinic's own figure,
+ * when given). Readings by different instruments are not compared (see `rom-table`).
  */
 export function romChange(
 	before: number,
 	after: number,
 	motion: MotionId,
+	instrument: RomInstrument,
 	errorDegrees?: number
 ): RomChange {
 	const change = after - before;
@@ -240,7 +365,7 @@ export function romChange(
 					basis: "The clinic's own measurement error.",
 					confidence: 'clinic'
 				}
-			: (MEASUREMENT_ERROR[motion] ?? null);
+			: measurementError(motion, instrument);
 	const size = Math.abs(change);
 	const word = change > 0 ? 'gained' : 'lost';
 	if (!error) {

@@ -41,7 +41,9 @@ describe('the numbers each chart draws', () => {
 					mode: 'active',
 					degrees: 90,
 					measuredOn: '2026-11-02',
-					note: ''
+					note: '',
+					instrument: 'goniometer',
+					armPosition: null
 				},
 				{
 					id: 'b',
@@ -50,7 +52,9 @@ describe('the numbers each chart draws', () => {
 					mode: 'active',
 					degrees: 130,
 					measuredOn: '2026-11-02',
-					note: ''
+					note: '',
+					instrument: 'goniometer',
+					armPosition: null
 				},
 				{
 					id: 'c',
@@ -59,7 +63,9 @@ describe('the numbers each chart draws', () => {
 					mode: 'active',
 					degrees: 100,
 					measuredOn: '2026-11-16',
-					note: ''
+					note: '',
+					instrument: 'goniometer',
+					armPosition: null
 				},
 				{
 					id: 'd',
@@ -68,7 +74,9 @@ describe('the numbers each chart draws', () => {
 					mode: 'active',
 					degrees: -5,
 					measuredOn: '2026-11-16',
-					note: ''
+					note: '',
+					instrument: 'goniometer',
+					armPosition: null
 				}
 			],
 			{ source: 'aaos', affectedSide: 'left' }

@@ -33,7 +33,10 @@ function input(logs: FigureLog[], changes: Partial<FigureInput> = {}): FigureInp
 		timeZone: 'Europe/London',
 		operationDate: '2026-10-19',
 		protocol: 'knee-replacement',
+		protocolShiftWeeks: 0,
 		affectedSide: 'left',
+		birthYear: null,
+		sex: null,
 		programmes: [
 			{
 				id: 'p1',
@@ -41,7 +44,16 @@ function input(logs: FigureLog[], changes: Partial<FigureInput> = {}): FigureInp
 				status: 'published',
 				startDate: '2026-11-02',
 				endDate: null,
-				items: [{ id: 'item-a', exerciseTitle: 'Heel slides', sessionsPerDay: 1, daysPerWeek: 7 }],
+				items: [
+					{
+						id: 'item-a',
+						exerciseTitle: 'Heel slides',
+						sessionsPerDay: 1,
+						daysPerWeek: 7,
+						weekdays: null,
+						rangeGuides: []
+					}
+				],
 				pauses: []
 			}
 		],
@@ -140,7 +152,9 @@ describe('a patient’s follow-up figures', () => {
 				mode: 'active' as const,
 				degrees: 100,
 				measuredOn: '2026-11-16',
-				note: ''
+				note: '',
+				instrument: 'goniometer' as const,
+				armPosition: null
 			},
 			{
 				id: 'b',
@@ -149,7 +163,9 @@ describe('a patient’s follow-up figures', () => {
 				mode: 'active' as const,
 				degrees: 85,
 				measuredOn: '2026-11-27',
-				note: ''
+				note: '',
+				instrument: 'goniometer' as const,
+				armPosition: null
 			}
 		];
 		const f = patientFigures(input([log('2026-11-30', 2)], { rom }), now);

@@ -7,6 +7,7 @@
 import {
 	adherenceToDate,
 	combinedAdherence,
+	countsAsSession,
 	type AdherenceWindow,
 	type Schedule
 } from '../clinical/adherence';
@@ -16,11 +17,13 @@ import {
 	localDateOf,
 	weekdayOf,
 	weeksSince,
-	type LocalDate
+	type LocalDate,
+	type Weekday
 } from '../clinical/calendar';
+import type { RangeGuide } from '../clinical/range-guides';
 import { painAlerts, painTrend, PAIN_BASIS, type PainTrend } from '../clinical/pain';
 import { phaseOnDate, type PhaseHint } from '../clinical/phases';
-import type { NormSourceId } from '../clinical/rom';
+import type { NormSourceId, Sex } from '../clinical/rom';
 import { romLosses, romRows, type RomReading, type RomRow } from './rom-table';
 import {
 	adherenceSentence,
@@ -35,6 +38,9 @@ export interface FigureItem {
 	exerciseTitle: string;
 	sessionsPerDay: number;
 	daysPerWeek: number;
+	/** The weekdays the clinician chose; null for any `daysPerWeek` days of each week. */
+	weekdays: Weekday[] | null;
+	rangeGuides: RangeGuide[];
 }
 
 export interface FigureProgramme {
@@ -66,7 +72,11 @@ export interface FigureInput {
 	timeZone: string;
 	operationDate: LocalDate | null;
 	protocol: string;
+	/** Weeks the surgeon's timing runs behind (+) or ahead of (−) the protocol table. */
+	protocolShiftWeeks: number;
 	affectedSide: string;
+	birthYear: number | null;
+	sex: Sex | null;
 	programmes: FigureProgramme[];
 	logs: FigureLog[];
 	rom: RomReading[];
@@ -94,7 +104,7 @@ export interface AdherenceFigure extends AdherenceWindow {
 }
 
 export const ADHERENCE_BASIS =
-	'Sessions logged ÷ sessions prescribed (each exercise’s sessions a day on its days of the week, leaving out paused days), on the patient’s own calendar days. Each day counts at most what was prescribed; today counts only the sessions already logged.';
+	'Sessions done ÷ sessions prescribed, on the patient’s own calendar days: each exercise’s sessions a day on the weekdays chosen, or on any N days of each Monday-to-Sunday week, leaving out paused days. A session counts when at least one set was done. Each day counts at most what was prescribed; a week’s days count as missed only once they can no longer be done; today counts only the sessions already logged.';
 
 export const ADHERENCE_CAUTION =
 	'A count of logs, not of exercise done well: talk it through with the patient before changing the programme.';
@@ -125,6 +135,7 @@ export function schedulesOf(
 ): { schedule: Schedule; loggedDates: LocalDate[]; item: FigureItem }[] {
 	const datesByItem = new Map<string, LocalDate[]>();
 	for (const log of input.logs) {
+		if (!countsAsSession(log)) continue;
 		const list = datesByItem.get(log.programmeItemId) ?? [];
 		list.push(log.localDate);
 		datesByItem.set(log.programmeItemId, list);
@@ -138,6 +149,7 @@ export function schedulesOf(
 				endDate: programme.endDate,
 				sessionsPerDay: item.sessionsPerDay,
 				daysPerWeek: item.daysPerWeek,
+				weekdays: item.weekdays,
 				pauses: programme.pauses.map((p) => ({ from: p.fromDate, to: p.toDate }))
 			}
 		}))
@@ -181,12 +193,18 @@ export function patientFigures(
 			: null;
 	const phase =
 		input.operationDate && input.protocol
-			? phaseOnDate(input.protocol, input.operationDate, today)
+			? phaseOnDate(input.protocol, input.operationDate, today, input.protocolShiftWeeks)
 			: null;
 
 	const rom = romRows(input.rom, {
 		source: options.normSource ?? 'aaos',
-		affectedSide: input.affectedSide
+		affectedSide: input.affectedSide,
+		birthYear: input.birthYear,
+		sex: input.sex,
+		operationDate: input.operationDate,
+		rangeGuides: prescribedProgrammes(input).flatMap((p) =>
+			p.status === 'published' ? p.items.flatMap((i) => i.rangeGuides) : []
+		)
 	});
 
 	const flags: Flag[] = [];

@@ -12,6 +12,8 @@ function reading(
 		side: 'left',
 		mode: 'active',
 		note: '',
+		instrument: 'goniometer',
+		armPosition: null,
 		...partial
 	};
 }
@@ -110,5 +112,85 @@ describe('range-of-motion rows', () => {
 			83, 120
 		]);
 		expect(rows[0].affected).toBeNull();
+	});
+});
+
+describe('readings compared like with like', () => {
+	it('gives no 90°-abduction normal to an external rotation read with the arm at the side (REFERENCES.md: AAOS ER is measured in 90° abduction)', () => {
+		const [row] = romRows(
+			[
+				reading({
+					motion: 'shoulder-external-rotation',
+					degrees: 25,
+					measuredOn: '2026-11-20',
+					armPosition: 'side'
+				})
+			],
+			{ source: 'aaos', affectedSide: 'left' }
+		);
+		expect(row.normal).toBeNull();
+		expect(row.normalMissing).toMatch(/arm raised to 90°.*arm at the side/);
+		expect(row.howMeasured).toBe('Goniometer, arm at the side');
+	});
+
+	it('uses the patient’s sex and age for the CDC table (Soucie et al. 2011, secondary: female flexion 172.0 at 20–44)', () => {
+		const flexion = reading({ motion: 'shoulder-flexion', degrees: 86, measuredOn: '2026-11-20' });
+		const [known] = romRows([flexion], {
+			source: 'cdc',
+			affectedSide: 'left',
+			birthYear: 1990,
+			sex: 'female'
+		});
+		expect(known.normal?.percent).toBeCloseTo(50, 5);
+		const [unknown] = romRows([flexion], { source: 'cdc', affectedSide: 'left' });
+		expect(unknown.normalMissing).toMatch(/record the patient's birth year and sex/);
+		// Born 1981, measured 2026: 44 or 45, at the band's edge, so no guess.
+		const [edge] = romRows([flexion], {
+			source: 'cdc',
+			affectedSide: 'left',
+			birthYear: 1981,
+			sex: 'female'
+		});
+		expect(edge.normal).toBeNull();
+	});
+
+	it('does not call a change of instrument a change of range', () => {
+		const rows = romRows(
+			[
+				reading({ degrees: 90, measuredOn: '2026-11-02', instrument: 'inclinometer' }),
+				reading({ degrees: 70, measuredOn: '2026-11-20', instrument: 'goniometer' })
+			],
+			{ source: 'aaos', affectedSide: 'left' }
+		);
+		expect(rows[1].change).toBeNull();
+		expect(romLosses(rows)).toEqual([]);
+	});
+
+	it('judges each reading against the clinician’s limit that held on its date', () => {
+		const [row] = romRows(
+			[
+				reading({
+					motion: 'shoulder-external-rotation',
+					degrees: 30,
+					measuredOn: '2026-11-20',
+					armPosition: 'side'
+				})
+			],
+			{
+				source: 'aaos',
+				affectedSide: 'left',
+				operationDate: '2026-11-02',
+				rangeGuides: [
+					{
+						motion: 'shoulder-external-rotation',
+						kind: 'limit',
+						degrees: 20,
+						untilWeek: 6,
+						untilDate: null
+					}
+				]
+			}
+		);
+		expect(row.guides.map((g) => g.text)).toEqual(['10° beyond the limit of 20° set for now.']);
 	});
 });

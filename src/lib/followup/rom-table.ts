@@ -3,17 +3,25 @@
  * table, against the other side, and against the previous reading of the same motion, where a
  * difference counts as a change only beyond the measurement error (lib/clinical/rom).
  */
+import { judgeReading, type GuideVerdict, type RangeGuide } from '../clinical/range-guides';
 import {
+	ARM_POSITION_LABELS,
+	INSTRUMENT_LABELS,
 	MOTIONS,
 	NORM_SOURCES,
+	ageOn,
+	needsArmPosition,
 	percentOfNormal,
 	percentOfOtherSide,
 	romChange,
 	ROM_CAUTION,
 	type MotionId,
+	type ArmPosition,
 	type NormSourceId,
 	type PercentOfNormal,
-	type RomChange
+	type RomChange,
+	type RomInstrument,
+	type Sex
 } from '../clinical/rom';
 import { formatDate, formatDegrees } from './words';
 
@@ -26,10 +34,17 @@ export interface RomReading {
 	degrees: number;
 	measuredOn: string;
 	note: string;
+	instrument: RomInstrument;
+	/** For shoulder rotations: where the arm was; null when not recorded. */
+	armPosition: ArmPosition | null;
 }
 
 export interface RomRow extends RomReading {
 	motionLabel: string;
+	/** How it was measured, in words: "Goniometer", "Goniometer, arm at the side". */
+	howMeasured: string;
+	/** The reading against the clinician's range targets and limits that held on its date. */
+	guides: GuideVerdict[];
 	/** True for the patient's affected side; null when the patient has none recorded or both. */
 	affected: boolean | null;
 	normal: (PercentOfNormal & { text: string }) | null;
@@ -56,8 +71,14 @@ export function motionLabel(motion: string): string {
 /** "active" / "passive" as a clinician writes it next to a reading. */
 export const MODE_LABELS = { active: 'active', passive: 'passive' } as const;
 
-const seriesKey = (r: Pick<RomReading, 'motion' | 'side' | 'mode'>) =>
-	`${r.motion}|${r.side}|${r.mode}`;
+/**
+ * Readings are compared like with like: the same motion, side, mode, instrument and arm
+ * position (an inclinometer after a goniometer, or a rotation at the side after one at 90°, is
+ * a new series, not a change).
+ */
+const seriesKey = (
+	r: Pick<RomReading, 'motion' | 'side' | 'mode' | 'instrument' | 'armPosition'>
+) => `${r.motion}|${r.side}|${r.mode}|${r.instrument}|${r.armPosition ?? ''}`;
 
 const byDate = (a: RomReading, b: RomReading) =>
 	a.measuredOn < b.measuredOn ? -1 : a.measuredOn > b.measuredOn ? 1 : 0;
@@ -70,6 +91,38 @@ function confidenceNote(confidence: string): string {
 	return confidence === 'secondary' ? ' (from a secondary source)' : '';
 }
 
+/** True when a source's value for a motion depends on the person's sex or age. */
+function needsPerson(source: NormSourceId, motion: MotionId): boolean {
+	const value = NORM_SOURCES[source].values[motion];
+	return !!value && value.degrees === undefined;
+}
+
+function personKnown(options: { birthYear?: number | null; sex?: Sex | null }): boolean {
+	return !!options.sex && !!options.birthYear;
+}
+
+/**
+ * The normal value for a reading from the chosen table, with the patient's sex and age where the
+ * table needs them. A birth year gives the age only to within a year, so at the edge of an age
+ * band (where the two possible ages fall in different bands) no value is given rather than a guess.
+ */
+function normalFor(
+	reading: RomReading,
+	motion: MotionId,
+	options: { source: NormSourceId; birthYear?: number | null; sex?: Sex | null }
+): PercentOfNormal | null {
+	const base = {
+		source: options.source,
+		armPosition: reading.armPosition,
+		sex: options.sex ?? undefined
+	};
+	if (!options.birthYear) return percentOfNormal(reading.degrees, motion, base);
+	const age = ageOn(options.birthYear, reading.measuredOn);
+	const low = percentOfNormal(reading.degrees, motion, { ...base, age: age.low });
+	const high = percentOfNormal(reading.degrees, motion, { ...base, age: age.high });
+	return low && high && low.normal.degrees === high.normal.degrees ? low : null;
+}
+
 /**
  * Every reading with its comparisons, oldest first. `affectedSide` is the patient's ('left',
  * 'right', 'both' or 'not applicable'); the other side's reading is the latest of the same
@@ -77,7 +130,15 @@ function confidenceNote(confidence: string): string {
  */
 export function romRows(
 	readings: readonly RomReading[],
-	options: { source: NormSourceId; affectedSide: string }
+	options: {
+		source: NormSourceId;
+		affectedSide: string;
+		birthYear?: number | null;
+		sex?: Sex | null;
+		operationDate?: string | null;
+		/** The range targets and limits of the patient's programme, judged on each reading's date. */
+		rangeGuides?: readonly RangeGuide[];
+	}
 ): RomRow[] {
 	const sorted = [...readings].sort(byDate);
 	const sideKnown = options.affectedSide === 'left' || options.affectedSide === 'right';
@@ -89,9 +150,7 @@ export function romRows(
 
 		let normal: RomRow['normal'] = null;
 		let normalMissing: string | null = null;
-		const found = motion
-			? percentOfNormal(reading.degrees, motion, { source: options.source })
-			: null;
+		const found = motion ? normalFor(reading, motion, options) : null;
 		if (found) {
 			const note = confidenceNote(found.normal.confidence);
 			const kind = found.normal.minimum ? 'lower limit of normal' : 'normal';
@@ -102,6 +161,10 @@ export function romRows(
 						? `at the ${found.normal.sourceName} ${kind} ${formatDegrees(found.normal.degrees)}`
 						: `${formatDegrees(Math.abs(found.shortBy))} ${found.shortBy > 0 ? 'short of' : 'beyond'} the ${found.normal.sourceName} ${kind} ${formatDegrees(found.normal.degrees)}`;
 			normal = { ...found, text: `${label} ${formatDegrees(reading.degrees)} = ${what}${note}` };
+		} else if (motion && needsArmPosition(motion) && reading.armPosition !== 'abducted-90') {
+			normalMissing = `Normal values for rotation are measured with the arm raised to 90° out to the side; this reading (${reading.armPosition ? ARM_POSITION_LABELS[reading.armPosition].toLowerCase() : 'arm position not recorded'}) is compared with the other side and earlier readings only.`;
+		} else if (motion && needsPerson(options.source, motion) && !personKnown(options)) {
+			normalMissing = `The ${source.name} table gives values by sex and age: record the patient's birth year and sex to use it.`;
 		} else {
 			normalMissing = `The ${source.name} table has no value for ${label.toLowerCase()} for this patient.`;
 		}
@@ -113,6 +176,8 @@ export function romRows(
 				(r) =>
 					r.motion === reading.motion &&
 					r.mode === reading.mode &&
+					r.instrument === reading.instrument &&
+					r.armPosition === reading.armPosition &&
 					r.side === otherName &&
 					r.measuredOn <= reading.measuredOn
 			)
@@ -145,13 +210,13 @@ export function romRows(
 		let change: RomRow['change'] = null;
 		const previous = previousOf.get(seriesKey(reading));
 		if (previous && motion) {
-			const result = romChange(previous.degrees, reading.degrees, motion);
+			const result = romChange(previous.degrees, reading.degrees, motion, reading.instrument);
 			const since = `since ${formatDate(previous.measuredOn)} (${formatDegrees(previous.degrees)})`;
 			const size = formatDegrees(Math.abs(result.change));
 			let text: string;
 			if (result.change === 0) text = `No change ${since}.`;
 			else if (result.beyondError === null)
-				text = `Change of ${size} ${since}; no measurement error is on our list for this motion, so judge it with care.`;
+				text = `Change of ${size} ${since}; no measurement error is on our list for this motion with a ${INSTRUMENT_LABELS[reading.instrument].toLowerCase()}, so judge it with care.`;
 			else if (result.beyondError)
 				text = `${result.direction === 'gain' ? 'Gain' : 'Loss'} of ${size} ${since}: more than the measurement error (±${result.error!.degrees}°).`;
 			else
@@ -164,9 +229,14 @@ export function romRows(
 		}
 		previousOf.set(seriesKey(reading), reading);
 
+		const position = reading.armPosition
+			? `, ${ARM_POSITION_LABELS[reading.armPosition].toLowerCase()}`
+			: '';
 		return {
 			...reading,
 			motionLabel: label,
+			howMeasured: `${INSTRUMENT_LABELS[reading.instrument]}${position}`,
+			guides: judgeReading(reading, options.rangeGuides ?? [], options.operationDate ?? null),
 			affected: sideKnown ? reading.side === options.affectedSide : null,
 			normal,
 			normalMissing,

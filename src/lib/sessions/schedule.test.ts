@@ -3,7 +3,9 @@ import {
 	clockTime,
 	longDate,
 	instantAt,
+	describeExerciseDays,
 	describeWeekdays,
+	restWords,
 	itemDayStatus,
 	itemSchedule,
 	pauseOn,
@@ -71,13 +73,16 @@ describe('programme days', () => {
 
 	it('asks for sessions within the dates, on scheduled weekdays, outside pauses', () => {
 		const daily = itemSchedule(programme, { sessionsPerDay: 3, daysPerWeek: 7 });
-		expect(itemDayStatus(daily, '2026-03-01', 0).kind).toBe('rest');
-		expect(itemDayStatus(daily, '2026-03-02', 0)).toEqual({ kind: 'due', done: 0, of: 3 });
-		expect(itemDayStatus(daily, '2026-03-10', 0).kind).toBe('rest');
-		expect(itemDayStatus(daily, '2026-03-29', 0).kind).toBe('due');
-		expect(itemDayStatus(daily, '2026-03-30', 0).kind).toBe('rest');
+		expect(itemDayStatus(daily, '2026-03-01', [])).toMatchObject({
+			kind: 'rest',
+			reason: 'no-day'
+		});
+		expect(itemDayStatus(daily, '2026-03-02', [])).toEqual({ kind: 'due', done: 0, of: 3 });
+		expect(itemDayStatus(daily, '2026-03-10', []).kind).toBe('rest');
+		expect(itemDayStatus(daily, '2026-03-29', []).kind).toBe('due');
+		expect(itemDayStatus(daily, '2026-03-30', []).kind).toBe('rest');
 		expect(
-			itemDayStatus(itemSchedule({ ...programme, endDate: null }, daily), '2027-01-01', 0).kind
+			itemDayStatus(itemSchedule({ ...programme, endDate: null }, daily), '2027-01-01', []).kind
 		).toBe('due');
 	});
 });
@@ -85,27 +90,70 @@ describe('programme days', () => {
 describe("today's sessions", () => {
 	const programme = { startDate: '2026-03-02', endDate: null, pauses: [] };
 
+	const times = (date: string, n: number) => Array.from({ length: n }, () => date);
+
 	it('counts sessions done against sessions a day', () => {
 		const daily = itemSchedule(programme, { sessionsPerDay: 3, daysPerWeek: 7 });
-		expect(itemDayStatus(daily, '2026-03-05', 2)).toEqual({ kind: 'due', done: 2, of: 3 });
-		expect(itemDayStatus(daily, '2026-03-05', 3)).toEqual({ kind: 'done', done: 3, of: 3 });
+		expect(itemDayStatus(daily, '2026-03-05', times('2026-03-05', 2))).toEqual({
+			kind: 'due',
+			done: 2,
+			of: 3
+		});
+		expect(itemDayStatus(daily, '2026-03-05', times('2026-03-05', 3))).toEqual({
+			kind: 'done',
+			done: 3,
+			of: 3
+		});
 		// An extra session does not count past what was asked.
-		expect(itemDayStatus(daily, '2026-03-05', 5)).toEqual({ kind: 'done', done: 3, of: 3 });
+		expect(itemDayStatus(daily, '2026-03-05', times('2026-03-05', 5))).toEqual({
+			kind: 'done',
+			done: 3,
+			of: 3
+		});
 	});
 
-	it('asks for a 3-days-a-week exercise on the weekdays adherence counts (Mon, Wed, Fri)', () => {
-		const three = itemSchedule(programme, { sessionsPerDay: 1, daysPerWeek: 3 });
+	it('asks for a chosen-weekday exercise on those weekdays only', () => {
+		const monWedFri = itemSchedule(programme, { sessionsPerDay: 1, daysPerWeek: 3 }, [1, 3, 5]);
 		// 2026-03-04 is a Wednesday, 2026-03-05 a Thursday.
-		expect(itemDayStatus(three, '2026-03-04', 0).kind).toBe('due');
-		expect(itemDayStatus(three, '2026-03-05', 1)).toEqual({
+		expect(itemDayStatus(monWedFri, '2026-03-04', []).kind).toBe('due');
+		expect(itemDayStatus(monWedFri, '2026-03-05', ['2026-03-05'])).toEqual({
 			kind: 'rest',
-			weekdays: [1, 3, 5],
+			reason: 'other-weekday',
 			done: 1
 		});
-		expect(describeWeekdays([1, 3, 5])).toBe('Monday, Wednesday and Friday');
+		expect(describeExerciseDays({ weekdays: [1, 3, 5], daysPerWeek: 3 })).toBe(
+			'Monday, Wednesday and Friday'
+		);
 		expect(describeWeekdays([1, 4])).toBe('Monday and Thursday');
 		expect(describeWeekdays([1])).toBe('Monday');
 		expect(describeWeekdays([1, 2, 3, 4, 5, 6, 7])).toBe('every day');
+	});
+
+	it('offers an any-3-days exercise on any day until the week’s three are done, naming no weekday', () => {
+		const three = itemSchedule(programme, { sessionsPerDay: 1, daysPerWeek: 3 });
+		expect(describeExerciseDays(three)).toBe('any 3 days a week');
+		expect(describeExerciseDays({ daysPerWeek: 7 })).toBe('every day');
+		// Tuesday 3, Thursday 5 and Saturday 7 March: due each time, then Sunday is free.
+		expect(itemDayStatus(three, '2026-03-03', []).kind).toBe('due');
+		expect(itemDayStatus(three, '2026-03-05', ['2026-03-03']).kind).toBe('due');
+		expect(itemDayStatus(three, '2026-03-07', ['2026-03-03', '2026-03-05', '2026-03-07'])).toEqual({
+			kind: 'done',
+			done: 1,
+			of: 1
+		});
+		expect(itemDayStatus(three, '2026-03-08', ['2026-03-03', '2026-03-05', '2026-03-07'])).toEqual({
+			kind: 'rest',
+			reason: 'week-done',
+			done: 0
+		});
+		expect(
+			restWords({ kind: 'rest', reason: 'week-done', done: 0 }, describeExerciseDays(three))
+		).toBe("This week's days are done: this exercise is for any 3 days a week.");
+		expect(
+			restWords({ kind: 'rest', reason: 'other-weekday', done: 0 }, 'Tuesday and Friday')
+		).toBe('Not today: this exercise is for Tuesday and Friday.');
+		// A new week starts on Monday.
+		expect(itemDayStatus(three, '2026-03-09', ['2026-03-03']).kind).toBe('due');
 	});
 
 	it('sums the day and names the next session with its time', () => {
@@ -113,7 +161,7 @@ describe("today's sessions", () => {
 			summariseDay([
 				{ kind: 'due', done: 1, of: 3 },
 				{ kind: 'done', done: 2, of: 2 },
-				{ kind: 'rest', weekdays: [1, 3, 5], done: 0 }
+				{ kind: 'rest', reason: 'other-weekday', done: 0 }
 			])
 		).toEqual({ done: 3, due: 5, next: { number: 2, of: 3, minutes: 14 * 60 } });
 		expect(summariseDay([{ kind: 'done', done: 2, of: 2 }])).toEqual({

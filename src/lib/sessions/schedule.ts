@@ -3,8 +3,20 @@
  * suggested at (the calendar reminders use the same times), and how far through today the
  * patient is. Dates are the patient's own 'YYYY-MM-DD'; instants are epoch milliseconds.
  */
-import { scheduledWeekdays, sessionsPrescribedOn, type Schedule } from '$lib/clinical/adherence';
-import { localDateOf, startOfLocalDay, type LocalDate, type Weekday } from '$lib/clinical/calendar';
+import {
+	chosenWeekdays,
+	daysAskedInWeek,
+	isProgrammeDay,
+	sessionsPrescribedOn,
+	type Schedule
+} from '$lib/clinical/adherence';
+import {
+	isoWeekStart,
+	localDateOf,
+	startOfLocalDay,
+	type LocalDate,
+	type Weekday
+} from '$lib/clinical/calendar';
 
 /** Sessions are spread over the waking day, from 09:00 to 19:00 (common practice). */
 export const FIRST_SESSION_MINUTE = 9 * 60;
@@ -77,18 +89,20 @@ export function pauseOn<P extends { fromDate: LocalDate; toDate: LocalDate }>(
 
 /**
  * One exercise's schedule in the terms of lib/clinical/adherence, so the patient is asked for
- * exactly the sessions their clinician's adherence figures count (3 days a week → Monday,
- * Wednesday and Friday).
+ * exactly the sessions their clinician's adherence figures count: on the weekdays the clinician
+ * chose, or on any `daysPerWeek` days of each week.
  */
 export function itemSchedule(
 	programme: ProgrammeDays,
-	dosage: { sessionsPerDay: number; daysPerWeek: number }
+	dosage: { sessionsPerDay: number; daysPerWeek: number },
+	weekdays: readonly Weekday[] | null = null
 ): Schedule {
 	return {
 		startDate: programme.startDate,
 		endDate: programme.endDate,
 		sessionsPerDay: dosage.sessionsPerDay,
 		daysPerWeek: dosage.daysPerWeek,
+		weekdays,
 		pauses: programme.pauses.map((p) => ({ from: p.fromDate, to: p.toDate }))
 	};
 }
@@ -98,17 +112,44 @@ export type ItemDayStatus =
 	| { kind: 'due'; done: number; of: number }
 	/** Today's sessions are all done. */
 	| { kind: 'done'; done: number; of: number }
-	/** No sessions are asked for today (another weekday's exercise); `done` counts any logged. */
-	| { kind: 'rest'; weekdays: Weekday[]; done: number };
+	/**
+	 * No sessions are asked for today: another weekday's exercise (`other-weekday`), this week's
+	 * days already done (`week-done`), or a day outside the programme or paused (`no-day`).
+	 * `done` counts any sessions logged today all the same.
+	 */
+	| { kind: 'rest'; reason: 'other-weekday' | 'week-done' | 'no-day'; done: number };
 
-/** Where one exercise stands today, from its schedule and the sessions logged today. */
+/**
+ * Where one exercise stands today, from its schedule and the dates of the sessions done this
+ * week up to today (one date per session that counts; other dates are ignored). With "any N days
+ * a week" today is an exercise day until the week's N days are done, and stays one once a session
+ * was logged on it.
+ */
 export function itemDayStatus(
 	schedule: Schedule,
 	today: LocalDate,
-	doneToday: number
+	sessionDatesThisWeek: readonly LocalDate[]
 ): ItemDayStatus {
-	const of = sessionsPrescribedOn(schedule, today);
-	if (of === 0) return { kind: 'rest', weekdays: scheduledWeekdays(schedule), done: doneToday };
+	const weekStart = isoWeekStart(today);
+	const doneToday = sessionDatesThisWeek.filter((d) => d === today).length;
+	const chosen = sessionsPrescribedOn(schedule, today);
+	let of: number;
+	if (chosen !== null) {
+		if (chosen === 0) {
+			const weekday = chosenWeekdays(schedule) !== null && isProgrammeDay(schedule, today);
+			return { kind: 'rest', reason: weekday ? 'other-weekday' : 'no-day', done: doneToday };
+		}
+		of = chosen;
+	} else {
+		if (!isProgrammeDay(schedule, today))
+			return { kind: 'rest', reason: 'no-day', done: doneToday };
+		const daysBefore = new Set(sessionDatesThisWeek.filter((d) => d >= weekStart && d < today))
+			.size;
+		if (doneToday === 0 && daysBefore >= daysAskedInWeek(schedule, weekStart)) {
+			return { kind: 'rest', reason: 'week-done', done: 0 };
+		}
+		of = schedule.sessionsPerDay;
+	}
 	const done = Math.min(doneToday, of);
 	return done >= of ? { kind: 'done', done, of } : { kind: 'due', done, of };
 }
@@ -128,6 +169,31 @@ export function describeWeekdays(weekdays: readonly Weekday[]): string {
 	if (weekdays.length === 7) return 'every day';
 	const names = weekdays.map((d) => WEEKDAY_NAMES[d - 1]);
 	return names.length === 1 ? names[0] : `${names.slice(0, -1).join(', ')} and ${names.at(-1)}`;
+}
+
+/** The days a schedule asks for, in words: "every day", "Tuesday and Friday", "any 3 days a week". */
+export function describeExerciseDays(schedule: Pick<Schedule, 'weekdays' | 'daysPerWeek'>): string {
+	const chosen = chosenWeekdays(schedule);
+	if (chosen !== null) return describeWeekdays(chosen);
+	if (schedule.daysPerWeek >= 7) return 'every day';
+	return schedule.daysPerWeek === 1
+		? 'any 1 day a week'
+		: `any ${schedule.daysPerWeek} days a week`;
+}
+
+/**
+ * Why no session is asked for today, in the patient's words, from the status and the days the
+ * exercise is for (`describeExerciseDays`).
+ */
+export function restWords(status: Extract<ItemDayStatus, { kind: 'rest' }>, days: string): string {
+	switch (status.reason) {
+		case 'other-weekday':
+			return `Not today: this exercise is for ${days}.`;
+		case 'week-done':
+			return `This week's days are done: this exercise is for ${days}.`;
+		case 'no-day':
+			return 'No session is asked for today.';
+	}
 }
 
 export interface DaySummary {

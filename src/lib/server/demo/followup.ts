@@ -7,7 +7,7 @@ import {
 	localDateOf,
 	startOfLocalDay
 } from '$lib/clinical/calendar';
-import { sessionsPrescribedOn } from '$lib/clinical/adherence';
+import { sessionsOfferedOn } from '$lib/clinical/adherence';
 import { hashPassword } from '../auth/passwords';
 import { loadPrincipal, type Principal } from '../auth/principal';
 import { db, schema } from '../db';
@@ -179,12 +179,13 @@ function logSessions(patient: Patient, today: string, now: Date, plan: LogPlan, 
 			const last = programme.endDate && programme.endDate < today ? programme.endDate : today;
 			for (const date of datesFrom(programme.startDate, last)) {
 				const dayStart = startOfLocalDay(date, patient.timeZone);
-				const due = sessionsPrescribedOn(
+				const due = sessionsOfferedOn(
 					{
 						startDate: programme.startDate,
 						endDate: programme.endDate,
 						sessionsPerDay: item.sessionsPerDay,
-						daysPerWeek: item.daysPerWeek
+						daysPerWeek: item.daysPerWeek,
+						weekdays: item.weekdays
 					},
 					date
 				);

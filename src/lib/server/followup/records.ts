@@ -154,7 +154,10 @@ export function figureInput(records: PatientRecords): FigureInput {
 		timeZone: patient.timeZone,
 		operationDate: patient.operationDate,
 		protocol: patient.protocol,
+		protocolShiftWeeks: patient.protocolShiftWeeks,
 		affectedSide: patient.affectedSide,
+		birthYear: patient.birthYear,
+		sex: patient.sex,
 		programmes: records.programmes.map((p) => ({
 			id: p.id,
 			title: p.title,
@@ -167,7 +170,9 @@ export function figureInput(records: PatientRecords): FigureInput {
 				id: i.id,
 				exerciseTitle: i.exerciseTitle,
 				sessionsPerDay: i.sessionsPerDay,
-				daysPerWeek: i.daysPerWeek
+				daysPerWeek: i.daysPerWeek,
+				weekdays: i.weekdays,
+				rangeGuides: i.rangeGuides
 			})),
 			pauses: p.pauses
 		})),
@@ -179,7 +184,9 @@ export function figureInput(records: PatientRecords): FigureInput {
 			mode: r.mode,
 			degrees: r.degrees,
 			measuredOn: r.measuredOn,
-			note: r.note
+			note: r.note,
+			instrument: r.instrument,
+			armPosition: r.armPosition
 		}))
 	};
 }

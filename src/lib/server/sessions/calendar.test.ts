@@ -21,7 +21,8 @@ const input: CalendarInput = {
 				sessionsPerDay: 3,
 				daysPerWeek: 7
 			},
-			progression: { kind: 'reps', addPerWeek: 2, ceiling: 15 }
+			progression: { kind: 'reps', addPerWeek: 2, ceiling: 15 },
+			weekdays: null
 		},
 		{
 			title: 'Ankle pumps',
@@ -33,7 +34,8 @@ const input: CalendarInput = {
 				sessionsPerDay: 2,
 				daysPerWeek: 7
 			},
-			progression: { kind: 'none' }
+			progression: { kind: 'none' },
+			weekdays: null
 		}
 	]
 };
@@ -70,14 +72,15 @@ describe('reminder days', () => {
 		expect(open).toHaveLength(56);
 	});
 
-	it('list an exercise for 3 days a week only on Monday, Wednesday and Friday, as adherence counts', () => {
+	it('list an exercise on the weekdays the clinician chose, naming them', () => {
 		const three = {
 			...input,
 			items: [
 				input.items[0],
 				{
 					...input.items[1],
-					dosage: { ...input.items[1].dosage, daysPerWeek: 3, sessionsPerDay: 4 }
+					dosage: { ...input.items[1].dosage, daysPerWeek: 3, sessionsPerDay: 4 },
+					weekdays: [1, 3, 5] as (1 | 3 | 5)[]
 				}
 			]
 		};
@@ -86,9 +89,22 @@ describe('reminder days', () => {
 		const friday = days.find((d) => d.date === '2026-03-27')!;
 		const saturday = days.find((d) => d.date === '2026-03-28')!;
 		expect(friday.lines).toHaveLength(2);
+		expect(friday.lines[1]).toMatch(/\(Monday, Wednesday and Friday\)$/);
 		expect(friday.sessions).toBe(4);
 		expect(saturday.lines).toHaveLength(1);
 		expect(saturday.sessions).toBe(3);
+	});
+
+	it('remind every programme day of an any-3-days exercise, inventing no weekday', () => {
+		const any = {
+			...input,
+			items: [{ ...input.items[1], dosage: { ...input.items[1].dosage, daysPerWeek: 3 } }]
+		};
+		const days = reminderDays(any);
+		expect(days.map((d) => d.date)).toContain('2026-03-28');
+		expect(days[0].lines[0]).toBe(
+			'- Ankle pumps: 2 sets of 10 reps, rest 30 seconds between sets; twice a day, 3 days a week.'
+		);
 	});
 
 	it('are none before a programme with no exercises', () => {

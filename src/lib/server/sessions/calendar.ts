@@ -1,16 +1,25 @@
 /**
  * The patient's reminders as an iCalendar file (RFC 5545, written by the `ics` package): one
- * event per session on each day sessions are asked for (lib/clinical/adherence decides which), at the times the Today page suggests, each with an alarm.
+ * event per session on each day sessions are offered (lib/clinical/adherence decides which: the
+ * chosen weekdays, or every programme day for "any N days a week", said in the event's words), at
+ * the times the Today page suggests, each with an alarm.
  * Events are written in UTC, one by one rather than as a repeating rule, so 09:00 stays 09:00 on
  * the patient's wall clock across clock changes, pauses are simply left out, and the dosage in
  * each event's words is that week's.
  */
 import { createEvents, type EventAttributes } from 'ics';
-import { addDays, datesFrom, programmeWeek, type LocalDate } from '$lib/clinical/calendar';
+import {
+	addDays,
+	datesFrom,
+	programmeWeek,
+	type LocalDate,
+	type Weekday
+} from '$lib/clinical/calendar';
 import { describeDosage, dosageForWeek, sessionSeconds, type Dosage } from '$lib/dosage';
 import type { Progression } from '$lib/dosage/types';
-import { sessionsPrescribedOn } from '$lib/clinical/adherence';
+import { sessionsOfferedOn } from '$lib/clinical/adherence';
 import {
+	describeExerciseDays,
 	instantAt,
 	itemSchedule,
 	sessionMinutes,
@@ -28,6 +37,8 @@ export interface CalendarItem {
 	title: string;
 	dosage: Dosage;
 	progression: Progression;
+	/** The weekdays the clinician chose; null for any `daysPerWeek` days (reminded every day). */
+	weekdays: Weekday[] | null;
 }
 
 export interface CalendarInput extends ProgrammeDays {
@@ -62,7 +73,8 @@ export function reminderDays(input: CalendarInput): ReminderDay[] {
 		const asked = input.items
 			.map((item) => {
 				const dosage = dosageForWeek(item.dosage, item.progression, week);
-				return { item, dosage, sessions: sessionsPrescribedOn(itemSchedule(input, dosage), date) };
+				const schedule = itemSchedule(input, dosage, item.weekdays);
+				return { item, dosage, schedule, sessions: sessionsOfferedOn(schedule, date) };
 			})
 			.filter((a) => a.sessions > 0);
 		if (asked.length === 0) continue;
@@ -70,7 +82,10 @@ export function reminderDays(input: CalendarInput): ReminderDay[] {
 		days.push({
 			date,
 			sessions: Math.max(...asked.map((a) => a.sessions)),
-			lines: asked.map((a) => `- ${a.item.title}: ${describeDosage(a.dosage)}`),
+			lines: asked.map(
+				(a) =>
+					`- ${a.item.title}: ${describeDosage(a.dosage)}${a.schedule.weekdays ? ` (${describeExerciseDays(a.schedule)})` : ''}`
+			),
 			// A session's estimate, rounded up to 5 minutes, never under 5.
 			minutesLong: Math.max(5, Math.ceil(seconds / 60 / 5) * 5)
 		});

@@ -4,17 +4,25 @@
  * record (found from the session, never from a URL), so another patient's ids match nothing.
  */
 import { howToMove, type HowToMove } from '$lib/sessions/how-to-move';
-import { and, desc, eq, inArray, isNotNull } from 'drizzle-orm';
+import { and, desc, eq, gte, inArray, isNotNull, lte } from 'drizzle-orm';
 import { plainText } from '$lib/captions/text';
-import { scheduledWeekdays } from '$lib/clinical/adherence';
-import { addDays, localDateOf, programmeWeek, type LocalDate } from '$lib/clinical/calendar';
+import { countsAsSession } from '$lib/clinical/adherence';
+import {
+	addDays,
+	isoWeekStart,
+	localDateOf,
+	programmeWeek,
+	type LocalDate
+} from '$lib/clinical/calendar';
+import { describeGuideForPatient, guidesOn } from '$lib/clinical/range-guides';
 import { describeDosage, dosageForWeek, dosageOf, type Dosage } from '$lib/dosage';
 import { effectiveCaptionStyle, type CaptionStyle } from '$lib/sessions/caption-style';
 import type { SessionLogData, StoredSessionLog } from '$lib/sessions/log';
 import type { TranscriptLine } from '$lib/sessions/replay';
 import {
-	describeWeekdays,
+	describeExerciseDays,
 	itemDayStatus,
+	longDate,
 	itemSchedule,
 	minutesIntoDay,
 	pauseOn,
@@ -97,8 +105,10 @@ export interface TodayItem {
 	dosage: Dosage;
 	dosageWords: string;
 	status: ItemDayStatus;
-	/** The weekdays it is for, in words ("every day", "Monday, Wednesday and Friday"). */
-	weekdays: string;
+	/** The days it is for, in words ("every day", "Tuesday and Friday", "any 3 days a week"). */
+	days: string;
+	/** The clinician's range targets and limits that hold today, in plain words. */
+	rangeGuides: string[];
 	poster: string | null;
 	hasVideo: boolean;
 }
@@ -124,6 +134,56 @@ export interface TodayView {
 	} | null;
 	items: TodayItem[];
 	summary: DaySummary;
+	/** The last day of the sling between sessions, while the clinician's sling period lasts. */
+	slingUntil: LocalDate | null;
+}
+
+/** The sling period's last day while it lasts on `today`; null before none or after it. */
+export function slingOn(patient: Patient, today: LocalDate): LocalDate | null {
+	return patient.slingUntil && today <= patient.slingUntil ? patient.slingUntil : null;
+}
+
+/** An item's range guides that hold today, in the patient's words. */
+export function rangeGuideWords(patient: Patient, item: ProgrammeItem, today: LocalDate): string[] {
+	return guidesOn(item.rangeGuides, patient.operationDate, today).map((g) =>
+		describeGuideForPatient(g, patient.operationDate, (d) => longDate(d))
+	);
+}
+
+/**
+ * The dates of the sessions that count (`countsAsSession`) of each item in today's Monday-first
+ * week, up to today: what Today and replay need to say whether today is an exercise day.
+ */
+function sessionDatesThisWeek(
+	patientId: string,
+	itemIds: readonly string[],
+	today: LocalDate
+): Map<string, LocalDate[]> {
+	const byItem = new Map<string, LocalDate[]>();
+	if (itemIds.length === 0) return byItem;
+	const rows = db()
+		.select({
+			itemId: schema.sessionLogs.programmeItemId,
+			localDate: schema.sessionLogs.localDate,
+			setsDone: schema.sessionLogs.setsDone
+		})
+		.from(schema.sessionLogs)
+		.where(
+			and(
+				eq(schema.sessionLogs.patientId, patientId),
+				inArray(schema.sessionLogs.programmeItemId, [...itemIds]),
+				gte(schema.sessionLogs.localDate, isoWeekStart(today)),
+				lte(schema.sessionLogs.localDate, today)
+			)
+		)
+		.all();
+	for (const row of rows) {
+		if (!countsAsSession(row)) continue;
+		const dates = byItem.get(row.itemId) ?? [];
+		dates.push(row.localDate);
+		byItem.set(row.itemId, dates);
+	}
+	return byItem;
 }
 
 /** Everything the Today page shows, for the patient's calendar day at `now`. */
@@ -140,7 +200,8 @@ export function todayFor(patient: Patient, now: number = Date.now()): TodayView 
 			programme: null,
 			restDay: null,
 			items: [],
-			summary: empty
+			summary: empty,
+			slingUntil: slingOn(patient, today)
 		};
 	}
 	const pauses = pausesOf(programme.id);
@@ -155,28 +216,17 @@ export function todayFor(patient: Patient, now: number = Date.now()): TodayView 
 					: null;
 
 	const rows = itemsOf(programme.id);
-	const logs = rows.length
-		? db()
-				.select({ itemId: schema.sessionLogs.programmeItemId })
-				.from(schema.sessionLogs)
-				.where(
-					and(
-						eq(schema.sessionLogs.patientId, patient.id),
-						inArray(
-							schema.sessionLogs.programmeItemId,
-							rows.map((r) => r.item.id)
-						),
-						eq(schema.sessionLogs.localDate, today)
-					)
-				)
-				.all()
-		: [];
+	const sessionDates = sessionDatesThisWeek(
+		patient.id,
+		rows.map((r) => r.item.id),
+		today
+	);
 
 	const days = { startDate: programme.startDate, endDate: programme.endDate, pauses };
 	const items: TodayItem[] = rows.map(({ item, exercise, segment }) => {
 		const dosage = dosageOn(programme, item, today);
-		const doneToday = logs.filter((l) => l.itemId === item.id).length;
-		const status = itemDayStatus(itemSchedule(days, dosage), today, doneToday);
+		const schedule = itemSchedule(days, dosage, item.weekdays);
+		const status = itemDayStatus(schedule, today, sessionDates.get(item.id) ?? []);
 		const ready = segment?.status === 'ready';
 		return {
 			id: item.id,
@@ -187,7 +237,8 @@ export function todayFor(patient: Patient, now: number = Date.now()): TodayView 
 			dosage,
 			dosageWords: describeDosage(dosage),
 			status,
-			weekdays: describeWeekdays(scheduledWeekdays(itemSchedule(days, dosage))),
+			days: describeExerciseDays(schedule),
+			rangeGuides: rangeGuideWords(patient, item, today),
 			poster: ready && segment ? segmentMedia(segment).poster : null,
 			hasVideo: ready
 		};
@@ -207,7 +258,8 @@ export function todayFor(patient: Patient, now: number = Date.now()): TodayView 
 		},
 		restDay,
 		items,
-		summary: restDay ? empty : summariseDay(items.map((i) => i.status))
+		summary: restDay ? empty : summariseDay(items.map((i) => i.status)),
+		slingUntil: slingOn(patient, today)
 	};
 }
 
@@ -259,37 +311,23 @@ export function transcriptLines(segment: SegmentRow | null): TranscriptLine[] {
 	}));
 }
 
-/** Sessions of one item logged on a date. */
-export function sessionsLoggedOn(patientId: string, itemId: string, date: LocalDate): number {
-	return db()
-		.select({ id: schema.sessionLogs.id })
-		.from(schema.sessionLogs)
-		.where(
-			and(
-				eq(schema.sessionLogs.patientId, patientId),
-				eq(schema.sessionLogs.programmeItemId, itemId),
-				eq(schema.sessionLogs.localDate, date)
-			)
-		)
-		.all().length;
-}
-
-/** Where one exercise of the patient stands today, and the weekdays it is for, in words. */
+/** Where one exercise of the patient stands today, and the days it is for, in words. */
 export function itemToday(
 	patientId: string,
 	programme: Programme,
 	item: ProgrammeItem,
 	today: LocalDate
-): { status: ItemDayStatus; weekdays: string } {
+): { status: ItemDayStatus; days: string } {
 	const days = {
 		startDate: programme.startDate,
 		endDate: programme.endDate,
 		pauses: pausesOf(programme.id)
 	};
-	const schedule = itemSchedule(days, dosageOn(programme, item, today));
+	const schedule = itemSchedule(days, dosageOn(programme, item, today), item.weekdays);
+	const dates = sessionDatesThisWeek(patientId, [item.id], today).get(item.id) ?? [];
 	return {
-		status: itemDayStatus(schedule, today, sessionsLoggedOn(patientId, item.id, today)),
-		weekdays: describeWeekdays(scheduledWeekdays(schedule))
+		status: itemDayStatus(schedule, today, dates),
+		days: describeExerciseDays(schedule)
 	};
 }
 
@@ -462,7 +500,8 @@ export function calendarInputFor(
 		items: itemsOf(programme.id).map(({ item, exercise }) => ({
 			title: exercise.title,
 			dosage: dosageOf(item),
-			progression: item.progression
+			progression: item.progression,
+			weekdays: item.weekdays
 		}))
 	};
 }

@@ -1,7 +1,8 @@
-import { index, primaryKey, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
+import { index, integer, primaryKey, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
 import { timestampNow, uuidPrimaryKey } from './columns';
 import { users } from './auth';
 import { clinics } from './clinics';
+import type { PrecautionDetail } from '../../../clinical/precautions';
 
 /** A patient's caption look; colours are #rrggbb, checked for contrast before saving. */
 export interface CaptionStyle {
@@ -35,6 +36,18 @@ export const patients = sqliteTable(
 		protocol: text('protocol').notNull().default(''),
 		/** Precautions the clinician recorded (lib/clinical/precautions vocabulary or free text). */
 		precautions: text('precautions', { mode: 'json' }).notNull().$type<string[]>().default([]),
+		/** An end (week after the operation, or a date) and degrees for precautions, by the precaution as stored. */
+		precautionDetails: text('precaution_details', { mode: 'json' })
+			.notNull()
+			.$type<Record<string, PrecautionDetail>>()
+			.default({}),
+		/** Weeks the surgeon's protocol runs later (+) or earlier (−) than the protocol table. */
+		protocolShiftWeeks: integer('protocol_shift_weeks').notNull().default(0),
+		/** The last day of the sling between sessions, 'YYYY-MM-DD', when the clinician set one. */
+		slingUntil: text('sling_until'),
+		/** Optional, so that age- and sex-specific normal values can apply. */
+		birthYear: integer('birth_year'),
+		sex: text('sex', { enum: ['female', 'male'] }),
 		/** IANA time zone for the patient's calendar days (adherence, reminders). */
 		timeZone: text('time_zone').notNull().default('Europe/London'),
 		/** The patient's caption look on the replay screen (size, colours), chosen by them. */

@@ -9,6 +9,9 @@ import {
 } from 'drizzle-orm/sqlite-core';
 import { timestampNow, uuidPrimaryKey } from './columns';
 import type { DosageBounds, Progression } from '../../../dosage/types';
+import type { Weekday } from '../../../clinical/calendar';
+import type { RangeGuide } from '../../../clinical/range-guides';
+import { ARM_POSITIONS, ROM_INSTRUMENTS } from '../../../clinical/rom';
 import { users } from './auth';
 import { clinics } from './clinics';
 import { patients } from './patients';
@@ -126,6 +129,13 @@ export const programmeItems = sqliteTable(
 			.references(() => exercises.id, { onDelete: 'restrict' }),
 		position: integer('position').notNull(),
 		...dosageColumns(),
+		/** The weekdays the clinician chose; null for any `days_per_week` days of each week. */
+		weekdays: text('weekdays', { mode: 'json' }).$type<Weekday[]>(),
+		/** Range targets and limits in degrees for this patient (lib/clinical/range-guides). */
+		rangeGuides: text('range_guides', { mode: 'json' })
+			.notNull()
+			.$type<RangeGuide[]>()
+			.default([]),
 		progression: text('progression', { mode: 'json' })
 			.notNull()
 			.$type<Progression>()
@@ -228,7 +238,7 @@ export const safetyAcknowledgements = sqliteTable(
 	(a) => [primaryKey({ columns: [a.patientId, a.exerciseId] })]
 );
 
-/** A goniometer reading taken by a clinician. `motion` names an entry of lib/clinical/rom. */
+/** A range-of-motion reading taken by a clinician. `motion` names an entry of lib/clinical/rom. */
 export const romMeasurements = sqliteTable(
 	'rom_measurement',
 	{
@@ -243,6 +253,10 @@ export const romMeasurements = sqliteTable(
 		side: text('side', { enum: ['left', 'right'] }).notNull(),
 		mode: text('mode', { enum: ROM_MODES }).notNull(),
 		degrees: real('degrees').notNull(),
+		/** What measured it: the measurement error depends on it. Older readings were goniometer ones. */
+		instrument: text('instrument', { enum: ROM_INSTRUMENTS }).notNull().default('goniometer'),
+		/** For shoulder rotations: where the arm was, since normal values depend on it. */
+		armPosition: text('arm_position', { enum: ARM_POSITIONS }),
 		measuredOn: text('measured_on').notNull(),
 		note: text('note').notNull().default(''),
 		recordedBy: text('recorded_by').references(() => users.id, { onDelete: 'set null' }),
