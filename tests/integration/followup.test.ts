@@ -259,7 +259,9 @@ describe('range-of-motion readings', () => {
 		const entry = {
 			motion: 'knee-flexion' as const,
 			mode: 'active' as const,
-			note: ''
+			note: '',
+			instrument: 'goniometer' as const,
+			armPosition: null
 		};
 		addRomMeasurement(
 			clinicianA,

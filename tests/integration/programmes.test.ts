@@ -343,6 +343,8 @@ describe('programmes', () => {
 						...Object.fromEntries(Object.entries(dose).map(([k, v]) => [k, String(v)])),
 						reps: 'lots'
 					},
+					weekdays: [],
+					rangeGuides: [],
 					progression: { kind: 'none', addPerWeek: '', ceiling: '', addAfterWeeks: '', add: '' },
 					logCount: 0
 				}

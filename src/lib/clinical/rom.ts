@@ -98,7 +98,8 @@ export type MotionId = keyof typeof MOTIONS;
 /** How sure a number is: read in the source, seen only in a summary, or recalled. */
 export type Confidence = 'read' | 'secondary' | 'memory';
 
-export type Sex = 'female' | 'male';
+export const SEXES = ['female', 'male'] as const;
+export type Sex = (typeof SEXES)[number];
 
 /** One normative value: for everyone, or by sex; some only for an age band. */
 export interface NormValue {

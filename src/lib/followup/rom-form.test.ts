@@ -7,12 +7,18 @@ const base = {
 	mode: 'active',
 	degrees: '95',
 	measuredOn: '2026-11-30',
-	note: '  after warm-up '
+	note: '  after warm-up ',
+	instrument: 'goniometer'
 };
 
 describe('the range-of-motion entry form', () => {
 	it('reads a typed entry, with a typed minus sign or decimal comma', () => {
-		expect(romEntrySchema.parse(base)).toEqual({ ...base, degrees: 95, note: 'after warm-up' });
+		expect(romEntrySchema.parse(base)).toEqual({
+			...base,
+			degrees: 95,
+			note: 'after warm-up',
+			armPosition: null
+		});
 		expect(romEntrySchema.parse({ ...base, motion: 'knee-extension', degrees: '−5' }).degrees).toBe(
 			-5
 		);
@@ -30,6 +36,17 @@ describe('the range-of-motion entry form', () => {
 		expect(message({ measuredOn: '2026-02-30' })).toBe(
 			'Give the date of the measurement as a calendar date.'
 		);
+		expect(message({ instrument: 'ruler' })).toBe('Choose what the reading was taken with.');
+	});
+
+	it('asks where the arm was for a rotation, and keeps no arm position for other motions', () => {
+		const rotation = { ...base, motion: 'shoulder-external-rotation' };
+		expect(romEntrySchema.safeParse(rotation).error?.issues[0]).toMatchObject({
+			path: ['armPosition'],
+			message: 'Say where the arm was: rotation is read differently at the side and raised.'
+		});
+		expect(romEntrySchema.parse({ ...rotation, armPosition: 'side' }).armPosition).toBe('side');
+		expect(romEntrySchema.parse({ ...base, armPosition: 'side' }).armPosition).toBeNull();
 	});
 });
 
@@ -37,7 +54,8 @@ describe('the degrees hint follows the motion chosen', () => {
 	it('speaks of the knee only for knee motions, and of the arm position for rotations', () => {
 		expect(degreesHint('knee-extension')).toMatch(/^Knee extension: 0 is straight/);
 		expect(degreesHint('shoulder-flexion')).not.toMatch(/knee/i);
-		expect(degreesHint('shoulder-external-rotation')).toMatch(/arm was at the side or raised/);
+		expect(degreesHint('shoulder-external-rotation')).toMatch(/choose where the arm was/);
+		expect(degreesHint('hip-flexion')).toMatch(/^Hip flexion/);
 		expect(degreesHint('')).toBe('Whole or half degrees, as read on the instrument.');
 	});
 });

@@ -4,7 +4,15 @@
  */
 import { z } from 'zod';
 import { isLocalDate } from '../clinical/calendar';
-import { MOTIONS, NORM_SOURCES, type MotionId, type NormSourceId } from '../clinical/rom';
+import {
+	ARM_POSITIONS,
+	MOTIONS,
+	NORM_SOURCES,
+	ROM_INSTRUMENTS,
+	needsArmPosition,
+	type MotionId,
+	type NormSourceId
+} from '../clinical/rom';
 
 export const MOTION_IDS = Object.keys(MOTIONS) as MotionId[];
 export const NORM_SOURCE_IDS = Object.keys(NORM_SOURCES) as NormSourceId[];
@@ -14,29 +22,51 @@ export const DEGREE_LIMITS = { min: -60, max: 200 } as const;
 
 export const MAX_ROM_NOTE = 500;
 
-export const romEntrySchema = z.object({
-	motion: z.enum(MOTION_IDS as [MotionId, ...MotionId[]], { error: 'Choose the motion measured.' }),
-	side: z.enum(['left', 'right'], { error: 'Choose the side measured.' }),
-	mode: z.enum(['active', 'passive'], { error: 'Choose active or passive.' }),
-	degrees: z.preprocess(
-		// A typed minus sign or a decimal comma is still the number meant; blank is no number.
-		(v) => (typeof v === 'string' ? v.trim().replace('−', '-').replace(',', '.') || undefined : v),
-		z.coerce
-			.number({ error: 'Give the degrees measured, e.g. 95 or -5.' })
-			.refine(Number.isFinite, 'Degrees must be a number, e.g. 95 or -5.')
-			.min(DEGREE_LIMITS.min, `Degrees cannot be below ${DEGREE_LIMITS.min}.`)
-			.max(DEGREE_LIMITS.max, `Degrees cannot be above ${DEGREE_LIMITS.max}.`)
-			.refine((d) => Number.isInteger(d * 2), 'Degrees are recorded to the half degree.')
-	),
-	measuredOn: z
-		.string({ error: 'Give the date of the measurement.' })
-		.refine(isLocalDate, 'Give the date of the measurement as a calendar date.'),
-	note: z
-		.string()
-		.max(MAX_ROM_NOTE, `A note can be at most ${MAX_ROM_NOTE} characters.`)
-		.default('')
-		.transform((n) => n.trim())
-});
+export const romEntrySchema = z
+	.object({
+		motion: z.enum(MOTION_IDS as [MotionId, ...MotionId[]], {
+			error: 'Choose the motion measured.'
+		}),
+		side: z.enum(['left', 'right'], { error: 'Choose the side measured.' }),
+		mode: z.enum(['active', 'passive'], { error: 'Choose active or passive.' }),
+		degrees: z.preprocess(
+			// A typed minus sign or a decimal comma is still the number meant; blank is no number.
+			(v) =>
+				typeof v === 'string' ? v.trim().replace('−', '-').replace(',', '.') || undefined : v,
+			z.coerce
+				.number({ error: 'Give the degrees measured, e.g. 95 or -5.' })
+				.refine(Number.isFinite, 'Degrees must be a number, e.g. 95 or -5.')
+				.min(DEGREE_LIMITS.min, `Degrees cannot be below ${DEGREE_LIMITS.min}.`)
+				.max(DEGREE_LIMITS.max, `Degrees cannot be above ${DEGREE_LIMITS.max}.`)
+				.refine((d) => Number.isInteger(d * 2), 'Degrees are recorded to the half degree.')
+		),
+		measuredOn: z
+			.string({ error: 'Give the date of the measurement.' })
+			.refine(isLocalDate, 'Give the date of the measurement as a calendar date.'),
+		note: z
+			.string()
+			.max(MAX_ROM_NOTE, `A note can be at most ${MAX_ROM_NOTE} characters.`)
+			.default('')
+			.transform((n) => n.trim()),
+		instrument: z.enum(ROM_INSTRUMENTS, { error: 'Choose what the reading was taken with.' }),
+		armPosition: z.enum(['', ...ARM_POSITIONS], { error: 'Choose where the arm was.' }).default('')
+	})
+	// Rotation normals and comparisons depend on where the arm was, so a rotation reading says it;
+	// other motions keep none.
+	.superRefine((entry, ctx) => {
+		if (needsArmPosition(entry.motion) && entry.armPosition === '') {
+			ctx.addIssue({
+				code: 'custom',
+				path: ['armPosition'],
+				message: 'Say where the arm was: rotation is read differently at the side and raised.'
+			});
+		}
+	})
+	.transform((entry) => ({
+		...entry,
+		armPosition:
+			needsArmPosition(entry.motion) && entry.armPosition !== '' ? entry.armPosition : null
+	}));
 
 export type RomEntry = z.output<typeof romEntrySchema>;
 
@@ -54,7 +84,17 @@ export function degreesHint(motion: string): string {
 			return 'Degrees the arm moves back behind the body from the side (0).';
 		case 'shoulder-internal-rotation':
 		case 'shoulder-external-rotation':
-			return 'Degrees of turn from the forearm pointing straight ahead (0); say in the note whether the arm was at the side or raised.';
+			return 'Degrees of turn from the forearm pointing straight ahead (0), elbow bent; choose where the arm was below.';
+		case 'hip-flexion':
+			return 'Hip flexion: degrees the thigh comes up from lying flat (0).';
+		case 'hip-extension':
+			return 'Hip extension: degrees the thigh goes back past lying flat (0); write a shortfall as a negative number.';
+		case 'hip-abduction':
+		case 'hip-adduction':
+			return 'Degrees the leg moves out (abduction) or in (adduction) from the middle (0).';
+		case 'hip-internal-rotation':
+		case 'hip-external-rotation':
+			return 'Degrees the lower leg turns from pointing straight (0).';
 		default:
 			return 'Whole or half degrees, as read on the instrument.';
 	}

@@ -22,9 +22,92 @@ describe('patient details', () => {
 				operationDate: '2026-11-10',
 				protocol: 'knee-replacement',
 				precautions: ['no-kneeling', 'No driving yet', 'Avoid stairs'],
+				precautionDetails: {},
+				protocolShiftWeeks: 0,
+				slingUntil: null,
+				birthYear: null,
+				sex: null,
 				timeZone: 'Europe/London'
 			}
 		});
+	});
+
+	it('keeps a precaution’s end and degrees, a sling period, the surgeon’s timing, birth year and sex', () => {
+		const parsed = parseDetails({
+			...emptyDetailsDraft(),
+			fullName: 'Ola Brink',
+			precautions: ['biceps-repair', 'shoulder-external-rotation-limit'],
+			precautionUntil: {
+				'biceps-repair': 'week 6',
+				'shoulder-external-rotation-limit': '2026-12-20'
+			},
+			precautionDegrees: { 'shoulder-external-rotation-limit': '20' },
+			protocolShiftWeeks: '−1',
+			slingUntil: '2026-12-14',
+			birthYear: '1961',
+			sex: 'female'
+		});
+		expect(parsed).toMatchObject({
+			ok: true,
+			details: {
+				precautionDetails: {
+					'biceps-repair': { untilWeek: 6, untilDate: null, degrees: null },
+					'shoulder-external-rotation-limit': {
+						untilWeek: null,
+						untilDate: '2026-12-20',
+						degrees: 20
+					}
+				},
+				protocolShiftWeeks: -1,
+				slingUntil: '2026-12-14',
+				birthYear: 1961,
+				sex: 'female'
+			}
+		});
+		// And back into the form as typed.
+		if (parsed.ok) {
+			const draft = detailsDraftFrom(parsed.details);
+			expect(draft.precautionUntil).toEqual({
+				'biceps-repair': '6',
+				'shoulder-external-rotation-limit': '2026-12-20'
+			});
+			expect(draft.precautionDegrees).toEqual({ 'shoulder-external-rotation-limit': '20' });
+			expect(draft.birthYear).toBe('1961');
+		}
+	});
+
+	it('refuses each new field in words, naming the precaution', () => {
+		const base = { ...emptyDetailsDraft(), fullName: 'A', precautions: ['biceps-repair'] };
+		expect(parseDetails({ ...base, precautionUntil: { 'biceps-repair': 'soon' } })).toMatchObject({
+			ok: false,
+			path: 'precaution-until-biceps-repair',
+			message: expect.stringMatching(/^Biceps repair: no active elbow flexion: "soon" is neither/)
+		});
+		expect(parseDetails({ ...base, birthYear: '61' })).toMatchObject({
+			ok: false,
+			path: 'birthYear'
+		});
+		expect(parseDetails({ ...base, birthYear: '1800' })).toMatchObject({
+			ok: false,
+			path: 'birthYear'
+		});
+		expect(parseDetails({ ...base, sex: 'x' })).toMatchObject({ ok: false, path: 'sex' });
+		expect(parseDetails({ ...base, slingUntil: '14/12/2026' })).toMatchObject({
+			ok: false,
+			path: 'slingUntil'
+		});
+		expect(parseDetails({ ...base, protocolShiftWeeks: '2.5' })).toMatchObject({
+			ok: false,
+			path: 'protocolShiftWeeks'
+		});
+		expect(parseDetails({ ...base, protocolShiftWeeks: '40' })).toMatchObject({
+			ok: false,
+			path: 'protocolShiftWeeks'
+		});
+		// The end of an unticked precaution is not kept.
+		expect(
+			parseDetails({ ...base, precautions: [], precautionUntil: { 'biceps-repair': '6' } })
+		).toMatchObject({ ok: true, details: { precautionDetails: {} } });
 	});
 
 	it('stores no operation date when none is given', () => {
@@ -67,6 +150,11 @@ describe('patient details', () => {
 			operationDate: null,
 			protocol: '',
 			precautions: ['falls-risk', 'Mind the stairs'],
+			precautionDetails: {},
+			protocolShiftWeeks: 0,
+			slingUntil: null,
+			birthYear: null,
+			sex: null,
 			timeZone: 'Europe/Dublin'
 		});
 		expect(draft.precautions).toEqual(['falls-risk']);

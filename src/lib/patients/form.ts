@@ -5,7 +5,20 @@
 import { DEFAULT_TIME_ZONE } from '$lib/format/instants';
 import { z } from 'zod';
 import { isLocalDate, isTimeZone } from '$lib/clinical/calendar';
-import { PRECAUTIONS, PROTOCOL_IDS_LIST, type PrecautionId } from './vocabulary';
+import { MAX_SHIFT_WEEKS } from '$lib/clinical/phases';
+import {
+	detailOf,
+	precautionDetailsSchema,
+	type PrecautionDetail
+} from '$lib/clinical/precautions';
+import { parseUntil, untilText } from '$lib/clinical/until';
+import {
+	PRECAUTIONS,
+	PRECAUTIONS_WITH_DEGREES,
+	PROTOCOL_IDS_LIST,
+	SEXES,
+	type PrecautionId
+} from './vocabulary';
 
 export const PATIENT_SIDES = ['left', 'right', 'both', 'not applicable'] as const;
 
@@ -19,8 +32,36 @@ export interface PatientDetailsDraft {
 	precautions: string[];
 	/** Free-text precautions, one a line or comma-separated. */
 	otherPrecautions: string;
+	/** Each ticked precaution's end as typed ("6" for week 6, or a date), by id. */
+	precautionUntil: Record<string, string>;
+	/** Degrees for the precautions that take them, by id. */
+	precautionDegrees: Record<string, string>;
+	/** Weeks the surgeon's timing runs later (+) or earlier (−) than the table, as typed. */
+	protocolShiftWeeks: string;
+	/** The sling's last day between sessions, 'YYYY-MM-DD' or empty. */
+	slingUntil: string;
+	birthYear: string;
+	sex: string;
 	timeZone: string;
 }
+
+/** A birth year a person under care can have, checked against the year it is entered in. */
+const birthYearSchema = z
+	.string()
+	.trim()
+	.transform((y, ctx) => {
+		if (y === '') return null;
+		const year = Number(y);
+		const now = new Date().getUTCFullYear();
+		if (!/^\d{4}$/.test(y) || year < now - 120 || year > now) {
+			ctx.addIssue({
+				code: 'custom',
+				message: `Write the birth year as four digits between ${now - 120} and ${now}, or leave it empty.`
+			});
+			return z.NEVER;
+		}
+		return year;
+	});
 
 export const detailsSchema = z.object({
 	fullName: z
@@ -47,6 +88,36 @@ export const detailsSchema = z.object({
 	precautions: z
 		.array(z.string().trim().min(1).max(160, 'Keep each precaution under 160 characters.'))
 		.max(20, 'Keep to 20 precautions or fewer.'),
+	precautionDetails: precautionDetailsSchema,
+	protocolShiftWeeks: z
+		.string()
+		.trim()
+		.transform((w) => (w === '' ? 0 : Number(w.replace('−', '-'))))
+		.pipe(
+			z
+				.number({ error: 'Write the surgeon’s timing as a whole number of weeks, e.g. 2 or -1.' })
+				.int('Write the surgeon’s timing as a whole number of weeks, e.g. 2 or -1.')
+				.min(
+					-MAX_SHIFT_WEEKS,
+					`Keep the surgeon’s timing within ${MAX_SHIFT_WEEKS} weeks either way.`
+				)
+				.max(
+					MAX_SHIFT_WEEKS,
+					`Keep the surgeon’s timing within ${MAX_SHIFT_WEEKS} weeks either way.`
+				)
+		),
+	slingUntil: z
+		.string()
+		.trim()
+		.refine(
+			(d) => d === '' || isLocalDate(d),
+			'Write the last day of the sling as a real date, e.g. 2026-12-14, or leave it empty.'
+		)
+		.transform((d) => (d === '' ? null : d)),
+	birthYear: birthYearSchema,
+	sex: z
+		.enum(['', ...SEXES], 'Choose female, male or not recorded.')
+		.transform((s) => (s === '' ? null : s)),
 	timeZone: z
 		.string()
 		.trim()
@@ -83,28 +154,48 @@ export function detailsDraftFromForm(form: FormData): PatientDetailsDraft {
 			.map(String)
 			.filter((p) => known.has(p)),
 		otherPrecautions: get('otherPrecautions'),
+		precautionUntil: Object.fromEntries(
+			[...known].map((id) => [id, get(`precaution-until-${id}`)]).filter(([, v]) => v !== '')
+		),
+		precautionDegrees: Object.fromEntries(
+			PRECAUTIONS_WITH_DEGREES.map((id) => [id, get(`precaution-degrees-${id}`)]).filter(
+				([, v]) => v !== ''
+			)
+		),
+		protocolShiftWeeks: get('protocolShiftWeeks'),
+		slingUntil: get('slingUntil'),
+		birthYear: get('birthYear'),
+		sex: get('sex'),
 		timeZone: get('timeZone') || DEFAULT_TIME_ZONE
 	};
 }
 
 /** The form filled from stored details (precautions split into ticked ones and free text). */
-export function detailsDraftFrom(p: {
-	fullName: string;
-	affectedSide: string;
-	condition: string;
-	operationDate: string | null;
-	protocol: string;
-	precautions: string[];
-	timeZone: string;
-}): PatientDetailsDraft {
+export function detailsDraftFrom(p: PatientDetails): PatientDetailsDraft {
+	const ticked = p.precautions.filter((x) => known.has(x));
 	return {
 		fullName: p.fullName,
 		affectedSide: p.affectedSide,
 		condition: p.condition,
 		operationDate: p.operationDate ?? '',
 		protocol: p.protocol,
-		precautions: p.precautions.filter((x) => known.has(x)),
+		precautions: ticked,
 		otherPrecautions: p.precautions.filter((x) => !known.has(x)).join('\n'),
+		precautionUntil: Object.fromEntries(
+			ticked
+				.map((id) => [id, untilText(detailOf(p.precautionDetails, id))])
+				.filter(([, v]) => v !== '')
+		),
+		precautionDegrees: Object.fromEntries(
+			ticked.flatMap((id) => {
+				const degrees = detailOf(p.precautionDetails, id).degrees;
+				return degrees === null ? [] : [[id, String(degrees)]];
+			})
+		),
+		protocolShiftWeeks: p.protocolShiftWeeks === 0 ? '' : String(p.protocolShiftWeeks),
+		slingUntil: p.slingUntil ?? '',
+		birthYear: p.birthYear === null ? '' : String(p.birthYear),
+		sex: p.sex ?? '',
 		timeZone: p.timeZone
 	};
 }
@@ -119,20 +210,64 @@ export function emptyDetailsDraft(timeZone = DEFAULT_TIME_ZONE): PatientDetailsD
 		protocol: '',
 		precautions: [],
 		otherPrecautions: '',
+		precautionUntil: {},
+		precautionDegrees: {},
+		protocolShiftWeeks: '',
+		slingUntil: '',
+		birthYear: '',
+		sex: '',
 		timeZone
 	};
+}
+
+/**
+ * The ends and degrees of the ticked precautions, read from what was typed; a refusal names the
+ * precaution. Details of unticked precautions are dropped.
+ */
+function precautionDetailsFrom(
+	draft: PatientDetailsDraft
+):
+	| { ok: true; details: Record<string, PrecautionDetail> }
+	| { ok: false; message: string; path: string } {
+	const details: Record<string, PrecautionDetail> = {};
+	for (const id of draft.precautions) {
+		const label = PRECAUTIONS[id as PrecautionId];
+		const until = parseUntil(draft.precautionUntil[id] ?? '');
+		if (!until.ok) {
+			return { ok: false, message: `${label}: ${until.message}`, path: `precaution-until-${id}` };
+		}
+		const degreesText = (draft.precautionDegrees[id] ?? '').trim();
+		let degrees: number | null = null;
+		if (degreesText !== '') {
+			degrees = Number(degreesText);
+			if (!Number.isInteger(degrees) || degrees < 0 || degrees > 180) {
+				return {
+					ok: false,
+					message: `${label}: give whole degrees from 0 to 180, e.g. 20.`,
+					path: `precaution-degrees-${id}`
+				};
+			}
+		}
+		if (until.until.untilWeek !== null || until.until.untilDate !== null || degrees !== null) {
+			details[id] = { ...until.until, degrees };
+		}
+	}
+	return { ok: true, details };
 }
 
 /** Checks a draft; the first problem's sentence on refusal. */
 export function parseDetails(
 	draft: PatientDetailsDraft
 ): { ok: true; details: PatientDetails } | { ok: false; message: string; path: string } {
+	const details = precautionDetailsFrom(draft);
+	if (!details.ok) return details;
 	const result = detailsSchema.safeParse({
 		...draft,
 		precautions: [
 			...draft.precautions.map((p) => p as PrecautionId),
 			...splitLines(draft.otherPrecautions)
-		]
+		],
+		precautionDetails: details.details
 	});
 	if (result.success) return { ok: true, details: result.data };
 	const issue = result.error.issues[0];

@@ -1,7 +1,21 @@
 /** Words for a patient's record, shared by the invitation form and the details page. */
 import { PROTOCOL_IDS, PROTOCOLS } from '$lib/clinical/phases';
 
+import type { PrecautionId } from '$lib/clinical/precautions';
 export { PRECAUTIONS, type PrecautionId } from '$lib/clinical/precautions';
+
+/** Precautions that limit a range and take the clinician's degrees. */
+export const PRECAUTIONS_WITH_DEGREES: readonly PrecautionId[] = [
+	'shoulder-external-rotation-limit'
+];
+
+/** Sex as the normal-value tables report it; optional on a patient's record. */
+export { SEXES } from '$lib/clinical/rom';
+export const SEX_CHOICES: { value: string; label: string }[] = [
+	{ value: '', label: 'Not recorded' },
+	{ value: 'female', label: 'Female' },
+	{ value: 'male', label: 'Male' }
+];
 
 export const PROTOCOL_IDS_LIST = PROTOCOL_IDS;
 

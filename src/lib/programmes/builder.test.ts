@@ -108,10 +108,68 @@ describe('builder moves', () => {
 						sessionsPerDay: 3,
 						daysPerWeek: 7
 					},
+					weekdays: null,
+					rangeGuides: [],
 					progression: { kind: 'reps', addPerWeek: 2, ceiling: 15 }
 				}
 			]
 		});
+	});
+
+	it('reads ticked weekdays and range guides from a form, and refuses what does not add up', () => {
+		const form = new FormData();
+		form.set('title', 'Shoulder');
+		form.set('startDate', '2026-11-17');
+		form.set('itemCount', '1');
+		form.set('item-0-exerciseId', exercise.id);
+		for (const [k, v] of Object.entries(exercise.defaultDosage)) form.set(`item-0-${k}`, String(v));
+		form.set('item-0-daysPerWeek', '2');
+		form.append('item-0-weekday', '5');
+		form.append('item-0-weekday', '2');
+		form.set('item-0-guideCount', '2');
+		form.set('item-0-guide-0-motion', 'shoulder-external-rotation');
+		form.set('item-0-guide-0-kind', 'limit');
+		form.set('item-0-guide-0-degrees', '20');
+		form.set('item-0-guide-0-until', '6');
+		form.set('item-0-guide-1-motion', '');
+		const { draft: posted } = draftFromForm(form);
+		// A blank row stays at the end for the next guide.
+		expect(posted.items[0].rangeGuides).toHaveLength(2);
+		const parsed = programmeSaveSchema.parse(draftToInput(posted));
+		expect(parsed.items[0]).toMatchObject({
+			weekdays: [2, 5],
+			rangeGuides: [
+				{
+					motion: 'shoulder-external-rotation',
+					kind: 'limit',
+					degrees: 20,
+					untilWeek: 6,
+					untilDate: null
+				}
+			]
+		});
+
+		posted.items[0].weekdays = [1, 3, 5];
+		expect(programmeSaveSchema.safeParse(draftToInput(posted)).error?.issues[0]).toMatchObject({
+			path: ['items', 0, 'weekdays'],
+			message:
+				'3 weekdays are ticked but days a week is 2. Tick 2 weekdays, change days a week, or untick all for any 2 days.'
+		});
+		posted.items[0].weekdays = [];
+		posted.items[0].rangeGuides[0].degrees = '';
+		expect(programmeSaveSchema.safeParse(draftToInput(posted)).error?.issues[0]).toMatchObject({
+			path: ['items', 0, 'rangeGuides', 0, 'degrees'],
+			message: 'Give the degrees, e.g. 90.'
+		});
+		posted.items[0].rangeGuides[0].degrees = '20';
+		posted.items[0].rangeGuides[0].until = 'later';
+		expect(programmeSaveSchema.safeParse(draftToInput(posted)).error?.issues[0].path).toEqual([
+			'items',
+			0,
+			'rangeGuides',
+			0,
+			'until'
+		]);
 	});
 
 	it('keeps the id of a saved row and refuses the same row twice', () => {

@@ -12,6 +12,9 @@ import {
 } from '$lib/dosage';
 import { progressionDraft, progressionFromDraft, type ProgressionDraft } from '$lib/exercises/form';
 import type { MovementType, Position } from '$lib/exercises/vocabulary';
+import type { Weekday } from '$lib/clinical/calendar';
+import { MAX_RANGE_GUIDES, type RangeGuide } from '$lib/clinical/range-guides';
+import { untilText } from '$lib/clinical/until';
 import { moveBy } from '$lib/forms/reorder';
 
 /** An exercise as the builder offers it. */
@@ -41,8 +44,40 @@ export interface ItemDraft {
 	id: string;
 	exerciseId: string;
 	dosage: Record<DosageField, string>;
+	/** The weekdays ticked; empty for any `daysPerWeek` days of each week. */
+	weekdays: Weekday[];
+	/** Range targets and limits as typed; the last row is always a blank one to fill. */
+	rangeGuides: RangeGuideDraft[];
 	progression: ProgressionDraft;
 	logCount: number;
+}
+
+/** One range target or limit as typed (degrees and end kept as text until saved). */
+export interface RangeGuideDraft {
+	/** Empty in the blank row; a row with no motion is not saved. */
+	motion: string;
+	kind: string;
+	degrees: string;
+	/** "6" (until week 6 after the operation), a date, or empty for no end. */
+	until: string;
+}
+
+export const BLANK_GUIDE: RangeGuideDraft = { motion: '', kind: 'target', degrees: '', until: '' };
+
+/** The guides as typed with one blank row after them (none when the item holds the most). */
+export function withBlankGuide(guides: readonly RangeGuideDraft[]): RangeGuideDraft[] {
+	const filled = guides.filter((g) => g.motion !== '');
+	return filled.length < MAX_RANGE_GUIDES ? [...filled, { ...BLANK_GUIDE }] : filled;
+}
+
+/** A saved guide as a row of text fields. */
+export function guideDraft(guide: RangeGuide): RangeGuideDraft {
+	return {
+		motion: guide.motion,
+		kind: guide.kind,
+		degrees: String(guide.degrees),
+		until: untilText(guide)
+	};
 }
 
 export interface ProgrammeDraft {
@@ -74,6 +109,8 @@ export function itemFromExercise(exercise: BuilderExercise, key = newKey()): Ite
 		id: '',
 		exerciseId: exercise.id,
 		dosage: dosageText(exercise.defaultDosage),
+		weekdays: [],
+		rangeGuides: withBlankGuide([]),
 		progression: progressionDraft(exercise.defaultProgression),
 		logCount: 0
 	};
@@ -84,6 +121,8 @@ export function itemFromSaved(item: {
 	id: string;
 	exerciseId: string;
 	dosage: Dosage;
+	weekdays: Weekday[] | null;
+	rangeGuides: RangeGuide[];
 	progression: Progression;
 	logCount: number;
 }): ItemDraft {
@@ -92,6 +131,8 @@ export function itemFromSaved(item: {
 		id: item.id,
 		exerciseId: item.exerciseId,
 		dosage: dosageText(item.dosage),
+		weekdays: item.weekdays ?? [],
+		rangeGuides: withBlankGuide(item.rangeGuides.map(guideDraft)),
 		progression: progressionDraft(item.progression),
 		logCount: item.logCount
 	};
@@ -108,6 +149,8 @@ export function draftToInput(draft: ProgrammeDraft) {
 			...(item.id ? { id: item.id } : {}),
 			exerciseId: item.exerciseId,
 			dosage: item.dosage,
+			weekdays: item.weekdays,
+			rangeGuides: item.rangeGuides.filter((g) => g.motion !== ''),
 			progression: progressionFromDraft(item.progression)
 		}))
 	};
@@ -180,6 +223,21 @@ export function draftFromForm(form: FormData): { draft: ProgrammeDraft; intent: 
 				DosageField,
 				string
 			>,
+			weekdays: form
+				.getAll(`item-${i}-weekday`)
+				.map(Number)
+				.filter((d): d is Weekday => Number.isInteger(d) && d >= 1 && d <= 7),
+			rangeGuides: withBlankGuide(
+				Array.from(
+					{ length: Math.min(MAX_RANGE_GUIDES + 1, Number(p('guideCount')) || 0) },
+					(_, j) => ({
+						motion: p(`guide-${j}-motion`),
+						kind: p(`guide-${j}-kind`) || 'target',
+						degrees: p(`guide-${j}-degrees`),
+						until: p(`guide-${j}-until`)
+					})
+				)
+			),
 			progression: {
 				kind: p(PROGRESSION_FORM_NAMES.kind) || 'none',
 				addPerWeek: p(PROGRESSION_FORM_NAMES.addPerWeek),

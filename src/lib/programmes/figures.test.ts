@@ -15,7 +15,9 @@ const exercise = (over: Partial<FigureExercise> = {}): FigureExercise => ({
 const knee = {
 	operationDate: '2026-11-10',
 	protocol: 'knee-replacement',
-	precautions: ['no-kneeling']
+	protocolShiftWeeks: 0,
+	precautions: ['no-kneeling'],
+	precautionDetails: {}
 };
 
 const dose = {
@@ -106,6 +108,38 @@ describe('programmeFigures', () => {
 		expect(figures.totalMinutesPerSession).toBeCloseTo((32 + 230) / 60, 10);
 		expect(figures.totalRepsPerWeek).toBe(168 + 2 * 20 * 21);
 		expect(figures.precautionCaution).toMatch(/clinician/);
+	});
+
+	it('raises no clash for a precaution that ended before the programme starts', () => {
+		const item = {
+			exercise: exercise({ precautionTags: ['kneeling'] }),
+			dosage: {
+				sets: 1,
+				reps: 8,
+				holdSeconds: 0,
+				restSeconds: 0,
+				sessionsPerDay: 1,
+				daysPerWeek: 7
+			}
+		};
+		const ended = {
+			...knee,
+			precautionDetails: { 'no-kneeling': { untilWeek: 6, untilDate: null, degrees: null } }
+		};
+		// Operation 2026-11-10: week 6 begins 2026-12-22.
+		expect(programmeFigures(ended, '2026-12-21', [item]).items[0].conflicts).toHaveLength(1);
+		expect(programmeFigures(ended, '2026-12-22', [item]).items[0].conflicts).toHaveLength(0);
+		// A programme that started earlier is judged today.
+		expect(programmeFigures(ended, '2026-12-01', [item], '2026-12-30').items[0].conflicts).toEqual(
+			[]
+		);
+	});
+
+	it('moves the phase flag with the surgeon’s timing', () => {
+		const later = { ...knee, protocolShiftWeeks: 2 };
+		// Week 2 after a knee replacement: the table's active motion starts at 2, the surgeon's at 4.
+		expect(weekAfterOperation(knee, '2026-11-24')?.hint?.phase).toBe('active-motion');
+		expect(weekAfterOperation(later, '2026-11-24')?.hint?.phase).toBe('early-motion');
 	});
 
 	it('says why there is no week when the operation date is missing', () => {

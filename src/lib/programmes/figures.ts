@@ -17,7 +17,9 @@ import {
 import {
 	PRECAUTION_CAUTION,
 	precautionConflicts,
-	type PrecautionConflict
+	precautionsOn,
+	type PrecautionConflict,
+	type PrecautionDetail
 } from '$lib/clinical/precautions';
 import {
 	DEFAULT_SECONDS_PER_REP,
@@ -50,7 +52,10 @@ export interface FigureExercise {
 export interface FigurePatient {
 	operationDate: LocalDate | null;
 	protocol: string;
+	/** Weeks the surgeon's timing runs behind (+) or ahead of (−) the protocol table. */
+	protocolShiftWeeks: number;
 	precautions: string[];
+	precautionDetails: Record<string, PrecautionDetail>;
 }
 
 export interface ItemFigures {
@@ -118,7 +123,8 @@ export function weekAfterOperation(
 			? `the start on ${startDate} is ${-since.days} days before the operation on ${patient.operationDate}`
 			: `week ${since.weeks} after the operation (${since.days} days), counted from ${patient.operationDate} to the start on ${startDate}`;
 	const table = protocolById(patient.protocol);
-	const hint = since.days < 0 ? null : phaseForWeek(patient.protocol, since.weeks);
+	const hint =
+		since.days < 0 ? null : phaseForWeek(patient.protocol, since.weeks, patient.protocolShiftWeeks);
 	let noHintReason: string | null = null;
 	if (!hint) {
 		noHintReason = !table
@@ -136,13 +142,23 @@ export function weekAfterOperation(
 	};
 }
 
-/** Every figure and flag for a programme being built. */
+/**
+ * Every figure and flag for a programme being built. Precautions are those still holding when
+ * the programme starts (or today, when it started already): one that ended before raises no clash.
+ */
 export function programmeFigures(
 	patient: FigurePatient,
 	startDate: LocalDate,
-	items: { exercise: FigureExercise; dosage: Dosage }[]
+	items: { exercise: FigureExercise; dosage: Dosage }[],
+	today: LocalDate = startDate
 ): ProgrammeFigures {
 	const week = weekAfterOperation(patient, startDate);
+	const holding = precautionsOn(
+		patient.precautions,
+		patient.precautionDetails,
+		patient.operationDate,
+		today > startDate ? today : startDate
+	);
 	const figures = items.map(({ exercise, dosage }): ItemFigures => {
 		const { pace, basis } = paceFor(exercise);
 		return {
@@ -151,7 +167,7 @@ export function programmeFigures(
 			paceBasis: basis,
 			phaseFlag: laterPhaseFlag(phaseOf(exercise.phase), week?.hint ?? null),
 			conflicts: precautionConflicts(
-				patient.precautions,
+				holding,
 				exercise.precautionTags,
 				exercise.movementType
 					? { movementType: exercise.movementType, bodyRegion: exercise.bodyRegion ?? '' }

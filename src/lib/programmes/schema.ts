@@ -3,7 +3,9 @@
  * the server (at the edge of the form action and the JSON endpoint).
  */
 import { z } from 'zod';
-import { isLocalDate } from '$lib/clinical/calendar';
+import { isLocalDate, type Weekday } from '$lib/clinical/calendar';
+import { MAX_RANGE_GUIDES, rangeGuideSchema } from '$lib/clinical/range-guides';
+import { parseUntil } from '$lib/clinical/until';
 import {
 	DOSAGE_FIELD_LABELS,
 	dosageSchema,
@@ -16,13 +18,60 @@ export const MAX_ITEMS = 30;
 const localDate = (what: string) =>
 	z.string().trim().refine(isLocalDate, `Write the ${what} as a real date, e.g. 2026-11-17.`);
 
+/** A range target or limit as typed: degrees and end as text, read here. */
+const rangeGuideInput = z
+	.object({ motion: z.string(), kind: z.string(), degrees: z.string(), until: z.string() })
+	.transform((g, ctx) => {
+		const until = parseUntil(g.until);
+		if (!until.ok) {
+			ctx.addIssue({ code: 'custom', path: ['until'], message: until.message });
+			return z.NEVER;
+		}
+		// Blank degrees become NaN, which the guide's own check refuses in words; the guide
+		// schema checks the motion and kind against their lists.
+		const guide = rangeGuideSchema.safeParse({
+			motion: g.motion,
+			kind: g.kind,
+			degrees: g.degrees.trim() === '' ? NaN : Number(g.degrees.trim()),
+			...until.until
+		});
+		if (!guide.success) {
+			for (const issue of guide.error.issues) {
+				ctx.addIssue({ code: 'custom', path: issue.path, message: issue.message });
+			}
+			return z.NEVER;
+		}
+		return guide.data;
+	});
+
 export const programmeItemSchema = z
 	.object({
 		/** Present for an item already saved: its id is kept, so logs and printed codes stay valid. */
 		id: z.uuid().optional(),
 		exerciseId: z.uuid('Choose an exercise.'),
 		dosage: dosageSchema,
+		/** Ticked weekdays; none means any `daysPerWeek` days of each week. */
+		weekdays: z
+			.array(z.number().int().min(1).max(7))
+			.max(7)
+			.default([])
+			.transform((days) =>
+				days.length === 0 ? null : ([...new Set(days)].sort((a, b) => a - b) as Weekday[])
+			),
+		rangeGuides: z
+			.array(rangeGuideInput)
+			.max(MAX_RANGE_GUIDES, `Keep to ${MAX_RANGE_GUIDES} range targets and limits an exercise.`)
+			.default([]),
 		progression: progressionSchema
+	})
+	.superRefine(({ dosage, weekdays }, ctx) => {
+		if (weekdays && weekdays.length !== dosage.daysPerWeek) {
+			ctx.addIssue({
+				code: 'custom',
+				path: ['weekdays'],
+				message: `${weekdays.length} ${weekdays.length === 1 ? 'weekday is' : 'weekdays are'} ticked but days a week is ${dosage.daysPerWeek}. Tick ${dosage.daysPerWeek} ${dosage.daysPerWeek === 1 ? 'weekday' : 'weekdays'}, change days a week, or untick all for any ${dosage.daysPerWeek} days.`
+			});
+		}
 	})
 	.superRefine(({ dosage, progression }, ctx) => {
 		const field = PROGRESSED_FIELD[progression.kind];
@@ -72,6 +121,12 @@ export const programmeSaveSchema = z
 
 export type ProgrammeSave = z.infer<typeof programmeSaveSchema>;
 export type ProgrammeItemSave = ProgrammeSave['items'][number];
+
+/** A checked programme as code may also pass it: weekdays and range guides may be left out (none). */
+export type ProgrammeSaveData = Omit<ProgrammeSave, 'items'> & {
+	items: (Omit<ProgrammeItemSave, 'weekdays' | 'rangeGuides'> &
+		Partial<Pick<ProgrammeItemSave, 'weekdays' | 'rangeGuides'>>)[];
+};
 
 /** A zod refusal as one list of sentences, each with where it belongs ("items.2.dosage.reps"). */
 export function problemsOf(error: z.ZodError): { path: string; message: string }[] {

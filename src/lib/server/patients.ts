@@ -71,7 +71,20 @@ export async function invitePatient(
 		email: string;
 		affectedSide: Patient['affectedSide'];
 		condition: string;
-	} & Partial<Pick<Patient, 'operationDate' | 'protocol' | 'precautions' | 'timeZone'>>
+	} & Partial<
+		Pick<
+			Patient,
+			| 'operationDate'
+			| 'protocol'
+			| 'precautions'
+			| 'precautionDetails'
+			| 'protocolShiftWeeks'
+			| 'slingUntil'
+			| 'birthYear'
+			| 'sex'
+			| 'timeZone'
+		>
+	>
 ): Promise<Patient> {
 	const email = normaliseEmail(input.email);
 	const existing = db()
@@ -93,6 +106,11 @@ export async function invitePatient(
 				operationDate: input.operationDate ?? null,
 				protocol: input.protocol ?? '',
 				precautions: input.precautions ?? [],
+				precautionDetails: input.precautionDetails ?? {},
+				protocolShiftWeeks: input.protocolShiftWeeks ?? 0,
+				slingUntil: input.slingUntil ?? null,
+				birthYear: input.birthYear ?? null,
+				sex: input.sex ?? null,
 				...(input.timeZone ? { timeZone: input.timeZone } : {})
 			})
 			.returning()
@@ -138,6 +156,11 @@ export type PatientDetailsUpdate = Pick<
 	| 'operationDate'
 	| 'protocol'
 	| 'precautions'
+	| 'precautionDetails'
+	| 'protocolShiftWeeks'
+	| 'slingUntil'
+	| 'birthYear'
+	| 'sex'
 	| 'timeZone'
 >;
 

@@ -90,6 +90,8 @@ export function addRomMeasurement(
 			degrees: entry.degrees,
 			measuredOn: entry.measuredOn,
 			note: entry.note,
+			instrument: entry.instrument,
+			armPosition: entry.armPosition,
 			recordedBy: clinician.id
 		})
 		.returning()

@@ -62,6 +62,8 @@ export function builderState(view: ProgrammeView) {
 				id: i.id,
 				exerciseId: i.exerciseId,
 				dosage: dosageOf(i),
+				weekdays: i.weekdays,
+				rangeGuides: i.rangeGuides,
 				progression: i.progression as Progression,
 				logCount: i.logCount
 			})
@@ -83,7 +85,9 @@ export function builderState(view: ProgrammeView) {
 			affectedSide: patient.affectedSide,
 			operationDate: patient.operationDate,
 			protocol: patient.protocol,
+			protocolShiftWeeks: patient.protocolShiftWeeks,
 			precautions: patient.precautions,
+			precautionDetails: patient.precautionDetails,
 			today: patientToday(patient)
 		},
 		draft

@@ -1,7 +1,7 @@
 import { and, asc, count, desc, eq, inArray, ne } from 'drizzle-orm';
 import { localDateOf } from '$lib/clinical/calendar';
 import { describeDosage, dosageOf, type Progression } from '$lib/dosage';
-import type { ProgrammeSave } from '$lib/programmes/schema';
+import type { ProgrammeSaveData } from '$lib/programmes/schema';
 import { config } from '../config';
 import { db } from '../db';
 import {
@@ -132,7 +132,7 @@ export function createProgramme(
 export function saveProgramme(
 	clinician: Principal,
 	programmeId: string,
-	input: ProgrammeSave
+	input: ProgrammeSaveData
 ): ProgrammeView {
 	const store = db();
 	store.transaction((tx) => {
@@ -209,7 +209,13 @@ export function saveProgramme(
 		}
 
 		input.items.forEach((item, position) => {
-			const values = { ...item.dosage, progression: item.progression, position };
+			const values = {
+				...item.dosage,
+				weekdays: item.weekdays ?? null,
+				rangeGuides: item.rangeGuides ?? [],
+				progression: item.progression,
+				position
+			};
 			if (item.id) {
 				tx.update(programmeItems)
 					.set({ ...values, exerciseId: item.exerciseId })

@@ -1,8 +1,16 @@
-import { index, integer, primaryKey, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
+import {
+	index,
+	integer,
+	primaryKey,
+	sqliteTable,
+	text,
+	uniqueIndex
+} from 'drizzle-orm/sqlite-core';
 import { timestampNow, uuidPrimaryKey } from './columns';
 import { users } from './auth';
 import { clinics } from './clinics';
 import type { PrecautionDetail } from '../../../clinical/precautions';
+import { SEXES } from '../../../clinical/rom';
 
 /** A patient's caption look; colours are #rrggbb, checked for contrast before saving. */
 export interface CaptionStyle {
@@ -47,7 +55,7 @@ export const patients = sqliteTable(
 		slingUntil: text('sling_until'),
 		/** Optional, so that age- and sex-specific normal values can apply. */
 		birthYear: integer('birth_year'),
-		sex: text('sex', { enum: ['female', 'male'] }),
+		sex: text('sex', { enum: SEXES }),
 		/** IANA time zone for the patient's calendar days (adherence, reminders). */
 		timeZone: text('time_zone').notNull().default('Europe/London'),
 		/** The patient's caption look on the replay screen (size, colours), chosen by them. */

@@ -1,6 +1,9 @@
 import { error, fail } from '@sveltejs/kit';
 import { z } from 'zod';
 import { protocolById } from '$lib/clinical/phases';
+import { describePrecaution, detailOf } from '$lib/clinical/precautions';
+import { holdsOn } from '$lib/clinical/until';
+import { formatDate } from '$lib/followup/words';
 import { NORM_SOURCES } from '$lib/clinical/rom';
 import { NORM_SOURCE_IDS, romEntrySchema } from '$lib/followup/rom-form';
 import { requireRole } from '$lib/server/auth/guard';
@@ -42,7 +45,19 @@ export const load: PageServerLoad = ({ params, url }) => {
 			condition: patient.condition,
 			operationDate: patient.operationDate,
 			protocol: protocolById(patient.protocol)?.name ?? patient.protocol,
-			precautions: patient.precautions,
+			protocolAppliesTo: protocolById(patient.protocol)?.appliesTo ?? null,
+			protocolShiftWeeks: patient.protocolShiftWeeks,
+			precautions: patient.precautions.map((p) => ({
+				text: describePrecaution(p, patient.precautionDetails, patient.operationDate, formatDate),
+				ended: !holdsOn(
+					detailOf(patient.precautionDetails, p),
+					patient.operationDate,
+					followup.figures.today
+				)
+			})),
+			slingUntil: patient.slingUntil,
+			birthYear: patient.birthYear,
+			sex: patient.sex,
 			timeZone: patient.timeZone,
 			addedAt: patient.createdAt.toISOString()
 		},
@@ -72,7 +87,9 @@ export const actions: Actions = {
 			mode: String(raw.mode ?? ''),
 			degrees: String(raw.degrees ?? ''),
 			measuredOn: String(raw.measuredOn ?? ''),
-			note: String(raw.note ?? '')
+			note: String(raw.note ?? ''),
+			instrument: String(raw.instrument ?? ''),
+			armPosition: String(raw.armPosition ?? '')
 		};
 		const parsed = romEntrySchema.safeParse(values);
 		if (!parsed.success) {

@@ -10,6 +10,8 @@ import {
 	findReplayItem,
 	hasAcknowledged,
 	itemToday,
+	rangeGuideWords,
+	slingOn,
 	segmentMedia,
 	transcriptLines
 } from '$lib/server/sessions';
@@ -53,7 +55,9 @@ export const load: PageServerLoad = ({ params }) => {
 		language: segment?.captionsLanguage ?? 'en',
 		transcript: ready ? transcriptLines(segment) : [],
 		captionStyle: captionStyleOf(patient),
-		today: itemToday(patient.id, programme, item, today)
+		today: itemToday(patient.id, programme, item, today),
+		rangeGuides: rangeGuideWords(patient, item, today),
+		slingUntil: slingOn(patient, today)
 	};
 };
 
