@@ -141,6 +141,56 @@ export function seedProgramme(
 	return { programmeId, itemIds, exerciseIds };
 }
 
+/** An exercise in the clinic of `clinicianEmail`, ready to be added to a programme. */
+export function seedExercise(
+	clinicianEmail: string,
+	exercise: {
+		title: string;
+		segmentId: string;
+		bodyRegion: string;
+		position: string;
+		movementType: string;
+		equipment?: string[];
+		precautionTags?: string[];
+		safetyNotes?: string;
+		phase?: number;
+	}
+): string {
+	const db = database();
+	const id = crypto.randomUUID();
+	try {
+		const { clinicId } = db
+			.prepare(
+				'select m.clinic_id as clinicId from membership m join user u on u.id = m.user_id where u.email = ?'
+			)
+			.get(clinicianEmail) as { clinicId: string };
+		const now = Date.now();
+		db.prepare(
+			`insert into exercise (id, clinic_id, segment_id, title, body_region, side, position, movement_type,
+			 equipment, phase, safety_notes, precaution_tags, sets, reps, hold_seconds, rest_seconds,
+			 sessions_per_day, days_per_week, status, created_at, updated_at)
+			 values (?, ?, ?, ?, ?, 'either', ?, ?, ?, ?, ?, ?, 1, 8, 0, 0, 3, 7, 'ready', ?, ?)`
+		).run(
+			id,
+			clinicId,
+			exercise.segmentId,
+			exercise.title,
+			exercise.bodyRegion,
+			exercise.position,
+			exercise.movementType,
+			JSON.stringify(exercise.equipment ?? []),
+			exercise.phase ?? 2,
+			exercise.safetyNotes ?? '',
+			JSON.stringify(exercise.precautionTags ?? []),
+			now,
+			now
+		);
+	} finally {
+		db.close();
+	}
+	return id;
+}
+
 /** The session logs of a patient, newest first, read back from the database. */
 export function sessionLogsOf(
 	patientId: string
