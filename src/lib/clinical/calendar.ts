@@ -166,3 +166,20 @@ export function describeTimeSince(since: TimeSince): string {
 	}
 	return parts.join(' ');
 }
+
+const WEEKDAY_NAMES = [
+	'Monday',
+	'Tuesday',
+	'Wednesday',
+	'Thursday',
+	'Friday',
+	'Saturday',
+	'Sunday'
+];
+
+/** "every day", "Monday, Wednesday and Friday". */
+export function describeWeekdays(weekdays: readonly Weekday[]): string {
+	if (weekdays.length === 7) return 'every day';
+	const names = weekdays.map((d) => WEEKDAY_NAMES[d - 1]);
+	return names.length === 1 ? names[0] : `${names.slice(0, -1).join(', ')} and ${names.at(-1)}`;
+}

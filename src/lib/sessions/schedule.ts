@@ -11,6 +11,7 @@ import {
 	type Schedule
 } from '$lib/clinical/adherence';
 import {
+	describeWeekdays,
 	isoWeekStart,
 	localDateOf,
 	startOfLocalDay,
@@ -154,22 +155,7 @@ export function itemDayStatus(
 	return done >= of ? { kind: 'done', done, of } : { kind: 'due', done, of };
 }
 
-const WEEKDAY_NAMES = [
-	'Monday',
-	'Tuesday',
-	'Wednesday',
-	'Thursday',
-	'Friday',
-	'Saturday',
-	'Sunday'
-];
-
-/** "every day", "Monday, Wednesday and Friday". */
-export function describeWeekdays(weekdays: readonly Weekday[]): string {
-	if (weekdays.length === 7) return 'every day';
-	const names = weekdays.map((d) => WEEKDAY_NAMES[d - 1]);
-	return names.length === 1 ? names[0] : `${names.slice(0, -1).join(', ')} and ${names.at(-1)}`;
-}
+export { describeWeekdays };
 
 /** The days a schedule asks for, in words: "every day", "Tuesday and Friday", "any 3 days a week". */
 export function describeExerciseDays(schedule: Pick<Schedule, 'weekdays' | 'daysPerWeek'>): string {

@@ -307,7 +307,10 @@ export async function publishProgramme(
 			clinicianName: clinician.name,
 			title: view.programme.title,
 			startDate: view.programme.startDate,
-			exercises: view.items.map((i) => ({ title: i.exercise.title, dosage: describeDosage(i) })),
+			exercises: view.items.map((i) => ({
+				title: i.exercise.title,
+				dosage: describeDosage(i, i.weekdays)
+			})),
 			url: new URL('/today', config().ORIGIN).toString(),
 			changed,
 			hasAccount: view.patient.userId !== null

@@ -34,7 +34,7 @@ export async function programmeSheet(view: ProgrammeView) {
 				movement: MOVEMENT_LABELS[e.movementType],
 				side: SIDE_LABELS[e.side],
 				equipment: e.equipment,
-				dosage: describeDosage(item),
+				dosage: describeDosage(item, item.weekdays),
 				progression:
 					(item.progression as Progression).kind === 'none'
 						? null

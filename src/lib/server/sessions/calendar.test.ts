@@ -89,7 +89,7 @@ describe('reminder days', () => {
 		const friday = days.find((d) => d.date === '2026-03-27')!;
 		const saturday = days.find((d) => d.date === '2026-03-28')!;
 		expect(friday.lines).toHaveLength(2);
-		expect(friday.lines[1]).toMatch(/\(Monday, Wednesday and Friday\)$/);
+		expect(friday.lines[1]).toMatch(/on Monday, Wednesday and Friday\.$/);
 		expect(friday.sessions).toBe(4);
 		expect(saturday.lines).toHaveLength(1);
 		expect(saturday.sessions).toBe(3);

@@ -19,7 +19,6 @@ import { describeDosage, dosageForWeek, sessionSeconds, type Dosage } from '$lib
 import type { Progression } from '$lib/dosage/types';
 import { sessionsOfferedOn } from '$lib/clinical/adherence';
 import {
-	describeExerciseDays,
 	instantAt,
 	itemSchedule,
 	sessionMinutes,
@@ -82,10 +81,7 @@ export function reminderDays(input: CalendarInput): ReminderDay[] {
 		days.push({
 			date,
 			sessions: Math.max(...asked.map((a) => a.sessions)),
-			lines: asked.map(
-				(a) =>
-					`- ${a.item.title}: ${describeDosage(a.dosage)}${a.schedule.weekdays ? ` (${describeExerciseDays(a.schedule)})` : ''}`
-			),
+			lines: asked.map((a) => `- ${a.item.title}: ${describeDosage(a.dosage, a.item.weekdays)}`),
 			// A session's estimate, rounded up to 5 minutes, never under 5.
 			minutesLong: Math.max(5, Math.ceil(seconds / 60 / 5) * 5)
 		});

@@ -235,7 +235,7 @@ export function todayFor(patient: Patient, now: number = Date.now()): TodayView 
 			equipment: exercise.equipment,
 			howToMove: howToMove({ ...exercise, affectedSide: patient.affectedSide }),
 			dosage,
-			dosageWords: describeDosage(dosage),
+			dosageWords: describeDosage(dosage, item.weekdays),
 			status,
 			days: describeExerciseDays(schedule),
 			rangeGuides: rangeGuideWords(patient, item, today),

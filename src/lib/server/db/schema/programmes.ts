@@ -132,10 +132,7 @@ export const programmeItems = sqliteTable(
 		/** The weekdays the clinician chose; null for any `days_per_week` days of each week. */
 		weekdays: text('weekdays', { mode: 'json' }).$type<Weekday[]>(),
 		/** Range targets and limits in degrees for this patient (lib/clinical/range-guides). */
-		rangeGuides: text('range_guides', { mode: 'json' })
-			.notNull()
-			.$type<RangeGuide[]>()
-			.default([]),
+		rangeGuides: text('range_guides', { mode: 'json' }).notNull().$type<RangeGuide[]>().default([]),
 		progression: text('progression', { mode: 'json' })
 			.notNull()
 			.$type<Progression>()

@@ -47,7 +47,7 @@ export const load: PageServerLoad = ({ params }) => {
 		howToMove: howToMove({ ...exercise, affectedSide: patient.affectedSide }),
 		programmeTitle: programme.title,
 		dosage,
-		dosageWords: describeDosage(dosage),
+		dosageWords: describeDosage(dosage, item.weekdays),
 		safetyHtml,
 		// An exercise without notes of its own has nothing to acknowledge; the standing caution stays.
 		acknowledged: !safetyHtml || hasAcknowledged(patient.id, exercise.id),
