@@ -1,5 +1,11 @@
 import { describe, expect, it } from 'vitest';
-import { formatBytes, formatDuration, titleFromFilename, uploadType } from './formats';
+import {
+	formatBytes,
+	formatDuration,
+	parseRecordingTitle,
+	titleFromFilename,
+	uploadType
+} from './formats';
 
 describe('upload types', () => {
 	it('takes the type from the extension when the browser names none', () => {
@@ -34,5 +40,23 @@ describe('recording words', () => {
 		expect(formatBytes(999)).toBe('999 bytes');
 		expect(formatBytes(400_123)).toBe('400 kB');
 		expect(formatBytes(2_500_000)).toBe('2.5 MB');
+	});
+});
+
+describe('renaming a recording', () => {
+	it('keeps a tidy title and refuses an empty, long or control-character one in words', () => {
+		expect(parseRecordingTitle('  Shoulder   set one ')).toEqual({
+			ok: true,
+			title: 'Shoulder set one'
+		});
+		expect(parseRecordingTitle('   ')).toEqual({
+			ok: false,
+			message: 'Give the recording a title.'
+		});
+		expect(parseRecordingTitle('a'.repeat(121))).toMatchObject({ ok: false });
+		expect(parseRecordingTitle('Knee\u0007 set')).toEqual({
+			ok: false,
+			message: 'A title cannot hold control characters.'
+		});
 	});
 });

@@ -32,12 +32,34 @@ export function uploadType(
 }
 
 /** A title from a file name: without its extension, underscores and dashes read as spaces. */
+/** The most characters a recording's title keeps. */
+export const MAX_RECORDING_TITLE = 120;
+
+/**
+ * A title as a clinician renames a recording: trimmed, runs of spaces as one, no control
+ * characters (it is written into page titles, e-mails and file names), 1–120 characters.
+ */
+export function parseRecordingTitle(
+	text: string
+): { ok: true; title: string } | { ok: false; message: string } {
+	const title = text.replace(/\s+/g, ' ').trim();
+	if (title === '') return { ok: false, message: 'Give the recording a title.' };
+	// eslint-disable-next-line no-control-regex
+	if (/[\u0000-\u001f\u007f-\u009f]/.test(title)) {
+		return { ok: false, message: 'A title cannot hold control characters.' };
+	}
+	if (title.length > MAX_RECORDING_TITLE) {
+		return { ok: false, message: `Keep the title to ${MAX_RECORDING_TITLE} characters.` };
+	}
+	return { ok: true, title };
+}
+
 export function titleFromFilename(filename: string): string {
 	const base = filename
 		.replace(/\.[^.]+$/, '')
 		.replace(/[_-]+/g, ' ')
 		.trim();
-	return (base || 'Untitled recording').slice(0, 120);
+	return (base || 'Untitled recording').slice(0, MAX_RECORDING_TITLE);
 }
 
 /** "1:05" or "1:02:03" from seconds. */

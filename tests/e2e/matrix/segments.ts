@@ -59,6 +59,18 @@ export const segmentsPart: MatrixPart = {
 			expect: { ...onlyPage('clinician'), clinician: 404 }
 		},
 		{
+			route: '/(clinician)/recordings/[id=id]/exercises',
+			note: "own clinic's recording: exercises from its segments",
+			path: (f) => `/recordings/${f.recordingId}/exercises`,
+			expect: onlyPage('clinician')
+		},
+		{
+			route: '/(clinician)/recordings/[id=id]/exercises',
+			note: "another clinic's recording",
+			path: (f) => `/recordings/${f.otherClinicRecordingId}/exercises`,
+			expect: { ...onlyPage('clinician'), clinician: 404 }
+		},
+		{
 			route: '/api/recordings/[id=id]/segments',
 			note: "own clinic's recording",
 			path: (f) => `/api/recordings/${f.recordingId}/segments`,

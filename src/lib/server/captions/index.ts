@@ -525,3 +525,37 @@ export function firstCaptionsTrack(clinicId: string, recordingId: string): Capti
 			.get() ?? null
 	);
 }
+
+/**
+ * Imports a caption file straight into a recording's captions track in `language`, making the
+ * track when there is none. The file is read first, so a refused file makes no empty track.
+ */
+export function importIntoCaptions(
+	recording: Recording,
+	input: { language: string; bytes: Uint8Array; filename: string; userId?: string | null }
+): ImportResult & { trackId?: string } {
+	const read = readCaptionFile(input.bytes, input.filename);
+	if (!read.ok) return read;
+	const language = canonicalLanguage(input.language);
+	if (!language) {
+		throw new CaptionError(
+			422,
+			`“${input.language}” is not a language tag. Use a BCP 47 tag such as en, en-GB or cy.`
+		);
+	}
+	const existing = db()
+		.select()
+		.from(captionTracks)
+		.where(
+			and(
+				eq(captionTracks.recordingId, recording.id),
+				eq(captionTracks.clinicId, recording.clinicId),
+				eq(captionTracks.kind, 'captions'),
+				eq(captionTracks.language, language)
+			)
+		)
+		.get();
+	const track = existing ?? createTrack(recording, { kind: 'captions', language });
+	const result = importFile(track, input.bytes, input.filename, { userId: input.userId });
+	return result.ok ? { ...result, trackId: track.id } : result;
+}

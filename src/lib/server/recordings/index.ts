@@ -171,3 +171,12 @@ export async function deleteRecording(recording: Recording): Promise<void> {
 	await deletePrefix(recordingKeys(recording.clinicId, recording.id).prefix);
 	db().delete(recordings).where(eq(recordings.id, recording.id)).run();
 }
+
+/** Renames a recording of the caller's clinic (the title is checked by `parseRecordingTitle`). */
+export function renameRecording(recording: Recording, title: string): void {
+	db()
+		.update(recordings)
+		.set({ title })
+		.where(and(eq(recordings.id, recording.id), eq(recordings.clinicId, recording.clinicId)))
+		.run();
+}

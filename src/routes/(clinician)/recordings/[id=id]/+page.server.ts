@@ -1,9 +1,16 @@
 import { fail, redirect } from '@sveltejs/kit';
-import { firstCaptionsTrack, listTracks } from '$lib/server/captions';
+import { parseRecordingTitle } from '$lib/recordings/formats';
+import {
+	CaptionError,
+	firstCaptionsTrack,
+	importIntoCaptions,
+	listTracks
+} from '$lib/server/captions';
 import { nudgeWorker } from '$lib/server/jobs';
 import {
 	cancelProcessing,
 	deleteRecording,
+	renameRecording,
 	retryProcessing,
 	statusView
 } from '$lib/server/recordings';
@@ -46,6 +53,60 @@ export const load: PageServerLoad = ({ params }) => {
 };
 
 export const actions: Actions = {
+	rename: async ({ params, request }) => {
+		const { recording } = requireOwnRecording(params.id);
+		const typed = String((await request.formData()).get('title') ?? '');
+		const parsed = parseRecordingTitle(typed);
+		if (!parsed.ok) return fail(400, { action: 'rename' as const, message: parsed.message, typed });
+		renameRecording(recording, parsed.title);
+		return { action: 'rename' as const, renamed: parsed.title };
+	},
+	/** A .vtt or .srt file straight into the captions track of its language (made when missing). */
+	importCaptions: async ({ params, request }) => {
+		const { clinician, recording } = requireOwnRecording(params.id);
+		const form = await request.formData();
+		const file = form.get('file');
+		const language = String(form.get('language') ?? '').trim() || 'en-GB';
+		if (!(file instanceof File) || file.size === 0) {
+			return fail(400, {
+				action: 'importCaptions' as const,
+				message: 'Choose a .vtt or .srt file to import.',
+				language
+			});
+		}
+		try {
+			const result = importIntoCaptions(recording, {
+				language,
+				bytes: new Uint8Array(await file.arrayBuffer()),
+				filename: file.name,
+				userId: clinician.id
+			});
+			if (!result.ok) {
+				return fail('conflict' in result ? 409 : 422, {
+					action: 'importCaptions' as const,
+					message:
+						'conflict' in result
+							? 'Someone saved the captions at the same moment; import the file again.'
+							: `${file.name} was not imported: ${result.message}`,
+					language
+				});
+			}
+			return {
+				action: 'importCaptions' as const,
+				imported: `${result.cueCount} cues imported from ${file.name} as version ${result.version}.`,
+				warnings: result.warnings.length
+			};
+		} catch (problem) {
+			if (problem instanceof CaptionError) {
+				return fail(problem.status, {
+					action: 'importCaptions' as const,
+					message: problem.message,
+					language
+				});
+			}
+			throw problem;
+		}
+	},
 	retry: ({ params }) => {
 		const { recording } = requireOwnRecording(params.id);
 		if (!retryProcessing(recording)) {
