@@ -1,6 +1,7 @@
 import { join, resolve } from 'node:path';
 import { readConfig } from '../src/lib/server/config';
 import { startMailFake, type MailFake } from './mail/server';
+import { startSpeechFake, type SpeechFake } from './speech/server';
 import { startStorageFake, type StorageFake } from './storage/server';
 
 function port(name: string, fallback: number): number {
@@ -28,6 +29,7 @@ async function main() {
 	const storagePort = port('STORAGE_FAKE_PORT', 4569);
 	const smtpPort = port('MAIL_FAKE_SMTP_PORT', 2525);
 	const apiPort = port('MAIL_FAKE_API_PORT', 2526);
+	const speechPort = port('SPEECH_FAKE_PORT', 4570);
 
 	const storage: StorageFake = await startStorageFake({
 		port: storagePort,
@@ -43,12 +45,26 @@ async function main() {
 		await storage.close();
 		throw error;
 	}
+	let speech: SpeechFake;
+	try {
+		// The app sends SPEECH_TO_TEXT_API_KEY; when it is set, the stand-in checks it.
+		speech = await startSpeechFake({
+			port: speechPort,
+			apiKey: process.env.SPEECH_TO_TEXT_API_KEY || undefined
+		});
+	} catch (error) {
+		await Promise.all([storage.close(), mail.close()]);
+		throw error;
+	}
 
 	console.log(`storage fake  ${storage.url}  bucket ${s3.S3_BUCKET}, data in ${storageDir}`);
 	console.log(
 		`mail fake     smtp 127.0.0.1:${mail.smtpPort}, inbox ${mail.apiUrl}/messages, data in ${mailDir}`
 	);
-	console.log('Ctrl-C stops both.');
+	console.log(
+		`speech fake   ${speech.url}/audio/transcriptions (placeholder words; set SPEECH_TO_TEXT_URL=${speech.url} and SPEECH_TO_TEXT_MODEL=stand-in to use it)`
+	);
+	console.log('Ctrl-C stops them all.');
 
 	let stopping = false;
 	async function stop(signal: NodeJS.Signals) {
@@ -56,7 +72,7 @@ async function main() {
 		if (stopping) process.exit(1);
 		stopping = true;
 		console.log(`${signal}: stopping the fakes`);
-		await Promise.all([storage.close(), mail.close()]);
+		await Promise.all([storage.close(), mail.close(), speech.close()]);
 		process.exit(0);
 	}
 	process.on('SIGINT', (signal) => void stop(signal));
@@ -68,7 +84,7 @@ main().catch((error: unknown) => {
 	const message = error instanceof Error ? error.message : String(error);
 	console.error(
 		code === 'EADDRINUSE'
-			? `Cannot start the fakes: ${message}. Are they already running? Set STORAGE_FAKE_PORT, MAIL_FAKE_SMTP_PORT or MAIL_FAKE_API_PORT to move them.`
+			? `Cannot start the fakes: ${message}. Are they already running? Set STORAGE_FAKE_PORT, MAIL_FAKE_SMTP_PORT, MAIL_FAKE_API_PORT or SPEECH_FAKE_PORT to move them.`
 			: `Cannot start the fakes: ${message}`
 	);
 	process.exit(1);

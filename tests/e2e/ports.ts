@@ -7,6 +7,7 @@ export const E2E = {
 	storagePort: 4669,
 	smtpPort: 2625,
 	mailApiPort: 2626,
+	speechPort: 4670,
 	dataDir: resolve(import.meta.dirname, '../.run/e2e'),
 	get databasePath() {
 		return resolve(this.dataDir, 'kinelume.db');

@@ -1,6 +1,7 @@
 /**
- * The whole product for the end-to-end tests: fresh data folder, storage and mail fakes, the
- * database migrated and seeded with the demo scenario, and the production server (`node build`).
+ * The whole product for the end-to-end tests: fresh data folder, storage, mail and speech fakes,
+ * the database migrated and seeded with the demo scenario, and the production server (`node
+ * build`). Speech to text points at the speech stand-in, so drafts carry its placeholder words.
  */
 import { spawn } from 'node:child_process';
 import { mkdirSync, rmSync } from 'node:fs';
@@ -16,12 +17,16 @@ const env = {
 	S3_ENDPOINT: `http://127.0.0.1:${E2E.storagePort}`,
 	SMTP_PORT: String(E2E.smtpPort),
 	DEV_INBOX_URL: E2E.mailApi,
+	SPEECH_TO_TEXT_URL: `http://127.0.0.1:${E2E.speechPort}/v1`,
+	SPEECH_TO_TEXT_API_KEY: 'e2e-speech-key',
+	SPEECH_TO_TEXT_MODEL: 'stand-in',
 	AUTH_SECRET: 'e2e-only-secret-that-is-long-enough-0123456789'
 };
 Object.assign(process.env, env);
 
 const { startStorageFake } = await import('../../fakes/storage/server');
 const { startMailFake } = await import('../../fakes/mail/server');
+const { startSpeechFake } = await import('../../fakes/speech/server');
 const storage = await startStorageFake({
 	port: E2E.storagePort,
 	directory: resolve(E2E.dataDir, 'storage'),
@@ -35,6 +40,7 @@ const mail = await startMailFake({
 	apiPort: E2E.mailApiPort,
 	directory: resolve(E2E.dataDir, 'mail')
 });
+const speech = await startSpeechFake({ port: E2E.speechPort, apiKey: env.SPEECH_TO_TEXT_API_KEY });
 
 const { seedDemo } = await import('../../src/lib/server/demo/seed');
 const { closeDatabase } = await import('../../src/lib/server/db');
@@ -48,11 +54,13 @@ const app = spawn(process.execPath, ['build'], {
 
 async function stop() {
 	app.kill('SIGTERM');
-	await Promise.allSettled([storage.close(), mail.close()]);
+	await Promise.allSettled([storage.close(), mail.close(), speech.close()]);
 	process.exit(0);
 }
 process.on('SIGINT', () => void stop());
 process.on('SIGTERM', () => void stop());
 app.on('exit', (code) => {
-	void Promise.allSettled([storage.close(), mail.close()]).then(() => process.exit(code ?? 1));
+	void Promise.allSettled([storage.close(), mail.close(), speech.close()]).then(() =>
+		process.exit(code ?? 1)
+	);
 });

@@ -4,6 +4,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { TestProject } from 'vitest/node';
 import { startMailFake } from '../../fakes/mail/server';
+import { startSpeechFake } from '../../fakes/speech/server';
 import { startStorageFake } from '../../fakes/storage/server';
 
 /** The environment the app modules read in tests: the fakes' real addresses and a scratch database. */
@@ -22,6 +23,9 @@ export interface TestEnv {
 	MAIL_FROM: string;
 	DEV_INBOX_URL: string;
 	DATABASE_PATH: string;
+	SPEECH_TO_TEXT_URL: string;
+	SPEECH_TO_TEXT_API_KEY: string;
+	SPEECH_TO_TEXT_MODEL: string;
 }
 
 declare module 'vitest' {
@@ -46,6 +50,9 @@ export default async function setup(project: TestProject) {
 		secretAccessKey
 	});
 	const mail = await startMailFake({ smtpPort: 0, apiPort: 0, directory: join(root, 'mail') });
+	// A key of its own, so the tests prove the app sends the configured one.
+	const speechKey = randomBytes(12).toString('hex');
+	const speech = await startSpeechFake({ port: 0, apiKey: speechKey });
 
 	const env: TestEnv = {
 		S3_ENDPOINT: storage.url,
@@ -61,7 +68,10 @@ export default async function setup(project: TestProject) {
 		SMTP_PASSWORD: '',
 		MAIL_FROM: 'Kinelume Tests <tests@kinelume.invalid>',
 		DEV_INBOX_URL: mail.apiUrl,
-		DATABASE_PATH: join(root, 'kinelume.db')
+		DATABASE_PATH: join(root, 'kinelume.db'),
+		SPEECH_TO_TEXT_URL: speech.url,
+		SPEECH_TO_TEXT_API_KEY: speechKey,
+		SPEECH_TO_TEXT_MODEL: 'stand-in'
 	};
 	// Workers inherit the environment of this process, so plain process.env reaches app modules;
 	// provide() is the documented channel and lets env.ts re-apply it if that ever changes.
@@ -70,7 +80,7 @@ export default async function setup(project: TestProject) {
 	project.provide('fakesDirectory', root);
 
 	return async () => {
-		await Promise.all([storage.close(), mail.close()]);
+		await Promise.all([storage.close(), mail.close(), speech.close()]);
 		await rm(root, { recursive: true, force: true });
 	};
 }

@@ -79,7 +79,15 @@ const schema = z.object({
 	// clinic's own clock (its time zone, set on /clinic).
 	DIGEST_WEEKDAY: z.coerce.number().int().min(1).max(7).default(1),
 	DIGEST_HOUR: z.coerce.number().int().min(0).max(23).default(7),
-	DIGEST_ENABLED: bool.default(true)
+	DIGEST_ENABLED: bool.default(true),
+	// Speech to text for the studio's timing drafts: the base URL (up to and including /v1) of a
+	// server offering the OpenAI-compatible audio transcription endpoint. Empty (the default):
+	// drafts are timed from the sound alone with blank cues, and no audio leaves Kinelume.
+	SPEECH_TO_TEXT_URL: z.union([z.url({ protocol: /^https?$/ }), z.literal('')]).default(''),
+	SPEECH_TO_TEXT_API_KEY: z.string().default(''),
+	// The server's name for its transcription model; required once SPEECH_TO_TEXT_URL is set.
+	SPEECH_TO_TEXT_MODEL: z.string().trim().default(''),
+	SPEECH_TO_TEXT_TIMEOUT_SECONDS: z.coerce.number().int().min(5).max(3600).default(600)
 });
 
 export type Config = z.infer<typeof schema>;
@@ -97,6 +105,13 @@ export function readConfig(env: Record<string, string | undefined> = process.env
 					path: ['DEV_INBOX_URL'],
 					message:
 						'must be empty when NODE_ENV is production: the development inbox shows sign-in links'
+				});
+			if (c.SPEECH_TO_TEXT_URL !== '' && c.SPEECH_TO_TEXT_MODEL === '')
+				ctx.addIssue({
+					code: 'custom',
+					path: ['SPEECH_TO_TEXT_MODEL'],
+					message:
+						'must name the speech-to-text server’s transcription model when SPEECH_TO_TEXT_URL is set'
 				});
 		})
 		.safeParse(present);
