@@ -149,6 +149,19 @@ describe('checkCues', () => {
 		expect(tagProblem('Bend</i>')).toBe('</i> closes a tag that was never opened');
 	});
 
+	it('does not flag a cue given exactly the time it needs, whatever binary fractions do', () => {
+		// 1.009 − 0.009 is 0.9999999999999999 in binary; the BBC's common-practice minimum is 1 s.
+		expect(checkCues([cue('a', 0.009, 1.009, 'Rest.')], profiles.bbc)).toEqual([]);
+		// 123 characters in 8.2 s is 15 per second, DCMP's common-practice top (not 15.000000000000002).
+		const text =
+			'Straighten the knee completely, tightening the muscles on the front of your thigh, then slowly lower the heel onto the bed.';
+		expect(text.length).toBe(123);
+		const rates = checkCues([cue('b', 0, 8.2, text)], profiles.dcmp).filter(
+			(f) => f.kind === 'reading-rate'
+		);
+		expect(rates).toEqual([]);
+	});
+
 	it('checks 2,000 cues quickly enough to run on every keystroke', () => {
 		const many = Array.from({ length: 2000 }, (_, i) =>
 			cue(`${i}`, i * 3, i * 3 + 2, 'Slide your heel up.')

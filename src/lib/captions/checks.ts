@@ -2,7 +2,7 @@
  * Guideline checks run on every edit in the studio. Each profile number carries its source so the
  * studio can show why a cue is flagged; numbers with no published source say "common practice".
  */
-import { formatTimestamp } from './timestamp';
+import { formatTimestamp, toMillis } from './timestamp';
 import { countPlainWords, plainText } from './text';
 import type { Cue } from './types';
 
@@ -173,7 +173,8 @@ export function checkCues(cues: readonly Cue[], profile: GuidelineProfile): Find
 		) => findings.push({ cueId: cue.id, index, kind, severity, message, ...(fix ? { fix } : {}) });
 		const previous = index > 0 ? cues[index - 1] : null;
 		const next = index + 1 < cues.length ? cues[index + 1] : null;
-		const duration = cue.end - cue.start;
+		// Times are whole milliseconds; rounding the difference keeps 1.009 − 0.009 at 1 s, not just under.
+		const duration = toMillis(cue.end - cue.start);
 
 		if (cue.end <= cue.start) {
 			add(
@@ -199,7 +200,7 @@ export function checkCues(cues: readonly Cue[], profile: GuidelineProfile): Find
 			);
 		}
 		if (next && cue.end > cue.start) {
-			const gap = next.start - cue.end;
+			const gap = toMillis(next.start - cue.end);
 			if (gap > 0 && gap < profile.minGapSeconds.value) {
 				add(
 					'gap-too-short',
@@ -221,7 +222,7 @@ export function checkCues(cues: readonly Cue[], profile: GuidelineProfile): Find
 		if (tags) add('unbalanced-tags', 'error', `Tags do not match: ${tags}.`);
 		if (duration <= 0) continue;
 
-		const roomAfter = next ? next.start - cue.end : Infinity;
+		const roomAfter = next ? toMillis(next.start - cue.end) : Infinity;
 		const canExtend = roomAfter > 0;
 		const hard = profile.minSecondsHard;
 		if (duration < profile.minSeconds.value) {
@@ -242,8 +243,10 @@ export function checkCues(cues: readonly Cue[], profile: GuidelineProfile): Find
 		}
 
 		const words = countPlainWords(plain);
-		const wpm = wordsPerMinute(words, duration);
-		const cps = plain.replace(/\n/g, ' ').length / duration;
+		// Rounded far below anything shown, so a cue given exactly the time it needs (123 characters
+		// for 8.2 s is 15 per second) is not flagged for binary fractions (15.000000000000002).
+		const wpm = Math.round(wordsPerMinute(words, duration) * 1e6) / 1e6;
+		const cps = Math.round((plain.replace(/\n/g, ' ').length / duration) * 1e6) / 1e6;
 		const rateFix: FixKind = canExtend ? 'extend-into-gap' : 'split-cue';
 		if (wpm > profile.targetWordsPerMinute.value) {
 			const hardLimit = wpm > profile.maxWordsPerMinute.value;
