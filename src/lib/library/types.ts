@@ -91,6 +91,13 @@ export const SUBMISSION_STATUS: Record<
 	superseded: { label: 'Replaced by a newer submission', tone: 'neutral' }
 };
 
+/**
+ * What a submission asks for: a whole exercise (a first version, or a new version with any
+ * change), or only new captions for the version on show, everything else kept as published.
+ */
+export const SUBMISSION_KINDS = ['exercise', 'captions'] as const;
+export type SubmissionKind = (typeof SUBMISSION_KINDS)[number];
+
 export const DECISIONS = ['approved', 'changes-requested', 'rejected'] as const;
 export type Decision = (typeof DECISIONS)[number];
 

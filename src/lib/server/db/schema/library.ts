@@ -13,6 +13,7 @@ import {
 	DECISIONS,
 	ENTRY_STATUSES,
 	LICENCES,
+	SUBMISSION_KINDS,
 	SUBMISSION_STATUSES,
 	type ExerciseSnapshot
 } from '../../../library/types';
@@ -53,8 +54,13 @@ export const libraryExercises = sqliteTable(
 
 /**
  * What a clinician sent for review: the exercise frozen as it was (`snapshot`), with consent
- * and licence. A database trigger (drizzle/*_library_search.sql) refuses any change to the
- * snapshot, consent or licence once written; only the status moves on.
+ * and licence. Database triggers (drizzle/0005_library_search.sql and
+ * 0012_library_caption_revision_guard.sql) refuse any change to the kind, snapshot, consent or
+ * licence once written; only the status moves on, and links may only be cleared.
+ *
+ * A caption revision (`kind` 'captions') revises one published version (`revisesVersionId`):
+ * its snapshot is that version's with the segment's captions as they are now, so approving it
+ * publishes the same clip and words with new captions.
  */
 export const librarySubmissions = sqliteTable(
 	'library_submission',
@@ -69,6 +75,13 @@ export const librarySubmissions = sqliteTable(
 		libraryExerciseId: text('library_exercise_id').references(() => libraryExercises.id, {
 			onDelete: 'set null'
 		}),
+		kind: text('kind', { enum: SUBMISSION_KINDS }).notNull().default('exercise'),
+		/**
+		 * For a caption revision: the published version whose captions it replaces. Not a foreign
+		 * key: drizzle-kit adds a referencing column to an existing table without its delete
+		 * rule, and a version is never deleted on its own — only with its public exercise.
+		 */
+		revisesVersionId: text('revises_version_id'),
 		snapshot: text('snapshot', { mode: 'json' }).notNull().$type<ExerciseSnapshot>(),
 		/** That everyone filmed agreed to publication. */
 		consentConfirmed: integer('consent_confirmed', { mode: 'boolean' }).notNull(),
