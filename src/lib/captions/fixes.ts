@@ -2,6 +2,10 @@
  * The studio's one-click fixes for guideline findings. Each returns a new array (the editor keeps
  * the old one for undo) and leaves the cues untouched when the fix does not apply.
  */
+import { checkCues, type Finding, type FindingKind, type GuidelineProfile } from './checks';
+// edit.ts builds each single fix on this file's primitives, and the fixes of a whole kind build
+// on those single fixes: the two files call each other's functions, never at load time.
+import { applyFix, secondsNeeded, type EditOptions } from './edit';
 import { toMillis } from './timestamp';
 import { plainText } from './text';
 import type { Cue } from './types';
@@ -167,8 +171,116 @@ export function closeGap(cues: readonly Cue[], id: string, maxGap: number): Cue[
 }
 
 interface SplitPoint {
+	/** Where the space starts in the cue text. */
 	at: number;
+	/** Visible characters before and after it. */
+	before: number;
+	after: number;
+	/** How badly the words read broken here: 0 after a sentence, 0.5 inside a phrase. */
 	cost: number;
+}
+
+function splitPoints(text: string): SplitPoint[] {
+	const points: SplitPoint[] = [];
+	for (const m of text.matchAll(/\s+/g)) {
+		const at = m.index;
+		if (insideTag(text, at)) continue;
+		const left = plainText(text.slice(0, at)).trim();
+		const right = plainText(text.slice(at)).trim();
+		if (left === '' || right === '') continue;
+		const cost = /[.!?]["'’”)]*$/.test(left)
+			? 0
+			: /[,;:–—]$/.test(left)
+				? 0.15
+				: STARTS_PHRASE.has(right.split(/\s/)[0].toLowerCase())
+					? 0.3
+					: 0.5;
+		points.push({ at, before: left.length, after: right.length, cost });
+	}
+	return points;
+}
+
+/**
+ * Where to split `text` into `parts` parts of at most `maxChars` visible characters each: the
+ * sentence and phrase boundaries that keep the parts nearest the same length. Null when no
+ * choice of boundaries gives parts that short.
+ */
+function bestSplit(text: string, parts: number, maxChars: number): number[] | null {
+	const points = splitPoints(text);
+	const cuts = parts - 1;
+	if (cuts < 1 || points.length < cuts) return null;
+	const total = Math.max(1, plainText(text).replace(/\s+/g, ' ').trim().length);
+	const mean = (total - cuts) / parts;
+	const off = (length: number) => (length > maxChars ? Infinity : Math.abs(length - mean) / total);
+	// cost[j][c]: the cheapest way to make j + 1 cuts, the last at point c.
+	const cost = Array.from({ length: cuts }, () => new Array<number>(points.length).fill(Infinity));
+	const from = Array.from({ length: cuts }, () => new Array<number>(points.length).fill(-1));
+	points.forEach((p, c) => (cost[0][c] = p.cost + off(p.before)));
+	for (let j = 1; j < cuts; j++) {
+		for (let c = j; c < points.length; c++) {
+			for (let b = j - 1; b < c; b++) {
+				const value =
+					cost[j - 1][b] + points[c].cost + off(points[c].before - points[b].before - 1);
+				if (value < cost[j][c]) {
+					cost[j][c] = value;
+					from[j][c] = b;
+				}
+			}
+		}
+	}
+	let last = -1;
+	let best = Infinity;
+	points.forEach((p, c) => {
+		const value = cost[cuts - 1][c] + off(p.after);
+		if (value < best) {
+			best = value;
+			last = c;
+		}
+	});
+	if (last < 0) return null;
+	const ats: number[] = [];
+	for (let j = cuts - 1, c = last; j >= 0; c = from[j][c], j--) ats.unshift(points[c].at);
+	return ats;
+}
+
+/** Cue `index` cut at the text positions `ats`, times shared by visible characters. */
+function cutAt(cues: readonly Cue[], index: number, ats: number[]): Cue[] {
+	const cue = cues[index];
+	const text = cue.text;
+	const texts: string[] = [];
+	let from = 0;
+	let reopen = '';
+	for (const at of [...ats, text.length]) {
+		// Tags open at a cut are closed before it and opened again after it.
+		const open = at < text.length ? openTagsAt(text, at) : [];
+		const closing = [...open]
+			.reverse()
+			.map((tag) => `</${tagName(tag)}>`)
+			.join('');
+		texts.push(reopen + text.slice(from, at).replace(/\s+/g, ' ').trim() + closing);
+		reopen = open.join('');
+		from = at;
+	}
+	const chars = texts.map((t) => plainText(t).length);
+	const sum = chars.reduce((a, b) => a + b, 0);
+	const ids = new Set(cues.map((c) => c.id));
+	let k = 2;
+	let seen = 0;
+	let start = cue.start;
+	const parts = texts.map((partText, p) => {
+		seen += chars[p];
+		const end =
+			p === texts.length - 1 ? cue.end : toMillis(cue.start + ((cue.end - cue.start) * seen) / sum);
+		let id = cue.id;
+		if (p > 0 && cue.id !== '') {
+			while (ids.has(`${cue.id}.${k}`)) k++;
+			id = `${cue.id}.${k++}`;
+		}
+		const part = { ...cue, id, start, end, text: partText };
+		start = end;
+		return part;
+	});
+	return replace(cues, index, ...parts);
 }
 
 /**
@@ -178,52 +290,8 @@ interface SplitPoint {
 export function splitCue(cues: readonly Cue[], id: string): Cue[] {
 	const index = cues.findIndex((c) => c.id === id);
 	if (index < 0) return [...cues];
-	const cue = cues[index];
-	const text = cue.text;
-	const total = plainText(text).replace(/\s+/g, ' ').trim().length;
-	let bestPoint: SplitPoint | null = null;
-	for (const m of text.matchAll(/\s+/g)) {
-		const at = m.index;
-		if (insideTag(text, at)) continue;
-		const left = plainText(text.slice(0, at)).trim();
-		const right = plainText(text.slice(at)).trim();
-		if (left === '' || right === '') continue;
-		const kind = /[.!?]["'’”)]*$/.test(left)
-			? 0
-			: /[,;:–—]$/.test(left)
-				? 0.15
-				: STARTS_PHRASE.has(right.split(/\s/)[0].toLowerCase())
-					? 0.3
-					: 0.5;
-		const balance = Math.abs(left.length - right.length) / Math.max(1, total);
-		const cost = balance + kind;
-		if (!bestPoint || cost < bestPoint.cost) bestPoint = { at, cost };
-	}
-	if (!bestPoint) return [...cues];
-
-	const open = openTagsAt(text, bestPoint.at);
-	const closing = [...open]
-		.reverse()
-		.map((tag) => `</${tagName(tag)}>`)
-		.join('');
-	const leftText = text.slice(0, bestPoint.at).replace(/\s+/g, ' ').trim() + closing;
-	const rightText = open.join('') + text.slice(bestPoint.at).replace(/\s+/g, ' ').trim();
-	const leftChars = plainText(leftText).length;
-	const rightChars = plainText(rightText).length;
-	const cut = toMillis(cue.start + ((cue.end - cue.start) * leftChars) / (leftChars + rightChars));
-	const ids = new Set(cues.map((c) => c.id));
-	let secondId = '';
-	if (cue.id !== '') {
-		let k = 2;
-		while (ids.has(`${cue.id}.${k}`)) k++;
-		secondId = `${cue.id}.${k}`;
-	}
-	return replace(
-		cues,
-		index,
-		{ ...cue, end: cut, text: leftText },
-		{ ...cue, id: secondId, start: cut, text: rightText }
-	);
+	const ats = bestSplit(cues[index].text, 2, Infinity);
+	return ats ? cutAt(cues, index, ats) : [...cues];
 }
 
 function insideTag(text: string, at: number): boolean {
@@ -272,4 +340,269 @@ export function splitTextNear(text: string, fraction: number): [string, string] 
 		text.slice(0, best.at).trimEnd() + closing,
 		open.join('') + text.slice(best.at).trimStart()
 	];
+}
+
+/** The kinds of finding whose fix is mechanical enough to run on every cue at once. */
+export const FIX_ALL_KINDS = [
+	'reading-rate',
+	'too-short',
+	'too-long',
+	'line-too-long',
+	'too-many-lines',
+	'gap-too-short'
+] as const satisfies readonly FindingKind[];
+export type FixAllKind = (typeof FIX_ALL_KINDS)[number];
+
+export function canFixAll(kind: FindingKind): kind is FixAllKind {
+	return (FIX_ALL_KINDS as readonly FindingKind[]).includes(kind);
+}
+
+export interface Unfixed {
+	/** The cue's position in the fixed cues. */
+	index: number;
+	why: string;
+}
+
+export interface FixAllResult {
+	cues: Cue[];
+	/** Findings of the kind that the fixes removed. */
+	fixed: number;
+	/** Findings of the kind the checks still make on the fixed cues, each with why it stayed. */
+	unfixed: Unfixed[];
+}
+
+/** A fix tried on one cue: the cues with it in place of the cue and `added` parts after it. */
+type Attempt = { cues: Cue[]; added: number; action: Action } | { why: string };
+type Action = 'lengthen' | 'split' | 'reflow' | 'close';
+
+const plainWords = (cues: readonly Cue[]) =>
+	cues
+		.map((c) => plainText(c.text))
+		.join(' ')
+		.split(/\s+/)
+		.filter(Boolean)
+		.join(' ');
+const secs = (s: number) => `${Math.round(s * 100) / 100} s`;
+const visibleLength = (cue: Cue) => plainText(cue.text).replace(/\s+/g, ' ').trim().length;
+
+/** Why a fix was refused when the checks find on its result a kind the cue did not have. */
+const DOING: Record<Action, string> = {
+	lengthen: 'Showing it long enough to read',
+	split: 'Splitting it',
+	reflow: 'Re-flowing its lines',
+	close: 'Closing the gap'
+};
+const WOULD_LEAVE: Partial<Record<FindingKind, string>> = {
+	'too-short': 'a cue on screen too briefly to read',
+	'too-long': 'a cue on screen too long',
+	'reading-rate': 'a cue that is read too fast',
+	'gap-too-short': 'too short a gap before the next cue',
+	'line-too-long': 'a line that is too long',
+	'too-many-lines': 'a cue with too many lines'
+};
+const BY_HAND = 'The fix would break another guideline here; change it by hand.';
+const WORD_TOO_LONG =
+	'It has a word longer than a line, which no layout can fit; change it by hand.';
+
+/** Shows cue `index` long enough to be read, in the free time after it, or says why it cannot. */
+function lengthen(
+	cues: Cue[],
+	index: number,
+	profile: GuidelineProfile,
+	options: EditOptions
+): Attempt {
+	const cue = cues[index];
+	const next = cues[index + 1];
+	const needed = secondsNeeded(cue, profile);
+	const nextStart = next ? next.start : Infinity;
+	const limit = Math.min(nextStart, options.duration);
+	if (limit <= cue.end) {
+		return {
+			why:
+				nextStart <= options.duration
+					? 'The next cue starts as it ends, so there is no free time to show it longer.'
+					: 'It ends with the recording, so there is no free time to show it longer.'
+		};
+	}
+	if (cue.start + needed > limit) {
+		const where = nextStart <= options.duration ? 'the next cue' : 'the recording ends';
+		return {
+			why: `It needs ${secs(needed)} on screen; there is room for ${secs(limit - cue.start)} before ${where}.`
+		};
+	}
+	const edit = applyFix(cues, index, 'extend-into-gap', profile, options);
+	return edit.changed ? { cues: edit.cues, added: 0, action: 'lengthen' } : { why: BY_HAND };
+}
+
+function linesFit(cue: Cue, profile: GuidelineProfile): boolean {
+	const lines = plainText(cue.text).split('\n');
+	return (
+		lines.length <= profile.maxLines.value &&
+		lines.every((line) => line.length <= profile.maxCharsPerLine.value)
+	);
+}
+
+/** The cue's lines re-flowed when they break the profile's limits (a split joins a cue's lines). */
+function withLinesThatFit(cue: Cue, profile: GuidelineProfile): Cue {
+	if (linesFit(cue, profile) || hasWordLongerThanALine(cue, profile)) return cue;
+	return { ...cue, text: reflowLines(cue.text, profile.maxCharsPerLine.value) };
+}
+
+/** reflowLines cuts such a word; the fixes of a whole kind leave it whole instead. */
+function hasWordLongerThanALine(cue: Cue, profile: GuidelineProfile): boolean {
+	return plainText(cue.text)
+		.split(/\s+/)
+		.some((word) => word.length > profile.maxCharsPerLine.value);
+}
+
+/**
+ * Splits cue `index` into the fewest parts, cut at sentence and phrase boundaries, that each
+ * have at most `maxChars` visible characters and pass `fits` once their lines are re-flowed.
+ */
+function splitInParts(
+	cues: Cue[],
+	index: number,
+	maxChars: number,
+	fits: (part: Cue) => boolean,
+	profile: GuidelineProfile
+): Attempt {
+	const text = cues[index].text;
+	const points = splitPoints(text).length;
+	if (points === 0) return { why: 'It has no space between words to split it at.' };
+	for (let parts = 2; parts <= Math.min(points + 1, 12); parts++) {
+		const ats = bestSplit(text, parts, maxChars);
+		if (!ats) continue;
+		const out = cutAt(cues, index, ats).map((c, k) =>
+			k >= index && k < index + parts ? withLinesThatFit(c, profile) : c
+		);
+		if (out.slice(index, index + parts).every(fits))
+			return { cues: out, added: parts - 1, action: 'split' };
+	}
+	return {
+		why: 'No split at its sentence or phrase boundaries gives parts that meet the guidelines.'
+	};
+}
+
+function attempt(
+	cues: Cue[],
+	finding: Finding,
+	profile: GuidelineProfile,
+	options: EditOptions
+): Attempt {
+	const index = finding.index;
+	const cue = cues[index];
+	const room = profile.maxCharsPerLine.value * profile.maxLines.value;
+	switch (finding.kind) {
+		case 'gap-too-short': {
+			const edit = applyFix(cues, index, 'close-gap', profile, options);
+			return edit.changed ? { cues: edit.cues, added: 0, action: 'close' } : { why: BY_HAND };
+		}
+		case 'too-short':
+		case 'reading-rate':
+			return lengthen(cues, index, profile, options);
+		case 'too-long': {
+			// Parts share the time by visible characters, so a part's share of them is its share of the time.
+			const duration = cue.end - cue.start;
+			const maxChars = Math.floor((visibleLength(cue) * profile.maxSeconds.value) / duration);
+			return splitInParts(
+				cues,
+				index,
+				maxChars,
+				(c) => c.end - c.start <= profile.maxSeconds.value,
+				profile
+			);
+		}
+		case 'line-too-long':
+		case 'too-many-lines': {
+			if (hasWordLongerThanALine(cue, profile)) return { why: WORD_TOO_LONG };
+			const reflowed = withLinesThatFit(cue, profile);
+			if (linesFit(reflowed, profile)) {
+				return { cues: replace(cues, index, reflowed), added: 0, action: 'reflow' };
+			}
+			// Too many words for the lines, however they are laid out: the cue becomes two or more.
+			return splitInParts(cues, index, room, (c) => linesFit(c, profile), profile);
+		}
+		default:
+			return { why: 'This kind is fixed by hand.' };
+	}
+}
+
+/** The findings of cues `from` to `to` (exclusive), checked beside the cue before and the one after. */
+function findingsAround(
+	cues: readonly Cue[],
+	from: number,
+	to: number,
+	profile: GuidelineProfile
+): Finding[] {
+	const low = Math.max(0, from - 1);
+	return checkCues(cues.slice(low, to + 1), profile).filter(
+		(f) => f.index >= from - low && f.index < to - low
+	);
+}
+
+/** Why a fix tried on cue `index` may not stay, or null when it removes the finding and adds none. */
+function refusal(
+	before: readonly Cue[],
+	index: number,
+	tried: { cues: Cue[]; added: number; action: Action },
+	kind: FindingKind,
+	profile: GuidelineProfile
+): string | null {
+	const parts = tried.cues.slice(index, index + 1 + tried.added);
+	if (plainWords(parts) !== plainWords([before[index]])) return BY_HAND;
+	const had = new Set(findingsAround(before, index, index + 1, profile).map((f) => f.kind));
+	const now = findingsAround(tried.cues, index, index + 1 + tried.added, profile);
+	if (now.some((f) => f.kind === kind))
+		return `${DOING[tried.action]} would not be enough; change it by hand.`;
+	const broke = now.find((f) => !had.has(f.kind));
+	if (!broke) return null;
+	const leave = WOULD_LEAVE[broke.kind];
+	return leave ? `${DOING[tried.action]} would leave ${leave}.` : BY_HAND;
+}
+
+/**
+ * Fixes every finding of `kind` at once, the way each finding's own Fix would, but only where
+ * the result removes the finding and breaks no other guideline: lines re-flowed (or a cue too
+ * long for its lines split and re-flowed), short gaps closed, cues shown longer in the free time
+ * after them, over-long cues split at phrase boundaries. Words are never lost, no cue runs past
+ * the next cue's start or the end of the recording, and the checks run again on the result.
+ */
+export function fixAllOfKind(
+	cues: readonly Cue[],
+	kind: FindingKind,
+	profile: GuidelineProfile,
+	options: EditOptions
+): FixAllResult {
+	const targets = checkCues(cues, profile).filter((f) => f.kind === kind);
+	const refused = (why: string): FixAllResult => ({
+		cues: [...cues],
+		fixed: 0,
+		unfixed: targets.map((f) => ({ index: f.index, why }))
+	});
+	if (!canFixAll(kind)) return refused('This kind is fixed by hand.');
+	// Every fix finds the next cue by position; in a track out of order that is the wrong one.
+	if (cues.some((c, k) => k > 0 && c.start < cues[k - 1].start)) {
+		return refused('The cues are out of order; put them in order first.');
+	}
+
+	let out = [...cues];
+	let fixed = 0;
+	// Reasons are kept by the refused cue itself, which no later fix replaces or moves.
+	const reasons = new Map<Cue, string>();
+	// From the last cue to the first: a split adds its parts after the cue it splits, so the
+	// positions of the cues still to fix stay where the checks found them.
+	for (const finding of [...targets].sort((a, b) => b.index - a.index)) {
+		const tried = attempt(out, finding, profile, options);
+		const why = 'why' in tried ? tried.why : refusal(out, finding.index, tried, kind, profile);
+		if (why !== null || 'why' in tried) {
+			reasons.set(out[finding.index], why ?? BY_HAND);
+			continue;
+		}
+		out = tried.cues;
+		fixed++;
+	}
+	const unfixed = checkCues(out, profile)
+		.filter((f) => f.kind === kind)
+		.map((f) => ({ index: f.index, why: reasons.get(out[f.index]) ?? BY_HAND }));
+	return { cues: out, fixed, unfixed };
 }
