@@ -297,3 +297,26 @@ export function draftCues(input: SpeechDraftInput, limits: DraftLimits): SpeechD
 		evenCuts
 	};
 }
+
+/** Where a draft's words came from: a speech-to-text service, its stand-in, or nowhere. */
+export type DraftWords = 'recognised' | 'placeholder' | 'none';
+
+/** A draft as the studio receives it (`GET /api/tracks/[id]/speech-draft`); never a saved version. */
+export interface SpeechDraft {
+	state: 'ready';
+	cues: Cue[];
+	words: DraftWords;
+	/** `stored`: from the silences kept for segment suggestions; `measured`: detected for this draft. */
+	timing: 'stored' | 'measured';
+	/** The guideline the cue lengths follow, by its label. */
+	guideline: string;
+	/** Sentences for the clinician: where the times and words came from, and what to check. */
+	notes: string[];
+}
+
+/** The answer while the sound is still being read: ask again. */
+export interface SpeechDraftWorking {
+	state: 'working';
+}
+
+export type SpeechDraftAnswer = SpeechDraft | SpeechDraftWorking;
