@@ -125,6 +125,13 @@ test('a clinician builds the early shoulder programme; the patient sees how to m
 	await shot(page, 'builder');
 	await page.getByRole('button', { name: /^Publish and e-mail/ }).click();
 	await expect(page.getByText(`Published and e-mailed to ${name}.`)).toBeVisible();
+	// The printed sheet carries the limit and the sling period too.
+	await page.getByRole('link', { name: 'Printable sheet' }).click();
+	await expect(page.getByText(/no further than 20° up to and including/)).toBeVisible();
+	await expect(
+		page.getByText(/wear your sling between sessions up\s+to and including/)
+	).toBeVisible();
+	await page.goBack();
 
 	// The patient: how to move, the sling line and the limit, on Today and in the replay.
 	const phone = await browser.newContext({ viewport: { width: 390, height: 844 } });
@@ -132,16 +139,16 @@ test('a clinician builds the early shoulder programme; the patient sees how to m
 	await signInWithPassword(patientPage, patient.email);
 	await patientPage.goto('/today');
 	await expect(patientPage.getByTestId('sling')).toContainText(
-		'wear your sling between sessions until'
+		'wear your sling between sessions up to and including'
 	);
 	const towelCard = patientPage.locator('li').filter({ hasText: towelTurn });
 	await expect(towelCard.getByTestId('how-to-move')).toContainText('Your other arm does the work');
 	await expect(towelCard.getByTestId('range-guides')).toContainText(
-		'Turning the forearm out away from the body: no further than 20° until'
+		'Turning the forearm out away from the body: no further than 20° up to and including'
 	);
 	await expect(
 		patientPage.locator('li').filter({ hasText: lyingRaise }).getByTestId('range-guides')
-	).toContainText('Raising the arm forward and up: to about 90°.');
+	).toContainText('Raising the arm forward and up: to about 90°');
 	await expect(patientPage.getByText('Monday, Wednesday and Friday')).toHaveCount(0);
 	await expectNoAxeViolations(patientPage);
 	await shot(patientPage, 'today-phone');

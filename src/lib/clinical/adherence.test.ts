@@ -172,12 +172,10 @@ describe('adherence over the last 7 and 28 days', () => {
 		expect(before.ratio).toBeNull();
 		expect(before.percent).toBeNull();
 		expect(before.extra).toBe(1);
-		expect(describeAdherence(before)).toBe(
-			'No sessions prescribed in these 7 days; 1 logged anyway'
-		);
+		expect(describeAdherence(before)).toBe('No sessions were due in these 7 days; 1 logged anyway');
 		const paused: Schedule = { ...daily, pauses: [{ from: '2026-05-04', to: '2026-05-31' }] };
 		expect(describeAdherence(adherence(paused, [], '2026-05-17', 7))).toBe(
-			'No sessions prescribed in these 7 days'
+			'No sessions were due in these 7 days'
 		);
 	});
 
@@ -337,5 +335,18 @@ describe('adherence to date', () => {
 		const w = adherenceToDate([item(1, repeat('2026-05-17', 3))], '2026-05-17', 1);
 		expect(w).toMatchObject({ prescribed: 1, counted: 1, extra: 2 });
 		expect(() => adherenceToDate([], '2026-05-17', 0)).toThrow('at least 1');
+	});
+});
+
+describe('a week rounded down to no days (review case)', () => {
+	it('counts a day done in it instead of calling it extra', () => {
+		// Starts Sunday 10 May 2026, any 3 days a week: one open day, asked none, done anyway.
+		const s: Schedule = { ...daily, startDate: '2026-05-10', sessionsPerDay: 1, daysPerWeek: 3 };
+		expect(adherence(s, ['2026-05-10'], '2026-05-10', 1)).toMatchObject({
+			prescribed: 1,
+			counted: 1,
+			extra: 0
+		});
+		expect(adherence(s, [], '2026-05-10', 1).ratio).toBeNull();
 	});
 });

@@ -110,6 +110,20 @@ export function daysAskedInWeek(schedule: Schedule, weekStart: LocalDate): numbe
 }
 
 /**
+ * Exercise days a week asks for once the days with sessions are known (`doneDays`, open days of
+ * that week): `daysAskedInWeek`, except that a short week rounded down to none still counts a day
+ * the patient exercised on — offered, done, and so counted rather than left as extra.
+ */
+export function daysAskedGivenDone(
+	schedule: Schedule,
+	weekStart: LocalDate,
+	doneDays: ReadonlySet<LocalDate>
+): number {
+	const asked = daysAskedInWeek(schedule, weekStart);
+	return asked === 0 && doneDays.size > 0 ? 1 : asked;
+}
+
+/**
  * Sessions asked for on one date by a schedule with chosen weekdays: 0 outside the programme, on
  * other weekdays and on paused days. An "any N days a week" schedule asks for no particular day,
  * so it answers null.
@@ -203,10 +217,14 @@ function tallyFlexibleWeekPart(
 	inProgress: LocalDate | null
 ): Tally {
 	const spd = schedule.sessionsPerDay;
-	const asked = daysAskedInWeek(schedule, weekStart);
 	const week = datesFrom(weekStart, addDays(weekStart, 6));
 	const open = (d: LocalDate) => isProgrammeDay(schedule, d);
 	const logged = (d: LocalDate) => perDay.get(d) ?? 0;
+	const asked = daysAskedGivenDone(
+		schedule,
+		weekStart,
+		new Set(week.filter((d) => open(d) && logged(d) > 0))
+	);
 
 	const doneBefore = week.filter((d) => d < from && open(d) && logged(d) > 0).length;
 	const stillAsked = Math.max(0, asked - doneBefore);
@@ -336,11 +354,11 @@ export function combinedAdherence(
 	return combined(items, endingOn, days, null);
 }
 
-/** E.g. "18 of 21 sessions (86%), 2 extra" or "No sessions prescribed in these 7 days". */
+/** E.g. "18 of 21 sessions (86%), 2 extra" or "No sessions were due in these 7 days". */
 export function describeAdherence(window: AdherenceWindow): string {
 	const days = daysBetween(window.from, window.to) + 1;
 	if (window.percent === null) {
-		const base = `No sessions prescribed in these ${days} days`;
+		const base = `No sessions were due in these ${days} days`;
 		return window.extra > 0 ? `${base}; ${window.extra} logged anyway` : base;
 	}
 	const noun = window.prescribed === 1 ? 'session' : 'sessions';

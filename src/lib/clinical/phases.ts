@@ -63,7 +63,7 @@ export const PROTOCOLS: Record<ProtocolId, ProtocolTable> = {
 			'ASSET consensus statement on rehabilitation after arthroscopic rotator cuff repair (Thigpen et al., J Shoulder Elbow Surg 2016;25:521–35): about 2 weeks of strict immobilisation, protected passive motion from about week 2 to 6, then restoring active motion, strengthening from about week 12.',
 		confidence: 'published',
 		appliesTo:
-			'Small and medium tears repaired arthroscopically. Large, massive or revision repairs usually move more slowly: follow the surgeon’s timing.',
+			'Small and medium tears repaired arthroscopically. Large, massive or revision repairs usually move more slowly, and the surgeon’s timing decides.',
 		phases: [
 			{
 				phase: 'protection',

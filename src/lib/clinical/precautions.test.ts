@@ -8,7 +8,8 @@ import {
 	resolveTag,
 	describePrecaution,
 	precautionDetailSchema,
-	precautionsOn
+	precautionsOn,
+	rangeClashes
 } from './precautions';
 
 describe('precaution conflicts', () => {
@@ -193,5 +194,33 @@ describe('precautions with an end and degrees', () => {
 			untilWeek: null,
 			untilDate: null
 		});
+	});
+});
+
+describe('range targets and limits against a precaution’s degrees', () => {
+	it('flags a target past the precaution’s degrees, the clinician’s own degrees first', () => {
+		const details = {
+			'shoulder-external-rotation-limit': { degrees: 20, untilWeek: null, untilDate: null }
+		};
+		expect(
+			rangeClashes(['shoulder-external-rotation-limit'], details, [
+				{ motion: 'shoulder-external-rotation', kind: 'target', degrees: 45 }
+			])
+		).toEqual([
+			'The target of 45° goes past the precaution “Shoulder: limit outward rotation” (20°).'
+		]);
+		// The 90° in a precaution's own words applies when no degrees were given.
+		expect(
+			rangeClashes(['shoulder-elevation-limit-90'], {}, [
+				{ motion: 'shoulder-flexion', kind: 'limit', degrees: 120 },
+				{ motion: 'shoulder-flexion', kind: 'target', degrees: 90 }
+			])
+		).toHaveLength(1);
+		// No degrees anywhere: nothing to compare.
+		expect(
+			rangeClashes(['shoulder-external-rotation-limit'], {}, [
+				{ motion: 'shoulder-external-rotation', kind: 'target', degrees: 45 }
+			])
+		).toEqual([]);
 	});
 });

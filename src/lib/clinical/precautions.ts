@@ -9,6 +9,7 @@
 import { z } from 'zod';
 import { MOVEMENT_LABELS, type MovementType } from '../exercises/vocabulary';
 import type { LocalDate } from './calendar';
+import type { MotionId } from './rom';
 import { holdsOn, lastDay, untilSchema } from './until';
 
 /** What an exercise asks of the body, as tags on the exercise. */
@@ -287,4 +288,46 @@ export function describePrecaution(
 				? `, until week ${detail.untilWeek} after the operation`
 				: '';
 	return `${resolvePrecaution(precaution).label}${degrees}${end}`;
+}
+
+/**
+ * Precautions that limit a motion's range, with the degrees their words carry (the 90° ones) —
+ * a clinician's own degrees on the precaution win.
+ */
+export const PRECAUTION_RANGES: Partial<
+	Record<PrecautionId, { motions: readonly MotionId[]; degrees: number | null }>
+> = {
+	'shoulder-elevation-limit-90': {
+		motions: ['shoulder-flexion', 'shoulder-abduction'],
+		degrees: 90
+	},
+	'shoulder-external-rotation-limit': { motions: ['shoulder-external-rotation'], degrees: null },
+	'knee-flexion-limit-90': { motions: ['knee-flexion'], degrees: 90 }
+};
+
+/**
+ * A range target or limit set beyond what a holding precaution allows for the same motion, as a
+ * sentence for the clinician (e.g. a target of 45° of outward rotation against a 20° limit).
+ */
+export function rangeClashes(
+	precautions: readonly string[],
+	details: Readonly<Record<string, PrecautionDetail>>,
+	guides: readonly { motion: MotionId; kind: 'target' | 'limit'; degrees: number }[]
+): string[] {
+	const clashes: string[] = [];
+	for (const raw of precautions) {
+		const precaution = resolvePrecaution(raw);
+		if (precaution.kind !== 'known') continue;
+		const range = PRECAUTION_RANGES[precaution.id];
+		const degrees = detailOf(details, raw).degrees ?? range?.degrees ?? null;
+		if (!range || degrees === null) continue;
+		for (const guide of guides) {
+			if (range.motions.includes(guide.motion) && guide.degrees > degrees) {
+				clashes.push(
+					`The ${guide.kind} of ${guide.degrees}° goes past the precaution “${precaution.label}” (${degrees}°).`
+				);
+			}
+		}
+	}
+	return clashes;
 }

@@ -34,13 +34,16 @@ describe('range targets and limits', () => {
 			'Raising the arm forward and up: to about 90°.'
 		);
 		expect(describeGuideForPatient(rotationLimit, op, day)).toBe(
-			'Turning the forearm out away from the body: no further than 20° until [2026-12-13].'
+			'Turning the forearm out away from the body: no further than 20° up to and including [2026-12-13].'
+		);
+		expect(describeGuideForPatient(flexion, op, day, 'passive')).toBe(
+			'Raising the arm forward and up: to about 90°, moved for you, not by its own muscles.'
 		);
 		expect(describeGuideForPatient(rotationLimit, null, day)).toBe(
 			'Turning the forearm out away from the body: no further than 20° until week 6 after the operation.'
 		);
 		expect(describeGuideForClinician(rotationLimit, op, day)).toBe(
-			'Shoulder external (lateral) rotation: limit 20° until [2026-12-13]'
+			'Shoulder external (lateral) rotation: limit 20° up to and including [2026-12-13]'
 		);
 	});
 
@@ -70,21 +73,27 @@ describe('range targets and limits', () => {
 		expect(judgeReading({ ...reading, measuredOn: '2026-12-20' }, [rotationLimit], op)).toEqual([]);
 	});
 
-	it('counts a target reached within the instrument’s error (Kolber & Hanney 2011: flexion MDC90 8° with an inclinometer)', () => {
+	it('gives the gap to a target, with the instrument’s error beside it (Kolber & Hanney 2011: flexion MDC90 8° with an inclinometer)', () => {
 		const reading = {
 			motion: 'shoulder-flexion',
 			degrees: 83,
 			measuredOn: '2026-11-30',
 			instrument: 'inclinometer' as const
 		};
-		expect(judgeReading(reading, [flexion], op)[0]).toMatchObject({ verdict: 'reached-target' });
-		expect(judgeReading({ ...reading, degrees: 81 }, [flexion], op)[0]).toMatchObject({
+		expect(judgeReading(reading, [flexion], op)[0]).toEqual({
+			guide: flexion,
 			verdict: 'short-of-target',
-			text: '9° short of the target of about 90°.'
+			text: '7° short of the target of about 90° (within the ±8° measurement error of this instrument).'
 		});
-		// No error on our list for a camera estimate: only at or past the target counts.
-		expect(judgeReading({ ...reading, instrument: 'camera' }, [flexion], op)[0].verdict).toBe(
-			'short-of-target'
+		expect(judgeReading({ ...reading, degrees: 81 }, [flexion], op)[0].text).toBe(
+			'9° short of the target of about 90°.'
+		);
+		expect(judgeReading({ ...reading, degrees: 90 }, [flexion], op)[0].verdict).toBe(
+			'reached-target'
+		);
+		// No error on our list for a camera estimate: the gap alone.
+		expect(judgeReading({ ...reading, instrument: 'camera' }, [flexion], op)[0].text).toBe(
+			'7° short of the target of about 90°.'
 		);
 	});
 

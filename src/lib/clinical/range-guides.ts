@@ -9,6 +9,7 @@ import { z } from 'zod';
 import { MOTIONS, measurementError, type MotionId, type RomInstrument } from './rom';
 import { holdsOn, lastDay, untilSchema, type Until } from './until';
 import type { LocalDate } from './calendar';
+import type { MovementType } from '../exercises/vocabulary';
 
 export const RANGE_GUIDE_KINDS = ['target', 'limit'] as const;
 export type RangeGuideKind = (typeof RANGE_GUIDE_KINDS)[number];
@@ -45,14 +46,17 @@ export function guidesOn(
 	return guides.filter((g) => holdsOn(g, operationDate, date));
 }
 
-/** The end of a guide in words for a date formatter: " until Sunday 13 December", or "". */
+/**
+ * The end of a guide in words for a date formatter: " up to and including Sunday 13 December"
+ * (the last day it holds, said so that nobody stops a day early), or "".
+ */
 function endWords(
 	until: Until,
 	operationDate: LocalDate | null,
 	formatDay: (date: LocalDate) => string
 ): string {
 	const last = lastDay(until, operationDate);
-	if (last !== null) return ` until ${formatDay(last)}`;
+	if (last !== null) return ` up to and including ${formatDay(last)}`;
 	if (until.untilWeek !== null) return ` until week ${until.untilWeek} after the operation`;
 	return '';
 }
@@ -65,13 +69,16 @@ function endWords(
 export function describeGuideForPatient(
 	guide: RangeGuide,
 	operationDate: LocalDate | null,
-	formatDay: (date: LocalDate) => string
+	formatDay: (date: LocalDate) => string,
+	movementType?: MovementType
 ): string {
 	const what = MOTIONS[guide.motion].plain;
 	const motion = what.charAt(0).toUpperCase() + what.slice(1);
 	const amount =
 		guide.kind === 'target' ? `to about ${guide.degrees}°` : `no further than ${guide.degrees}°`;
-	return `${motion}: ${amount}${endWords(guide, operationDate, formatDay)}.`;
+	// A target under a passive exercise is not leave to lift the limb with its own muscles.
+	const how = movementType === 'passive' ? ', moved for you, not by its own muscles' : '';
+	return `${motion}: ${amount}${how}${endWords(guide, operationDate, formatDay)}.`;
 }
 
 /** A guide as the clinician reads it: "Shoulder flexion: target about 90°" / "…: limit 20° until …". */
@@ -94,8 +101,9 @@ export interface GuideVerdict {
 
 /**
  * A reading judged against the guides of its motion that held on its date. A limit is passed
- * when the reading is over it; a target ("about") counts as reached within the instrument's
- * measurement error when one is known, otherwise only at or above it.
+ * when the reading is over it; a target is reached at or above it. Short of a target, the gap is
+ * always given, with the instrument's measurement error beside it when one is known (a gap within
+ * the error is not called reached: the error is for telling a change, not for moving the target).
  */
 export function judgeReading(
 	reading: { motion: string; degrees: number; measuredOn: LocalDate; instrument: RomInstrument },
@@ -119,20 +127,22 @@ export function judgeReading(
 							text: `Within the limit of ${guide.degrees}° set for now.`
 						};
 			}
-			const error = measurementError(guide.motion, reading.instrument)?.degrees ?? 0;
-			return gap >= -error
-				? {
-						guide,
-						verdict: 'reached-target' as const,
-						text:
-							gap >= 0
-								? `At or past the target of about ${guide.degrees}°.`
-								: `Within the measurement error (±${error}°) of the target of about ${guide.degrees}°.`
-					}
-				: {
-						guide,
-						verdict: 'short-of-target' as const,
-						text: `${-gap}° short of the target of about ${guide.degrees}°.`
-					};
+			if (gap >= 0) {
+				return {
+					guide,
+					verdict: 'reached-target' as const,
+					text: `At or past the target of about ${guide.degrees}°.`
+				};
+			}
+			const error = measurementError(guide.motion, reading.instrument)?.degrees;
+			const within =
+				error !== undefined && -gap <= error
+					? ` (within the ±${error}° measurement error of this instrument)`
+					: '';
+			return {
+				guide,
+				verdict: 'short-of-target' as const,
+				text: `${-gap}° short of the target of about ${guide.degrees}°${within}.`
+			};
 		});
 }

@@ -296,6 +296,9 @@ const MULLANEY =
 const KNEE =
 	'Knee goniometry study, J Exp Orthop 2018 (doi 10.1186/s40634-018-0161-5): a long-arm goniometer needs a 10° difference to be sure of a change; after knee replacement, two testers differed by up to about 19° (Lenssen et al., BMC Musculoskelet Disord 2007;8:83).';
 
+const KNEE_INCLINOMETER =
+	'Knee goniometry study, J Exp Orthop 2018 (doi 10.1186/s40634-018-0161-5): a digital inclinometer needs a 6° difference to be sure of a change (three raters, six knees: a small study).';
+
 const SHOULDER_MOTIONS = [
 	'shoulder-flexion',
 	'shoulder-extension',
@@ -313,6 +316,8 @@ export const MEASUREMENT_ERROR: Record<
 	Partial<Record<MotionId, MeasurementError>>
 > = {
 	inclinometer: {
+		'knee-flexion': { degrees: 6, basis: KNEE_INCLINOMETER, confidence: 'read' },
+		'knee-extension': { degrees: 6, basis: KNEE_INCLINOMETER, confidence: 'read' },
 		'shoulder-flexion': { degrees: 8, basis: KOLBER, confidence: 'read' },
 		'shoulder-abduction': { degrees: 4, basis: KOLBER, confidence: 'read' },
 		'shoulder-internal-rotation': { degrees: 8, basis: KOLBER, confidence: 'read' },

@@ -173,7 +173,9 @@ export function patientFigures(
 	const adherence28 = prescribed ? withText(adherenceToDate(schedules, today, 28)) : null;
 
 	const logs = input.logs.filter((l) => l.localDate <= today);
-	const lastSession = logs.reduce<FigureLog | null>(
+	// A log of no sets keeps its pain score but is not a session (countsAsSession).
+	const sessions = logs.filter(countsAsSession);
+	const lastSession = sessions.reduce<FigureLog | null>(
 		(last, log) => (!last || log.doneAt.getTime() > last.doneAt.getTime() ? log : last),
 		null
 	);
@@ -203,7 +205,9 @@ export function patientFigures(
 		sex: input.sex,
 		operationDate: input.operationDate,
 		rangeGuides: prescribedProgrammes(input).flatMap((p) =>
-			p.status === 'published' ? p.items.flatMap((i) => i.rangeGuides) : []
+			p.items.flatMap((i) =>
+				i.rangeGuides.map((guide) => ({ guide, from: p.startDate, to: p.endDate }))
+			)
 		)
 	});
 
@@ -223,7 +227,7 @@ export function patientFigures(
 	if (prescribed) {
 		// Seven whole days before today with sessions due and not one logged, nor any today.
 		const fullDays = combinedAdherence(schedules, addDays(today, -1), 7);
-		const loggedToday = logs.some((l) => l.localDate === today);
+		const loggedToday = sessions.some((l) => l.localDate === today);
 		if (fullDays.prescribed > 0 && fullDays.counted + fullDays.extra === 0 && !loggedToday) {
 			flags.push({
 				kind: 'no-sessions',

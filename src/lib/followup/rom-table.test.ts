@@ -182,15 +182,58 @@ describe('readings compared like with like', () => {
 				operationDate: '2026-11-02',
 				rangeGuides: [
 					{
-						motion: 'shoulder-external-rotation',
-						kind: 'limit',
-						degrees: 20,
-						untilWeek: 6,
-						untilDate: null
+						guide: {
+							motion: 'shoulder-external-rotation',
+							kind: 'limit',
+							degrees: 20,
+							untilWeek: 6,
+							untilDate: null
+						},
+						from: '2026-11-16',
+						to: null
 					}
 				]
 			}
 		);
 		expect(row.guides.map((g) => g.text)).toEqual(['10° beyond the limit of 20° set for now.']);
+	});
+});
+
+describe('guides judge only what they were set for (review cases)', () => {
+	const limit = {
+		guide: {
+			motion: 'shoulder-external-rotation' as const,
+			kind: 'limit' as const,
+			degrees: 20,
+			untilWeek: null,
+			untilDate: null
+		},
+		from: '2026-11-16',
+		to: '2026-12-20'
+	};
+	const rotation = (side: 'left' | 'right', measuredOn: string) =>
+		reading({
+			motion: 'shoulder-external-rotation',
+			side,
+			degrees: 85,
+			measuredOn,
+			armPosition: 'abducted-90'
+		});
+
+	it('judges the affected side only, within the programme’s days', () => {
+		const rows = romRows(
+			[
+				rotation('left', '2026-11-20'),
+				rotation('right', '2026-11-20'),
+				rotation('right', '2026-11-10')
+			],
+			{ source: 'aaos', affectedSide: 'right', rangeGuides: [limit] }
+		);
+		const byKey = (side: string, date: string) =>
+			rows.find((r) => r.side === side && r.measuredOn === date)!;
+		expect(byKey('left', '2026-11-20').guides).toEqual([]);
+		expect(byKey('right', '2026-11-20').guides[0].verdict).toBe('beyond-limit');
+		// Before the programme that set the limit started.
+		expect(byKey('right', '2026-11-10').guides).toEqual([]);
 	});
 });

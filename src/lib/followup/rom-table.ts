@@ -136,8 +136,11 @@ export function romRows(
 		birthYear?: number | null;
 		sex?: Sex | null;
 		operationDate?: string | null;
-		/** The range targets and limits of the patient's programme, judged on each reading's date. */
-		rangeGuides?: readonly RangeGuide[];
+		/**
+		 * The range targets and limits of the patient's programmes with the days each programme
+		 * ran: a reading is judged against those that held on its date, on the affected side.
+		 */
+		rangeGuides?: readonly { guide: RangeGuide; from: string; to: string | null }[];
 	}
 ): RomRow[] {
 	const sorted = [...readings].sort(byDate);
@@ -236,7 +239,19 @@ export function romRows(
 			...reading,
 			motionLabel: label,
 			howMeasured: `${INSTRUMENT_LABELS[reading.instrument]}${position}`,
-			guides: judgeReading(reading, options.rangeGuides ?? [], options.operationDate ?? null),
+			guides:
+				sideKnown && reading.side !== options.affectedSide
+					? []
+					: judgeReading(
+							reading,
+							(options.rangeGuides ?? [])
+								.filter(
+									(g) =>
+										g.from <= reading.measuredOn && (g.to === null || reading.measuredOn <= g.to)
+								)
+								.map((g) => g.guide),
+							options.operationDate ?? null
+						),
 			affected: sideKnown ? reading.side === options.affectedSide : null,
 			normal,
 			normalMissing,

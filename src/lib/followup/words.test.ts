@@ -50,7 +50,7 @@ describe('figures with their basis', () => {
 		expect(adherenceSentence(w)).toBe('5 of 7 sessions (71%) over 24–30 Nov 2026');
 		expect(adherenceBasis(w)).toBe('5 of 7 sessions, 24–30 Nov');
 		expect(adherenceBasis(adherence(daily, ['2026-11-01'], '2026-11-01', 7))).toBe(
-			'None prescribed, 26 Oct – 1 Nov, 1 extra'
+			'None due, 26 Oct – 1 Nov, 1 extra'
 		);
 	});
 

@@ -67,7 +67,7 @@ export function adherenceSentence(window: AdherenceWindow): string {
 export function adherenceBasis(window: AdherenceWindow): string {
 	const range = formatDateRange(window.from, window.to, { year: false });
 	const extra = window.extra > 0 ? `, ${window.extra} extra` : '';
-	if (window.prescribed === 0) return `None prescribed, ${range}${extra}`;
+	if (window.prescribed === 0) return `None due, ${range}${extra}`;
 	return `${window.counted} of ${window.prescribed} ${window.prescribed === 1 ? 'session' : 'sessions'}, ${range}${extra}`;
 }
 

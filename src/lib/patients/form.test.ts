@@ -162,3 +162,30 @@ describe('patient details', () => {
 		expect(draft.operationDate).toBe('');
 	});
 });
+
+describe('patient details against crafted input (review cases)', () => {
+	const base = { ...emptyDetailsDraft(), fullName: 'A' };
+
+	it('stores a precaution once, however it was ticked or typed', () => {
+		const parsed = parseDetails({
+			...base,
+			precautions: ['biceps-repair', 'biceps-repair'],
+			otherPrecautions: 'biceps-repair\nBiceps repair: no active elbow flexion\nMind the stairs'
+		});
+		expect(parsed.ok && parsed.details.precautions).toEqual(['biceps-repair', 'Mind the stairs']);
+	});
+
+	it('reads weeks and degrees only as digits', () => {
+		expect(parseDetails({ ...base, protocolShiftWeeks: '0x0c' })).toMatchObject({
+			ok: false,
+			path: 'protocolShiftWeeks'
+		});
+		expect(
+			parseDetails({
+				...base,
+				precautions: ['shoulder-external-rotation-limit'],
+				precautionDegrees: { 'shoulder-external-rotation-limit': '0x5A' }
+			})
+		).toMatchObject({ ok: false, path: 'precaution-degrees-shoulder-external-rotation-limit' });
+	});
+});

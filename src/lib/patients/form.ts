@@ -8,7 +8,9 @@ import { isLocalDate, isTimeZone } from '$lib/clinical/calendar';
 import { MAX_SHIFT_WEEKS } from '$lib/clinical/phases';
 import {
 	detailOf,
+	normaliseFreeText,
 	precautionDetailsSchema,
+	resolvePrecaution,
 	type PrecautionDetail
 } from '$lib/clinical/precautions';
 import { parseUntil, untilText } from '$lib/clinical/until';
@@ -92,7 +94,12 @@ export const detailsSchema = z.object({
 	protocolShiftWeeks: z
 		.string()
 		.trim()
-		.transform((w) => (w === '' ? 0 : Number(w.replace('−', '-'))))
+		.transform((w) => {
+			const typed = w.replace('−', '-');
+			if (typed === '') return 0;
+			// Whole weeks in digits only ("0x0c" and "1e1" are not weeks).
+			return /^[-+]?\d{1,2}$/.test(typed) ? Number(typed) : NaN;
+		})
 		.pipe(
 			z
 				.number({ error: 'Write the surgeon’s timing as a whole number of weeks, e.g. 2 or -1.' })
@@ -136,6 +143,24 @@ function splitLines(text: string): string[] {
 }
 
 const known = new Set(Object.keys(PRECAUTIONS));
+
+/**
+ * Each precaution once: free text that names a vocabulary precaution (its id or label) becomes
+ * that id, so a precaution ticked and typed is stored once and its end applies to it.
+ */
+function distinctPrecautions(list: readonly string[]): string[] {
+	const seen = new Set<string>();
+	const out: string[] = [];
+	for (const raw of list) {
+		const resolved = resolvePrecaution(raw);
+		const stored = resolved.kind === 'known' ? resolved.id : resolved.text;
+		const key = resolved.kind === 'known' ? resolved.id : normaliseFreeText(resolved.text);
+		if (stored === '' || seen.has(key)) continue;
+		seen.add(key);
+		out.push(stored);
+	}
+	return out;
+}
 
 /** The details part of a submitted form. */
 export function detailsDraftFromForm(form: FormData): PatientDetailsDraft {
@@ -239,7 +264,7 @@ function precautionDetailsFrom(
 		const degreesText = (draft.precautionDegrees[id] ?? '').trim();
 		let degrees: number | null = null;
 		if (degreesText !== '') {
-			degrees = Number(degreesText);
+			degrees = /^\d{1,3}$/.test(degreesText) ? Number(degreesText) : NaN;
 			if (!Number.isInteger(degrees) || degrees < 0 || degrees > 180) {
 				return {
 					ok: false,
@@ -263,10 +288,10 @@ export function parseDetails(
 	if (!details.ok) return details;
 	const result = detailsSchema.safeParse({
 		...draft,
-		precautions: [
+		precautions: distinctPrecautions([
 			...draft.precautions.map((p) => p as PrecautionId),
 			...splitLines(draft.otherPrecautions)
-		],
+		]),
 		precautionDetails: details.details
 	});
 	if (result.success) return { ok: true, details: result.data };

@@ -161,6 +161,14 @@ describe('builder moves', () => {
 			path: ['items', 0, 'rangeGuides', 0, 'degrees'],
 			message: 'Give the degrees, e.g. 90.'
 		});
+		posted.items[0].rangeGuides[0].degrees = '0x14';
+		expect(programmeSaveSchema.safeParse(draftToInput(posted)).error?.issues[0].path).toEqual([
+			'items',
+			0,
+			'rangeGuides',
+			0,
+			'degrees'
+		]);
 		posted.items[0].rangeGuides[0].degrees = '20';
 		posted.items[0].rangeGuides[0].until = 'later';
 		expect(programmeSaveSchema.safeParse(draftToInput(posted)).error?.issues[0].path).toEqual([

@@ -18,6 +18,7 @@ import {
 	PRECAUTION_CAUTION,
 	precautionConflicts,
 	precautionsOn,
+	rangeClashes,
 	type PrecautionConflict,
 	type PrecautionDetail
 } from '$lib/clinical/precautions';
@@ -33,6 +34,7 @@ import {
 	type WeeklyVolume
 } from '$lib/dosage';
 import { phaseOf } from '$lib/exercises/vocabulary';
+import type { MotionId } from '$lib/clinical/rom';
 
 export interface FigureExercise {
 	title: string;
@@ -64,6 +66,8 @@ export interface ItemFigures {
 	paceBasis: string;
 	phaseFlag: PhaseFlag | null;
 	conflicts: PrecautionConflict[];
+	/** Range targets or limits set past a holding precaution's degrees, as sentences. */
+	rangeClashes: string[];
 	bounds: BoundsIssue[];
 }
 
@@ -149,7 +153,11 @@ export function weekAfterOperation(
 export function programmeFigures(
 	patient: FigurePatient,
 	startDate: LocalDate,
-	items: { exercise: FigureExercise; dosage: Dosage }[],
+	items: {
+		exercise: FigureExercise;
+		dosage: Dosage;
+		rangeGuides?: { motion: MotionId; kind: 'target' | 'limit'; degrees: number }[];
+	}[],
 	today: LocalDate = startDate
 ): ProgrammeFigures {
 	const week = weekAfterOperation(patient, startDate);
@@ -159,7 +167,7 @@ export function programmeFigures(
 		patient.operationDate,
 		today > startDate ? today : startDate
 	);
-	const figures = items.map(({ exercise, dosage }): ItemFigures => {
+	const figures = items.map(({ exercise, dosage, rangeGuides = [] }): ItemFigures => {
 		const { pace, basis } = paceFor(exercise);
 		return {
 			volume: weeklyVolume(dosage),
@@ -173,6 +181,7 @@ export function programmeFigures(
 					? { movementType: exercise.movementType, bodyRegion: exercise.bodyRegion ?? '' }
 					: undefined
 			),
+			rangeClashes: rangeClashes(holding, patient.precautionDetails, rangeGuides),
 			bounds: outOfBounds(dosage, exercise.dosageBounds ?? {})
 		};
 	});

@@ -19,7 +19,7 @@ const localDate = (what: string) =>
 	z.string().trim().refine(isLocalDate, `Write the ${what} as a real date, e.g. 2026-11-17.`);
 
 /** A range target or limit as typed: degrees and end as text, read here. */
-const rangeGuideInput = z
+export const rangeGuideInput = z
 	.object({ motion: z.string(), kind: z.string(), degrees: z.string(), until: z.string() })
 	.transform((g, ctx) => {
 		const until = parseUntil(g.until);
@@ -32,7 +32,8 @@ const rangeGuideInput = z
 		const guide = rangeGuideSchema.safeParse({
 			motion: g.motion,
 			kind: g.kind,
-			degrees: g.degrees.trim() === '' ? NaN : Number(g.degrees.trim()),
+			// Whole degrees written in digits only ("0x5A" and "1e2" are not degrees).
+			degrees: /^\d{1,3}$/.test(g.degrees.trim()) ? Number(g.degrees.trim()) : NaN,
 			...until.until
 		});
 		if (!guide.success) {
@@ -52,8 +53,14 @@ export const programmeItemSchema = z
 		dosage: dosageSchema,
 		/** Ticked weekdays; none means any `daysPerWeek` days of each week. */
 		weekdays: z
-			.array(z.number().int().min(1).max(7))
-			.max(7)
+			.array(
+				z
+					.number('A weekday is a number from 1 (Monday) to 7 (Sunday).')
+					.int('A weekday is a number from 1 (Monday) to 7 (Sunday).')
+					.min(1, 'A weekday is a number from 1 (Monday) to 7 (Sunday).')
+					.max(7, 'A weekday is a number from 1 (Monday) to 7 (Sunday).')
+			)
+			.max(7, 'Tick at most the seven days of the week, each once.')
 			.default([])
 			.transform((days) =>
 				days.length === 0 ? null : ([...new Set(days)].sort((a, b) => a - b) as Weekday[])

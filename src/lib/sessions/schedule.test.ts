@@ -179,3 +179,30 @@ describe('dates in words', () => {
 		expect(longDate('2026-03-02', true)).toBe('Monday 2 March 2026');
 	});
 });
+
+describe('a short first week of any N days (review cases)', () => {
+	it('offers the first day of a programme that starts on a Sunday, and counts it when done', () => {
+		// Sunday 8 March 2026: one open day of the week, 3 × 1/7 rounds to none.
+		const sunday = itemSchedule(
+			{ startDate: '2026-03-08', endDate: null, pauses: [] },
+			{ sessionsPerDay: 1, daysPerWeek: 3 }
+		);
+		expect(itemDayStatus(sunday, '2026-03-08', []).kind).toBe('due');
+		expect(itemDayStatus(sunday, '2026-03-08', ['2026-03-08']).kind).toBe('done');
+	});
+
+	it('does not count a paused day towards the week', () => {
+		const paused = itemSchedule(
+			{
+				startDate: '2026-03-02',
+				endDate: null,
+				pauses: [{ fromDate: '2026-03-02', toDate: '2026-03-02' }]
+			},
+			{ sessionsPerDay: 1, daysPerWeek: 3 }
+		);
+		// Logged Monday (paused), Tuesday and Wednesday: Thursday is still an exercise day.
+		expect(
+			itemDayStatus(paused, '2026-03-05', ['2026-03-02', '2026-03-03', '2026-03-04']).kind
+		).toBe('due');
+	});
+});

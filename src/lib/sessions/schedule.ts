@@ -5,7 +5,7 @@
  */
 import {
 	chosenWeekdays,
-	daysAskedInWeek,
+	daysAskedGivenDone,
 	isProgrammeDay,
 	sessionsPrescribedOn,
 	type Schedule
@@ -144,9 +144,15 @@ export function itemDayStatus(
 	} else {
 		if (!isProgrammeDay(schedule, today))
 			return { kind: 'rest', reason: 'no-day', done: doneToday };
-		const daysBefore = new Set(sessionDatesThisWeek.filter((d) => d >= weekStart && d < today))
-			.size;
-		if (doneToday === 0 && daysBefore >= daysAskedInWeek(schedule, weekStart)) {
+		// The days adherence counts: open days of this week with a session, up to today.
+		const doneDays = new Set(
+			sessionDatesThisWeek.filter(
+				(d) => d >= weekStart && d <= today && isProgrammeDay(schedule, d)
+			)
+		);
+		const daysBefore = [...doneDays].filter((d) => d < today).length;
+		const asked = daysAskedGivenDone(schedule, weekStart, doneDays);
+		if (doneToday === 0 && daysBefore > 0 && daysBefore >= asked) {
 			return { kind: 'rest', reason: 'week-done', done: 0 };
 		}
 		of = schedule.sessionsPerDay;

@@ -356,6 +356,8 @@ export function copyProgramme(
 			tx.insert(programmeItems)
 				.values({
 					...dosageOf(item),
+					weekdays: item.weekdays,
+					rangeGuides: item.rangeGuides,
 					progression: item.progression as Progression,
 					position,
 					programmeId: copy.id,

@@ -103,7 +103,7 @@ describe('reminder days', () => {
 		const days = reminderDays(any);
 		expect(days.map((d) => d.date)).toContain('2026-03-28');
 		expect(days[0].lines[0]).toBe(
-			'- Ankle pumps: 2 sets of 10 reps, rest 30 seconds between sets; twice a day, 3 days a week.'
+			"- Ankle pumps: 2 sets of 10 reps, rest 30 seconds between sets; twice a day, 3 days a week. Leave it out once this week's 3 days are done."
 		);
 	});
 

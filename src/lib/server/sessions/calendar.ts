@@ -81,7 +81,14 @@ export function reminderDays(input: CalendarInput): ReminderDay[] {
 		days.push({
 			date,
 			sessions: Math.max(...asked.map((a) => a.sessions)),
-			lines: asked.map((a) => `- ${a.item.title}: ${describeDosage(a.dosage, a.item.weekdays)}`),
+			lines: asked.map(
+				(a) =>
+					`- ${a.item.title}: ${describeDosage(a.dosage, a.item.weekdays)}${
+						a.item.weekdays === null && a.dosage.daysPerWeek < 7
+							? ` Leave it out once this week's ${a.dosage.daysPerWeek} ${a.dosage.daysPerWeek === 1 ? 'day is' : 'days are'} done.`
+							: ''
+					}`
+			),
 			// A session's estimate, rounded up to 5 minutes, never under 5.
 			minutesLong: Math.max(5, Math.ceil(seconds / 60 / 5) * 5)
 		});

@@ -144,9 +144,14 @@ export function slingOn(patient: Patient, today: LocalDate): LocalDate | null {
 }
 
 /** An item's range guides that hold today, in the patient's words. */
-export function rangeGuideWords(patient: Patient, item: ProgrammeItem, today: LocalDate): string[] {
+export function rangeGuideWords(
+	patient: Patient,
+	item: ProgrammeItem,
+	exercise: Pick<Exercise, 'movementType'>,
+	today: LocalDate
+): string[] {
 	return guidesOn(item.rangeGuides, patient.operationDate, today).map((g) =>
-		describeGuideForPatient(g, patient.operationDate, (d) => longDate(d))
+		describeGuideForPatient(g, patient.operationDate, (d) => longDate(d), exercise.movementType)
 	);
 }
 
@@ -238,7 +243,7 @@ export function todayFor(patient: Patient, now: number = Date.now()): TodayView 
 			dosageWords: describeDosage(dosage, item.weekdays),
 			status,
 			days: describeExerciseDays(schedule),
-			rangeGuides: rangeGuideWords(patient, item, today),
+			rangeGuides: rangeGuideWords(patient, item, exercise, today),
 			poster: ready && segment ? segmentMedia(segment).poster : null,
 			hasVideo: ready
 		};

@@ -56,7 +56,7 @@ export const load: PageServerLoad = ({ params }) => {
 		transcript: ready ? transcriptLines(segment) : [],
 		captionStyle: captionStyleOf(patient),
 		today: itemToday(patient.id, programme, item, today),
-		rangeGuides: rangeGuideWords(patient, item, today),
+		rangeGuides: rangeGuideWords(patient, item, exercise, today),
 		slingUntil: slingOn(patient, today)
 	};
 };
