@@ -1,6 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { profiles } from '../captions/checks';
 import {
+	CAPTION_JUDGEMENT_ITEMS,
+	computeCaptionChecklist,
 	computeChecklist,
 	judgementTicked,
 	JUDGEMENT_ITEMS,
@@ -168,6 +170,38 @@ describe('computeChecklist', () => {
 	});
 });
 
+describe('computeCaptionChecklist', () => {
+	it('runs only the caption items: the caption checks and patient data in the captions', () => {
+		// Everything else of a caption revision is the published version's, checked back then.
+		const bare = snapshot({ safetyNotes: '', description: 'Ring 0161 496 0000.' });
+		const list = computeCaptionChecklist(bare);
+		expect(list.items.map((i) => [i.id, i.passed])).toEqual([
+			['captions', true],
+			['patient-data', true]
+		]);
+		expect(list.passed).toBe(true);
+		expect(item(list, 'patient-data').label).toBe(
+			'No patient data in the captions (e-mail addresses, phone numbers, dates of birth)'
+		);
+	});
+
+	it('fails on a caption error or a caption that looks like a person’s details', () => {
+		const list = computeCaptionChecklist(
+			snapshot({
+				cues: [
+					{ id: '1', start: 0, end: 1, text: 'one two three four five six seven eight nine ten' },
+					{ id: '2', start: 2, end: 5, text: 'Write to ana@clinic.example if it swells.' }
+				]
+			})
+		);
+		expect(list.passed).toBe(false);
+		expect(item(list, 'captions').problems[0]).toMatch(/^Cue 1 at 00:00\.000: Reading rate/);
+		expect(item(list, 'patient-data').problems).toEqual([
+			expect.stringMatching(/^Caption 2 has what looks like an e-mail address/)
+		]);
+	});
+});
+
 describe('publicTexts', () => {
 	it('lists the title, description, each coaching cue, safety notes, each caption and the credit', () => {
 		expect(publicTexts(input()).map((t) => t.field)).toEqual([
@@ -195,5 +229,12 @@ describe('judgementTicked', () => {
 	it('keeps only real items, in order', () => {
 		const ids = JUDGEMENT_ITEMS.map((j) => j.id);
 		expect(judgementTicked([ids[2], 'made-up', ids[0]])).toEqual([ids[0], ids[2]]);
+	});
+
+	it('keeps the caption items for a caption revision, and only those', () => {
+		expect(
+			judgementTicked(['safe-demonstration', 'plain-words', 'captions-match'], 'captions')
+		).toEqual(CAPTION_JUDGEMENT_ITEMS.map((j) => j.id));
+		expect(judgementTicked(['captions-match'], 'exercise')).toEqual([]);
 	});
 });

@@ -7,10 +7,11 @@
 import { checkCues, profiles, type GuidelineProfile } from '../captions/checks';
 import { plainText } from '../captions/text';
 import { formatTimestamp } from '../captions/timestamp';
+import type { Cue } from '../captions/types';
 import { CaptionWriteError, cuesAsServed } from '../captions/vtt';
 import { DOSAGE_FIELD_LABELS, DOSAGE_FIELDS, DOSAGE_LIMITS } from '../dosage/types';
 import { excerptAround, findPatientData, PATIENT_DATA_LABELS } from './privacy';
-import { isLicence, type ExerciseSnapshot } from './types';
+import { isLicence, type ExerciseSnapshot, type SubmissionKind } from './types';
 
 /**
  * The library checks every submission against one captioning profile, whatever the submitting
@@ -61,7 +62,32 @@ export const JUDGEMENT_ITEMS = [
 		label: 'Nothing on screen or in the sound identifies a patient'
 	}
 ] as const;
-export type JudgementId = (typeof JUDGEMENT_ITEMS)[number]['id'];
+
+/**
+ * A caption revision changes only the captions: the educator judges those, since the clip and
+ * the other words were judged when the version was approved.
+ */
+export const CAPTION_JUDGEMENT_ITEMS = [
+	{
+		id: 'captions-match',
+		label: 'The captions say what is said in the clip, at the time it is said'
+	},
+	{
+		id: 'plain-words',
+		label: 'The words suit the public: nothing only one clinic or one patient would follow'
+	}
+] as const;
+
+export type JudgementId =
+	| (typeof JUDGEMENT_ITEMS)[number]['id']
+	| (typeof CAPTION_JUDGEMENT_ITEMS)[number]['id'];
+
+/** The judgement items the educator ticks to approve a submission of this kind. */
+export function judgementItemsFor(
+	kind: SubmissionKind
+): readonly { id: JudgementId; label: string }[] {
+	return kind === 'captions' ? CAPTION_JUDGEMENT_ITEMS : JUDGEMENT_ITEMS;
+}
 
 const MAX_LISTED = 8;
 
@@ -76,7 +102,7 @@ function captionsItem(snapshot: ExerciseSnapshot, profile: GuidelineProfile): Ch
 			label,
 			passed: false,
 			summary: 'The segment has no captions.',
-			problems: ['Add captions to the recording and confirm the segment again.']
+			problems: ['Add captions to the recording; the segment follows its captions track.']
 		};
 	}
 	const findings = checkCues(cues, profile);
@@ -89,7 +115,7 @@ function captionsItem(snapshot: ExerciseSnapshot, profile: GuidelineProfile): Ch
 	if (errors.length > MAX_LISTED) listed.push(`…and ${errors.length - MAX_LISTED} more.`);
 	if (errors.length > 0) {
 		listed.push(
-			'To fix: correct the recording’s captions, confirm its segments again, and choose the new segment for the exercise.'
+			'To fix: correct the recording’s captions; the segment follows them, so nothing is cut again.'
 		);
 	}
 	return {
@@ -164,6 +190,9 @@ function consentItem(input: ChecklistInput): ChecklistItem {
 	};
 }
 
+const captionTexts = (cues: readonly Cue[]) =>
+	cues.map((c, i) => ({ field: `Caption ${i + 1}`, text: plainText(c.text) }));
+
 /** The texts the public would read, each with the name a reviewer knows it by. */
 export function publicTexts(input: ChecklistInput): { field: string; text: string }[] {
 	const s = input.snapshot;
@@ -172,14 +201,17 @@ export function publicTexts(input: ChecklistInput): { field: string; text: strin
 		{ field: 'Description', text: s.description },
 		...s.coachingCues.map((c, i) => ({ field: `Coaching cue ${i + 1}`, text: c.text })),
 		{ field: 'Safety notes', text: s.safetyNotes },
-		...s.cues.map((c, i) => ({ field: `Caption ${i + 1}`, text: plainText(c.text) })),
+		...captionTexts(s.cues),
 		{ field: 'Credit line', text: input.attribution }
 	];
 }
 
-function patientDataItem(input: ChecklistInput): ChecklistItem {
+function patientDataItem(
+	texts: { field: string; text: string }[],
+	label = 'No patient data in any text (e-mail addresses, phone numbers, dates of birth)'
+): ChecklistItem {
 	const problems: string[] = [];
-	for (const { field, text } of publicTexts(input)) {
+	for (const { field, text } of texts) {
 		for (const match of findPatientData(text)) {
 			problems.push(
 				`${field} has what looks like ${PATIENT_DATA_LABELS[match.kind]}: “${excerptAround(text, match)}”`
@@ -189,7 +221,7 @@ function patientDataItem(input: ChecklistInput): ChecklistItem {
 	const count = problems.length;
 	return {
 		id: 'patient-data',
-		label: 'No patient data in any text (e-mail addresses, phone numbers, dates of birth)',
+		label,
 		passed: count === 0,
 		summary:
 			count === 0
@@ -201,39 +233,75 @@ function patientDataItem(input: ChecklistInput): ChecklistItem {
 	};
 }
 
+/**
+ * The captions as a browser reads the served file, with their item. Every caption item judges
+ * that file; captions that cannot be written as a file at all fail their item, and the rest is
+ * judged as stored.
+ */
+function servedCaptions(
+	snapshot: ExerciseSnapshot,
+	profile: GuidelineProfile
+): { served: ExerciseSnapshot; captions: ChecklistItem } {
+	try {
+		const served = { ...snapshot, cues: cuesAsServed(snapshot.cues) };
+		return { served, captions: captionsItem(served, profile) };
+	} catch (thrown) {
+		if (!(thrown instanceof CaptionWriteError)) throw thrown;
+		return {
+			served: snapshot,
+			captions: {
+				id: 'captions',
+				label: `Captions pass the caption checks (${profile.label})`,
+				passed: false,
+				summary: 'The captions cannot be written as a caption file.',
+				problems: [thrown.message]
+			}
+		};
+	}
+}
+
 /** Every item, in the order the review screen shows them. */
 export function computeChecklist(
 	input: ChecklistInput,
 	profile: GuidelineProfile = LIBRARY_CAPTION_PROFILE
 ): Checklist {
-	// Every caption item judges the file that will be served, as a browser reads it; captions
-	// that cannot be written as a file at all fail their item, and the rest is judged as stored.
-	let served = input.snapshot;
-	let captions: ChecklistItem;
-	try {
-		served = { ...input.snapshot, cues: cuesAsServed(input.snapshot.cues) };
-		captions = captionsItem(served, profile);
-	} catch (thrown) {
-		if (!(thrown instanceof CaptionWriteError)) throw thrown;
-		captions = {
-			id: 'captions',
-			label: `Captions pass the caption checks (${profile.label})`,
-			passed: false,
-			summary: 'The captions cannot be written as a caption file.',
-			problems: [thrown.message]
-		};
-	}
+	const { served, captions } = servedCaptions(input.snapshot, profile);
 	const items = [
 		captions,
 		safetyNotesItem(served),
 		dosageItem(served),
 		consentItem(input),
-		patientDataItem({ ...input, snapshot: served })
+		patientDataItem(publicTexts({ ...input, snapshot: served }))
 	];
 	return { profile: profile.id, passed: items.every((i) => i.passed), items };
 }
 
-/** The judgement ids in `ticked` that are real, in the checklist's order. */
-export function judgementTicked(ticked: readonly string[]): JudgementId[] {
-	return JUDGEMENT_ITEMS.map((j) => j.id).filter((id) => ticked.includes(id));
+/**
+ * The caption items alone, for a caption revision (everything else is the published
+ * version's, checked when it was approved): the caption checks under the profile, and no
+ * patient data in the caption text.
+ */
+export function computeCaptionChecklist(
+	snapshot: ExerciseSnapshot,
+	profile: GuidelineProfile = LIBRARY_CAPTION_PROFILE
+): Checklist {
+	const { served, captions } = servedCaptions(snapshot, profile);
+	const items = [
+		captions,
+		patientDataItem(
+			captionTexts(served.cues),
+			'No patient data in the captions (e-mail addresses, phone numbers, dates of birth)'
+		)
+	];
+	return { profile: profile.id, passed: items.every((i) => i.passed), items };
+}
+
+/** The judgement ids in `ticked` that are real for this kind, in the checklist's order. */
+export function judgementTicked(
+	ticked: readonly string[],
+	kind: SubmissionKind = 'exercise'
+): JudgementId[] {
+	return judgementItemsFor(kind)
+		.map((j) => j.id)
+		.filter((id) => ticked.includes(id));
 }
