@@ -78,7 +78,7 @@ export function describeGuideForPatient(
 		guide.kind === 'target' ? `to about ${guide.degrees}°` : `no further than ${guide.degrees}°`;
 	// A target under a passive exercise is not leave to lift the limb with its own muscles.
 	const how = movementType === 'passive' ? ', moved for you, not by its own muscles' : '';
-	return `${motion}: ${amount}${how}${endWords(guide, operationDate, formatDay)}.`;
+	return `${motion}: ${amount}${endWords(guide, operationDate, formatDay)}${how}.`;
 }
 
 /** A guide as the clinician reads it: "Shoulder flexion: target about 90°" / "…: limit 20° until …". */
