@@ -17,6 +17,7 @@ import { followupPart } from './matrix/followup';
 import { patientPart } from './matrix/patient';
 import { programmesPart } from './matrix/programmes';
 import { libraryPart } from './matrix/library';
+import { speechPart } from './matrix/speech';
 import {
 	clinicianApi,
 	everyone,
@@ -33,7 +34,8 @@ const PARTS: MatrixPart[] = [
 	followupPart,
 	patientPart,
 	libraryPart,
-	programmesPart
+	programmesPart,
+	speechPart
 ];
 
 /**
