@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { checkCues, profiles } from '$lib/captions/checks';
-import { splitSource } from './findings';
+import { groupFindings, splitSource } from './findings';
 import { plainCues, sameCues, withKeys } from './rows';
 
 describe('splitSource', () => {
@@ -18,6 +18,52 @@ describe('splitSource', () => {
 			text: 'Has no text.',
 			source: null
 		});
+	});
+});
+
+describe('groupFindings', () => {
+	it('names each kind once with its count and its guideline, in cue order', () => {
+		const cues = [
+			{ id: '', start: 0, end: 3, text: 'Lie on your back with both legs straight out.' },
+			{ id: '', start: 3.4, end: 6, text: 'Bend one knee.' },
+			{ id: '', start: 6.3, end: 10, text: 'Keep that foot flat on the bed as you slide it.' },
+			{ id: '', start: 11, end: 13, text: 'Rest.' }
+		];
+		const groups = groupFindings(checkCues(cues, profiles.bbc), profiles.bbc);
+		expect(groups.map((g) => [g.title, g.items.length, g.fixAll])).toEqual([
+			['Lines too long', 2, true],
+			['Gaps too short', 2, true]
+		]);
+		// BBC Subtitle Guidelines (2026 edition): 37 characters per line; gaps of at least 1 s.
+		expect(groups[0].sources).toEqual([profiles.bbc.maxCharsPerLine.source]);
+		expect(groups[1].sources).toEqual([profiles.bbc.minGapSeconds.source]);
+		expect(groups[0].items.map((i) => [i.finding.index, i.text])).toEqual([
+			[0, 'A line has 45 characters; at most 37.'],
+			[2, 'A line has 47 characters; at most 37.']
+		]);
+	});
+
+	it('lists every guideline a kind quotes, once each, and offers Fix all only for mechanical fixes', () => {
+		const cues = [
+			// 300 words per minute: over the BBC's 200 floor (an error).
+			{ id: '', start: 0, end: 2, text: 'Keep your heel on the bed\nand slide it up.' },
+			// 190 words per minute: over the 180 target only (a warning).
+			{ id: '', start: 5, end: 8.158, text: 'Keep your heel on the bed\nand slide it up.' },
+			{ id: '', start: 9.5, end: 11.5, text: 'Rest.' },
+			{ id: '', start: 11, end: 13.5, text: 'Rest again.' },
+			{ id: '', start: 12.5, end: 14.5, text: 'And once more.' }
+		];
+		const groups = groupFindings(checkCues(cues, profiles.bbc), profiles.bbc);
+		const rate = groups.find((g) => g.kind === 'reading-rate')!;
+		expect(rate.sources).toEqual([
+			profiles.bbc.maxWordsPerMinute.source,
+			profiles.bbc.targetWordsPerMinute.source
+		]);
+		expect([rate.errors, rate.fixAll]).toEqual([1, true]);
+		const overlaps = groups.find((g) => g.kind === 'overlap')!;
+		expect([overlaps.items.length, overlaps.fixAll, overlaps.sources]).toEqual([2, false, []]);
+		// Errors of order and overlap come before reading and layout.
+		expect(groups.map((g) => g.kind)).toEqual(['overlap', 'reading-rate']);
 	});
 });
 

@@ -3,8 +3,15 @@
  * the live checks. Every editing command goes through the pure operations in
  * $lib/captions/edit; this class only decides which cue they apply to and records the result.
  */
-import { checkCues, profiles, type Finding, type FixKind } from '$lib/captions/checks';
+import {
+	checkCues,
+	profiles,
+	type Finding,
+	type FindingKind,
+	type FixKind
+} from '$lib/captions/checks';
 import * as edit from '$lib/captions/edit';
+import { fixAllOfKind } from '$lib/captions/fixes';
 import type { Edge, Edit, Snap } from '$lib/captions/edit';
 import type { Cue } from '$lib/captions/types';
 import { History } from './history.svelte';
@@ -177,6 +184,24 @@ export class Studio {
 
 	fix(index: number, kind: FixKind) {
 		return this.apply(edit.applyFix(this.cues, index, kind, this.profile, this.#options()));
+	}
+
+	/**
+	 * Fixes every finding of `kind` as one undo step. Returns how many were fixed and, by row key,
+	 * why each of the rest could not be; null when the cues may not change now.
+	 */
+	fixAll(kind: FindingKind): { fixed: number; unfixed: Record<string, string> } | null {
+		if (this.locked) {
+			this.note = LOCKED;
+			return null;
+		}
+		const result = fixAllOfKind(this.cues, kind, this.profile, this.#options());
+		this.apply({ cues: result.cues, index: -1, changed: result.fixed > 0 });
+		const cues = this.cues;
+		return {
+			fixed: result.fixed,
+			unfixed: Object.fromEntries(result.unfixed.map((u) => [cues[u.index].key, u.why]))
+		};
 	}
 
 	/** Replaces every cue at once (a restored draft, or the other version of a conflict). */
