@@ -2,6 +2,7 @@
  * Factories for the library tests: a clinic with a clinician and an educator, and exercises on
  * ready segments whose clip and posters are real objects in the storage fake.
  */
+import { createTrack, saveVersion } from '$lib/server/captions';
 import { db, schema } from '$lib/server/db';
 import { putObject } from '$lib/server/storage';
 import { recordingKeys } from '$lib/server/storage/keys';
@@ -39,10 +40,14 @@ export const GOOD_CUES: Cue[] = [
 export const CLIP_BYTES = new TextEncoder().encode('a clip of a heel slide, as bytes');
 export const POSTER_BYTES = new TextEncoder().encode('a poster of a heel slide');
 
-/** A ready recording and segment with its clip and `posters` posters in storage. */
+/**
+ * A ready recording and segment (0–9 s) with its clip and `posters` posters in storage. With
+ * `track`, the recording gets a captions track of those cues (in the recording's seconds),
+ * which the segment's captions then follow.
+ */
 export async function makeSegment(
 	world: World,
-	{ cues = GOOD_CUES, posters = 2 }: { cues?: Cue[]; posters?: number } = {}
+	{ cues = GOOD_CUES, posters = 2, track }: { cues?: Cue[]; posters?: number; track?: Cue[] } = {}
 ) {
 	const recording = db()
 		.insert(schema.recordings)
@@ -60,6 +65,10 @@ export async function makeSegment(
 		})
 		.returning()
 		.get();
+	if (track) {
+		const made = createTrack(recording, { kind: 'captions', language: 'en-GB' });
+		saveVersion(made, { baseVersion: 0, cues: track, source: 'import' });
+	}
 	const segment = db()
 		.insert(schema.segments)
 		.values({

@@ -3,7 +3,7 @@
  * simple HTML, in the look of Kinelume's other messages, with the educator's comments as
  * written (escaped, never rendered as markup).
  */
-import type { Decision } from '$lib/library/types';
+import type { Decision, SubmissionKind } from '$lib/library/types';
 import type { MailContent } from '../mail/templates';
 
 function escapeHtml(value: string): string {
@@ -21,6 +21,21 @@ const HEADINGS: Record<Decision, (title: string) => string> = {
 	rejected: (title) => `“${title}” was not accepted for the library`
 };
 
+const CAPTION_HEADINGS: Record<Decision, (title: string) => string> = {
+	approved: (title) => `The new captions of “${title}” are in the public library`,
+	'changes-requested': (title) => `Changes requested for the captions of “${title}”`,
+	rejected: (title) => `The new captions of “${title}” were not accepted for the library`
+};
+
+const CAPTION_LEADS: Record<Decision, string> = {
+	approved:
+		'An educator approved your caption changes. The library now shows the exercise with the new captions; the clip and the words are as they were.',
+	'changes-requested':
+		'An educator reviewed your caption changes and asks for some more before they can be published. Their comments are below. Correct the captions, then send the caption changes again.',
+	rejected:
+		'An educator reviewed your caption changes and decided not to publish them. The library keeps the captions it had. Their reasons are below.'
+};
+
 const LEADS: Record<Decision, string> = {
 	approved:
 		'An educator approved your submission. Anyone can now watch it, with captions, in the Kinelume library. Later changes you submit will be reviewed before they replace this version.',
@@ -32,14 +47,17 @@ const LEADS: Record<Decision, string> = {
 
 export function decisionMail(input: {
 	decision: Decision;
+	/** A whole exercise, or only its captions; the words say which. */
+	kind?: SubmissionKind;
 	title: string;
 	reviewerName: string;
 	comment: string;
 	/** Where the clinician acts next: the submission page of the exercise, or the public page. */
 	url: string;
 }): MailContent {
-	const subject = HEADINGS[input.decision](input.title);
-	const lead = LEADS[input.decision];
+	const captions = input.kind === 'captions';
+	const subject = (captions ? CAPTION_HEADINGS : HEADINGS)[input.decision](input.title);
+	const lead = (captions ? CAPTION_LEADS : LEADS)[input.decision];
 	const comment = input.comment.trim();
 	const label =
 		input.decision === 'approved' ? 'See it in the library' : 'Open the submission page';

@@ -51,6 +51,35 @@ export async function copySegmentToLibrary(
 	return { posterCount, clipSize: clip.contentLength };
 }
 
+/**
+ * Copies a published version's own public copies (clip and posters) under a new version's
+ * prefix, for a caption revision: the new version shows the same pictures as the one it
+ * revises, read from the copies that were approved rather than from the clinic's files (which
+ * may have gone since). Every version keeps files of its own, so serving, retiring and a failed
+ * approval each deal with one prefix and never with another version's files.
+ */
+export async function copyVersionMedia(
+	from: Pick<LibraryVersion, 'id' | 'posterCount' | 'snapshot'>,
+	versionId: string
+): Promise<CopiedMedia> {
+	const source = libraryKeys(from.id);
+	const target = libraryKeys(versionId);
+	const segmentId = from.snapshot.segment.id;
+	const clip = await headObject(source.segment(segmentId));
+	if (!clip) {
+		throw new Error(`The public clip of version ${from.id} is missing from storage.`);
+	}
+	await copyObject(source.segment(segmentId), target.segment(segmentId), 'video/mp4');
+	let posterCount = 0;
+	for (let index = 0; index < from.posterCount; index++) {
+		const poster = source.poster(index);
+		if (!(await headObject(poster))) break;
+		await copyObject(poster, target.poster(index), 'image/jpeg');
+		posterCount++;
+	}
+	return { posterCount, clipSize: clip.contentLength };
+}
+
 /** Removes every copy a version made (a failed approval, or a retired exercise). */
 export async function deleteVersionMedia(versionId: string): Promise<void> {
 	await deletePrefix(libraryKeys(versionId).prefix);
@@ -77,13 +106,15 @@ export function versionAsset(version: LibraryVersion, asset: string): StoredAsse
 
 /**
  * The clinic's own file behind a submission, for the educator reviewing it (never public);
- * null for no such asset or a segment that is gone.
+ * null for no such asset or a segment that is gone. A caption revision has no file of its
+ * own: its clip and posters are those of the version it revises (`revisedVersionAsset`).
  */
 export function submissionAsset(
 	submission: LibrarySubmission,
 	segment: SegmentRow | null,
 	asset: string
 ): StoredAsset | null {
+	if (submission.kind === 'captions') return null;
 	if (!segment || segment.id !== submission.segmentId || segment.clinicId !== submission.clinicId) {
 		return null;
 	}

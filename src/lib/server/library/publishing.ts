@@ -4,9 +4,9 @@
  * unpublish, publish again and retire.
  */
 import { and, desc, eq, max } from 'drizzle-orm';
-import { judgementTicked, JUDGEMENT_ITEMS, type Checklist } from '$lib/library/checklist';
+import { judgementItemsFor, judgementTicked, type Checklist } from '$lib/library/checklist';
 import { slugify, uniqueSlug } from '$lib/library/slug';
-import type { Decision } from '$lib/library/types';
+import type { Decision, SubmissionKind } from '$lib/library/types';
 import { config } from '../config';
 import { db } from '../db';
 import {
@@ -21,7 +21,12 @@ import {
 } from '../db/schema';
 import { sendMail } from '../mail';
 import { decisionMail } from './mail';
-import { copySegmentToLibrary, deleteVersionMedia } from './media';
+import {
+	copySegmentToLibrary,
+	copyVersionMedia,
+	deleteVersionMedia,
+	type CopiedMedia
+} from './media';
 import { forgetCatalogue } from './catalogue';
 import { reindexEntry } from './search-index';
 import { LibraryError, submissionForReview } from './submissions';
@@ -47,15 +52,42 @@ export interface DecisionResult {
 }
 
 /** The reasons an approval cannot go ahead, in words for the educator; empty when it can. */
-export function approvalBlockers(checklist: Checklist, judgement: readonly string[]): string[] {
+export function approvalBlockers(
+	checklist: Checklist,
+	judgement: readonly string[],
+	kind: SubmissionKind = 'exercise'
+): string[] {
 	const blockers = checklist.items
 		.filter((i) => !i.passed)
 		.map((i) => `Not yet met: ${i.label.toLowerCase()}.`);
-	const ticked = judgementTicked(judgement);
-	for (const item of JUDGEMENT_ITEMS) {
+	const ticked = judgementTicked(judgement, kind);
+	for (const item of judgementItemsFor(kind)) {
 		if (!ticked.includes(item.id)) blockers.push(`Confirm: ${item.label.toLowerCase()}.`);
 	}
 	return blockers;
+}
+
+/**
+ * Why a caption revision cannot be published onto its public exercise now, in words for the
+ * educator; null when it can. It must still revise the version on show, of an exercise on show.
+ */
+export function revisionProblem(
+	entry: Pick<LibraryExercise, 'status' | 'currentVersionId'> | null | undefined,
+	revisesVersionId: string | null
+): string | null {
+	if (!entry || !revisesVersionId) {
+		return 'The published exercise these captions were for is gone. Reject this submission.';
+	}
+	if (entry.status === 'retired') {
+		return 'This exercise was retired from the library, so its captions cannot change there. Reject this submission.';
+	}
+	if (entry.status === 'unpublished') {
+		return 'This exercise is unpublished; publish it again before approving caption changes, or request changes.';
+	}
+	if (entry.currentVersionId !== revisesVersionId) {
+		return 'A newer version was published after these caption changes were sent. Request changes, so the clinician sends them again on top of it.';
+	}
+	return null;
 }
 
 function entryIsTaken(slug: string): boolean {
@@ -81,7 +113,8 @@ export async function decideSubmission(
 ): Promise<DecisionResult> {
 	const found = submissionForReview(submissionId);
 	if (!found) throw new LibraryError(404, 'Not found.');
-	const { submission, checklist, segment } = found;
+	const { submission, checklist, segment, revises } = found;
+	const kind = submission.kind;
 	if (submission.status !== 'waiting') {
 		throw new LibraryError(409, 'This submission was already decided; reload to see the decision.');
 	}
@@ -89,22 +122,31 @@ export async function decideSubmission(
 	if (input.decision !== 'approved' && comment.length < 5) {
 		throw new LibraryError(400, 'Write the clinician a comment: say what to change or why.');
 	}
-	const judgement = judgementTicked(input.judgement);
+	const judgement = judgementTicked(input.judgement, kind);
 
 	let published: { version: LibraryVersion; entry: LibraryExercise } | null = null;
 	if (input.decision === 'approved') {
-		const blockers = approvalBlockers(checklist, judgement);
+		const blockers = approvalBlockers(checklist, judgement, kind);
 		if (blockers.length > 0) throw new LibraryError(400, blockers.join(' '));
-		if (!segment || segment.status !== 'ready') {
-			throw new LibraryError(
-				409,
-				'The clip behind this submission is no longer there (its recording may have been deleted). Request changes so the clinician can submit again.'
-			);
-		}
 		const versionId = crypto.randomUUID();
+		let copy: () => Promise<CopiedMedia>;
+		if (kind === 'captions') {
+			const problem = revisionProblem(found.entry, submission.revisesVersionId);
+			if (problem || !revises) throw new LibraryError(409, problem ?? 'Not found.');
+			// A caption revision shows the pictures of the version it revises: its own copies of them.
+			copy = () => copyVersionMedia(revises, versionId);
+		} else {
+			if (!segment || segment.status !== 'ready') {
+				throw new LibraryError(
+					409,
+					'The clip behind this submission is no longer there (its recording may have been deleted). Request changes so the clinician can submit again.'
+				);
+			}
+			copy = () => copySegmentToLibrary(segment, versionId);
+		}
 		let media;
 		try {
-			media = await copySegmentToLibrary(segment, versionId);
+			media = await copy();
 		} catch (error) {
 			await deleteVersionMedia(versionId).catch(() => undefined);
 			console.error(`[library] copying media for ${submission.id} failed:`, error);
@@ -162,6 +204,7 @@ export async function decideSubmission(
 
 	const mailed = await mailClinician(found.submitter?.email ?? null, submission.clinicId, {
 		decision: input.decision,
+		kind,
 		title: submission.snapshot.title,
 		reviewerName: reviewer.name,
 		comment,
@@ -209,6 +252,11 @@ function publishVersion(
 						.where(eq(libraryExercises.id, submission.libraryExerciseId))
 						.get()
 				: undefined;
+			if (submission.kind === 'captions') {
+				// Checked again inside the write: nothing else may have been published meanwhile.
+				const problem = revisionProblem(entry, submission.revisesVersionId);
+				if (problem) throw new LibraryError(409, problem);
+			}
 			// A retired exercise stays retired (its address answers 410); approving anew starts another.
 			if (!entry || entry.status === 'retired') {
 				entry = tx

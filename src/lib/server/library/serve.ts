@@ -11,6 +11,7 @@ import { apiCaller, apiError } from '../api';
 import { serveCaptionFile } from '../captions/serve';
 import { db } from '../db';
 import {
+	libraryVersions,
 	segments,
 	type LibrarySubmission,
 	type LibraryVersion,
@@ -94,7 +95,10 @@ export function educatorSubmission(
 	return { submission, segment };
 }
 
-/** The clip or a poster behind a submission, for the educator reviewing it. */
+/**
+ * The clip or a poster behind a submission, for the educator reviewing it: the clinic's segment
+ * files, or for a caption revision the public copies of the version it revises.
+ */
 export async function serveSubmissionAsset(
 	request: Request,
 	id: string,
@@ -102,7 +106,18 @@ export async function serveSubmissionAsset(
 ): Promise<Response> {
 	const found = educatorSubmission(id);
 	if (found instanceof Response) return found;
-	const stored = submissionAsset(found.submission, found.segment, asset);
+	const { submission } = found;
+	const revised =
+		submission.kind === 'captions' && submission.revisesVersionId
+			? db()
+					.select()
+					.from(libraryVersions)
+					.where(eq(libraryVersions.id, submission.revisesVersionId))
+					.get()
+			: undefined;
+	const stored = revised
+		? versionAsset(revised, asset)
+		: submissionAsset(submission, found.segment, asset);
 	if (!stored) return apiError(404, 'Not found.');
 	return serveObject(request, stored.key, stored.type);
 }

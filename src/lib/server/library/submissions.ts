@@ -6,22 +6,30 @@
  */
 import { dosageOf } from '$lib/dosage';
 import { and, asc, desc, eq, inArray, ne } from 'drizzle-orm';
-import { computeChecklist, type Checklist } from '$lib/library/checklist';
-import type { ExerciseSnapshot, Licence, SubmissionStatus } from '$lib/library/types';
+import { diffCues, type CueDiff } from '$lib/captions/diff';
+import { computeCaptionChecklist, computeChecklist, type Checklist } from '$lib/library/checklist';
+import type {
+	ExerciseSnapshot,
+	Licence,
+	SubmissionKind,
+	SubmissionStatus
+} from '$lib/library/types';
 import { db } from '../db';
-import { segmentCaptions } from '../segments';
+import { segmentCaptions, type SegmentCaptions } from '../segments';
 import {
 	clinics,
 	exercises,
 	libraryExercises,
 	libraryReviews,
 	librarySubmissions,
+	libraryVersions,
 	segments,
 	users,
 	type Exercise,
 	type LibraryExercise,
 	type LibraryReview,
 	type LibrarySubmission,
+	type LibraryVersion,
 	type SegmentRow
 } from '../db/schema';
 
@@ -196,10 +204,189 @@ export function submitExercise(
 	);
 }
 
-/** The computed checklist of a submission (or of a snapshot about to be submitted). */
+/** A published version by id; null if unknown. */
+export function findVersion(id: string): LibraryVersion | null {
+	return db().select().from(libraryVersions).where(eq(libraryVersions.id, id)).get() ?? null;
+}
+
+/** The newest public exercise made from this exercise, retired ones included; null if none. */
+function newestEntryForExercise(exerciseId: string): LibraryExercise | null {
+	return (
+		entryForExercise(exerciseId) ??
+		db()
+			.select()
+			.from(libraryExercises)
+			.where(eq(libraryExercises.sourceExerciseId, exerciseId))
+			.orderBy(desc(libraryExercises.createdAt))
+			.get() ??
+		null
+	);
+}
+
+/** How a public exercise's captions stand against what its segment shows now. */
+export interface CaptionRevision {
+	entry: LibraryExercise;
+	/** The version on show (or last shown, for an exercise taken down). */
+	version: LibraryVersion;
+	/** The segment's captions now: the recording's current track, clipped to it. */
+	captions: SegmentCaptions;
+	/** From the version's captions to these, cue by cue. */
+	diff: CueDiff;
+	/** Why the changes cannot be sent now, in words; null when they can. */
+	refusal: string | null;
+}
+
+const sameCues = (a: unknown, b: unknown) => JSON.stringify(a) === JSON.stringify(b);
+
+/**
+ * Whether the library's version of this exercise shows other captions than its segment does
+ * now (a fix saved in the studio reaches the clinic's patients at once, the library only
+ * through a caption revision). Null when there is nothing to compare: the exercise was never
+ * approved, or its segment is no longer the one the library shows (that is a new submission).
+ */
+export function captionRevisionOf(
+	exercise: Exercise,
+	segment: SegmentRow | null
+): CaptionRevision | null {
+	const entry = newestEntryForExercise(exercise.id);
+	const version = entry?.currentVersionId ? findVersion(entry.currentVersionId) : null;
+	if (!entry || !version || !segment || segment.id !== version.snapshot.segment.id) return null;
+	const captions = segmentCaptions(segment);
+	const diff = diffCues(version.snapshot.cues, captions.cues);
+	const undecided = db()
+		.select()
+		.from(librarySubmissions)
+		.where(
+			and(eq(librarySubmissions.exerciseId, exercise.id), eq(librarySubmissions.status, 'waiting'))
+		)
+		.orderBy(desc(librarySubmissions.createdAt))
+		.get();
+	let refusal: string | null = null;
+	if (entry.status === 'retired') {
+		refusal =
+			'This exercise was retired from the library, so its captions there cannot change. Submit the whole exercise to publish it anew.';
+	} else if (entry.status === 'unpublished') {
+		refusal =
+			'This exercise is unpublished from the library; caption changes can be sent once an educator publishes it again.';
+	} else if (exercise.status === 'retired') {
+		refusal = 'This exercise is retired, so it cannot go to the library.';
+	} else if (undecided?.kind === 'exercise') {
+		refusal =
+			'A submission of the whole exercise is waiting for review, with the captions it was sent with. Submit it again to include the new captions.';
+	} else if (diff.entries.length === 0) {
+		refusal = 'The captions are the same as in the library’s version; there is nothing to send.';
+	} else if (undecided && sameCues(undecided.snapshot.cues, captions.cues)) {
+		refusal = 'These caption changes are waiting for an educator’s review.';
+	}
+	return { entry, version, captions, diff, refusal };
+}
+
+/**
+ * Sends the segment's captions as they are now as a caption revision of the library's current
+ * version: its snapshot is that version's, with only the cues new, so approving it publishes
+ * the same clip and words with the new captions. `captionsVersion`, when given, is the track
+ * version the clinician looked at: captions saved since are refused rather than sent unseen.
+ * An earlier caption revision still waiting (or sent back) is replaced by this one.
+ */
+export function submitCaptionRevision(
+	clinician: { id: string; clinicId: string },
+	exerciseId: string,
+	input: { captionsVersion?: number; noteToReviewer: string }
+): LibrarySubmission {
+	const found = findClinicExercise(clinician.clinicId, exerciseId);
+	if (!found) throw new LibraryError(404, 'Not found.');
+	const { exercise, segment } = found;
+	const revision = captionRevisionOf(exercise, segment);
+	if (!revision) {
+		throw new LibraryError(
+			409,
+			'The library shows no version of this exercise with its segment; submit the whole exercise instead.'
+		);
+	}
+	if (revision.refusal) throw new LibraryError(409, revision.refusal);
+	if (input.captionsVersion !== undefined && input.captionsVersion !== revision.captions.version) {
+		throw new LibraryError(
+			409,
+			'The captions were saved again since this page was opened; look at the changes below, then send them.'
+		);
+	}
+	const { entry, version, captions } = revision;
+	const snapshot: ExerciseSnapshot = {
+		...version.snapshot,
+		segment: { ...version.snapshot.segment, captionsLanguage: captions.language },
+		cues: captions.cues.map((c) => ({ ...c }))
+	};
+	const approved = version.submissionId
+		? db()
+				.select({ consentDetails: librarySubmissions.consentDetails })
+				.from(librarySubmissions)
+				.where(eq(librarySubmissions.id, version.submissionId))
+				.get()
+		: undefined;
+	return db().transaction(
+		(tx) => {
+			// Checked again inside the write: a whole submission sent meanwhile wins.
+			const waitingWhole = tx
+				.select({ id: librarySubmissions.id })
+				.from(librarySubmissions)
+				.where(
+					and(
+						eq(librarySubmissions.exerciseId, exercise.id),
+						eq(librarySubmissions.kind, 'exercise'),
+						eq(librarySubmissions.status, 'waiting')
+					)
+				)
+				.get();
+			if (waitingWhole) {
+				throw new LibraryError(
+					409,
+					'A submission of the whole exercise is waiting for review, with the captions it was sent with. Submit it again to include the new captions.'
+				);
+			}
+			tx.update(librarySubmissions)
+				.set({ status: 'superseded', decidedAt: new Date() })
+				.where(
+					and(
+						eq(librarySubmissions.exerciseId, exercise.id),
+						eq(librarySubmissions.kind, 'captions'),
+						inArray(librarySubmissions.status, ['waiting', 'changes-requested'])
+					)
+				)
+				.run();
+			return tx
+				.insert(librarySubmissions)
+				.values({
+					clinicId: clinician.clinicId,
+					exerciseId: exercise.id,
+					segmentId: segment?.id ?? null,
+					libraryExerciseId: entry.id,
+					kind: 'captions',
+					revisesVersionId: version.id,
+					snapshot,
+					// The consent and licence are those the version was approved with.
+					consentConfirmed: true,
+					consentDetails: approved?.consentDetails ?? '',
+					licence: version.licence,
+					attribution: version.attribution,
+					noteToReviewer: input.noteToReviewer.trim(),
+					submittedBy: clinician.id
+				})
+				.returning()
+				.get();
+		},
+		{ behavior: 'immediate' }
+	);
+}
+
+/**
+ * The computed checklist of a submission (or of a snapshot about to be submitted): every item
+ * for a whole exercise, the caption items alone for a caption revision.
+ */
 export function checklistOf(
-	submission: Pick<LibrarySubmission, 'snapshot' | 'consentConfirmed' | 'licence' | 'attribution'>
+	submission: Pick<LibrarySubmission, 'snapshot' | 'consentConfirmed' | 'licence' | 'attribution'> &
+		Partial<Pick<LibrarySubmission, 'kind'>>
 ): Checklist {
+	if (submission.kind === 'captions') return computeCaptionChecklist(submission.snapshot);
 	return computeChecklist({
 		snapshot: submission.snapshot,
 		consentConfirmed: submission.consentConfirmed,
@@ -243,6 +430,7 @@ export interface QueueRow {
 	createdAt: Date;
 	decidedAt: Date | null;
 	status: SubmissionStatus;
+	kind: SubmissionKind;
 	/** Whether it would replace something already public. */
 	updatesPublished: boolean;
 	passed: number;
@@ -289,6 +477,7 @@ export function listQueue(view: QueueView = 'waiting', limit = 200): QueueRow[] 
 			createdAt: s.createdAt,
 			decidedAt: s.decidedAt,
 			status: s.status,
+			kind: s.kind,
 			updatesPublished: s.libraryExerciseId !== null,
 			passed: checklist.items.filter((i) => i.passed).length,
 			total: checklist.items.length
@@ -318,6 +507,8 @@ export interface SubmissionForReview {
 	checklist: Checklist;
 	/** The public exercise it would update, if any. */
 	entry: LibraryExercise | null;
+	/** For a caption revision: the version whose captions it replaces (null if it is gone). */
+	revises: LibraryVersion | null;
 	/** The segment row behind the clip (null when its recording was deleted since). */
 	segment: SegmentRow | null;
 }
@@ -372,6 +563,7 @@ export function submissionForReview(id: string): SubmissionForReview | null {
 		reviews,
 		checklist: checklistOf(s),
 		entry,
+		revises: s.revisesVersionId ? findVersion(s.revisesVersionId) : null,
 		segment
 	};
 }
