@@ -1,14 +1,20 @@
 import { error, fail, redirect } from '@sveltejs/kit';
 import { z } from 'zod';
+import { diffCues } from '$lib/captions/diff';
 import { plainText } from '$lib/captions/text';
 import { describeDosage } from '$lib/dosage';
-import { JUDGEMENT_ITEMS } from '$lib/library/checklist';
+import { captionChangeRows, captionChangeSummary } from '$lib/library/caption-changes';
+import { judgementItemsFor } from '$lib/library/checklist';
 import { DECISIONS, LICENCE_LABELS, type ExerciseSnapshot } from '$lib/library/types';
 import { requireRole } from '$lib/server/auth/guard';
 import { db } from '$lib/server/db';
 import { libraryVersions } from '$lib/server/db/schema';
 import { submissionUrls } from '$lib/server/library/media';
-import { approvalBlockers, decideSubmission } from '$lib/server/library/publishing';
+import {
+	approvalBlockers,
+	decideSubmission,
+	revisionProblem
+} from '$lib/server/library/publishing';
 import { LibraryError, submissionForReview } from '$lib/server/library/submissions';
 import { renderSafetyNotes } from '$lib/server/markdown';
 import { eq } from 'drizzle-orm';
@@ -40,8 +46,12 @@ export const load: PageServerLoad = ({ params }) => {
 	requireRole('educator');
 	const found = submissionForReview(params.id);
 	if (!found) error(404, 'Not found.');
-	const { submission: s, checklist, segment, entry } = found;
+	const { submission: s, checklist, segment, entry, revises } = found;
 	const snapshot = s.snapshot;
+	const judgementItems = judgementItemsFor(s.kind);
+	// A caption revision plays the clip of the version it revises; the rest, the clinic's segment.
+	const posterCount = s.kind === 'captions' ? revises?.posterCount : segment?.posterCount;
+	const diff = s.kind === 'captions' ? diffCues(revises?.snapshot.cues ?? [], snapshot.cues) : null;
 	const current = entry?.currentVersionId
 		? db()
 				.select()
@@ -52,6 +62,7 @@ export const load: PageServerLoad = ({ params }) => {
 	return {
 		submission: {
 			id: s.id,
+			kind: s.kind,
 			status: s.status,
 			createdAt: s.createdAt.toISOString(),
 			clinicName: found.clinicName,
@@ -76,19 +87,29 @@ export const load: PageServerLoad = ({ params }) => {
 			coachingCues: snapshot.coachingCues,
 			safetyHtml: renderSafetyNotes(snapshot.safetyNotes)
 		},
-		media: segment
+		media:
+			posterCount !== undefined
+				? {
+						...submissionUrls(s.id, posterCount),
+						language: snapshot.segment.captionsLanguage
+					}
+				: null,
+		revision: diff
 			? {
-					...submissionUrls(s.id, segment.posterCount),
-					language: snapshot.segment.captionsLanguage
+					version: revises?.version ?? null,
+					summary: captionChangeSummary(diff),
+					rows: captionChangeRows(diff),
+					problem: s.status === 'waiting' ? revisionProblem(entry, s.revisesVersionId) : null
 				}
 			: null,
 		lines: snapshot.cues.map((c) => ({ start: c.start, end: c.end, text: plainText(c.text) })),
 		checklist,
 		blockers: approvalBlockers(
 			checklist,
-			JUDGEMENT_ITEMS.map((j) => j.id)
+			judgementItems.map((j) => j.id),
+			s.kind
 		),
-		judgementItems: JUDGEMENT_ITEMS,
+		judgementItems,
 		reviews: found.reviews.map((r) => ({
 			id: r.id,
 			decision: r.decision,
