@@ -82,7 +82,8 @@ function post(exercise: Exercise, fields: Record<string, string>): Event {
 	} as unknown as Event;
 }
 
-type PageData = Exclude<Awaited<ReturnType<typeof load>>, void>;
+type PageData =
+	import('../../src/routes/(clinician)/exercises/[id=id]/submit/$types').PageServerData;
 const pageOf = (exercise: Exercise) =>
 	load({
 		params: { id: exercise.id },
