@@ -189,6 +189,51 @@ export function seedSubmission(exerciseId: string, submittedByEmail: string): st
 	return id;
 }
 
+/**
+ * A caption revision of a seeded public exercise's version, waiting for review: the version's
+ * snapshot with one cue changed. Its files are the version's public copies. Returns its id.
+ */
+export function seedCaptionRevision(
+	published: { entryId: string; versionId: string },
+	submittedByEmail: string
+): string {
+	const db = database();
+	const id = crypto.randomUUID();
+	try {
+		const version = db
+			.prepare('select snapshot, licence, attribution from library_version where id = ?')
+			.get(published.versionId) as { snapshot: string; licence: string; attribution: string };
+		const { clinicId } = db
+			.prepare('select clinic_id as clinicId from library_exercise where id = ?')
+			.get(published.entryId) as { clinicId: string };
+		const user = db.prepare('select id from user where email = ?').get(submittedByEmail) as {
+			id: string;
+		};
+		const snapshot = JSON.parse(version.snapshot) as { cues: SeedCue[] };
+		snapshot.cues = snapshot.cues.map((c, i) =>
+			i === 0 ? { ...c, text: `${c.text} Revised.` } : c
+		);
+		db.prepare(
+			`insert into library_submission (id, clinic_id, library_exercise_id, kind, revises_version_id, snapshot,
+			 consent_confirmed, consent_details, licence, attribution, status, submitted_by, created_at)
+			 values (?, ?, ?, 'captions', ?, ?, 1, '', ?, ?, 'waiting', ?, ?)`
+		).run(
+			id,
+			clinicId,
+			published.entryId,
+			published.versionId,
+			JSON.stringify(snapshot),
+			version.licence,
+			version.attribution,
+			user.id,
+			Date.now()
+		);
+	} finally {
+		db.close();
+	}
+	return id;
+}
+
 /** A collection in the given state holding the given public exercises in order; returns its ids. */
 export function seedCollection(
 	title: string,

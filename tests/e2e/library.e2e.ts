@@ -12,11 +12,13 @@ import {
 	database,
 	expectNoAxeViolations,
 	firstLink,
+	seedCaptionTrack,
 	seedReadyRecording,
 	signedInRequest,
 	storageClient,
 	waitForMail
 } from './support';
+import { E2E } from './ports';
 import { seedReadySegment } from './segments-support';
 import { seedCollection, seedExercise, seedPublicExercise } from './library-support';
 
@@ -394,4 +396,150 @@ test('an educator builds a collection in order, with a cover, and publishes it',
 	await educator.getByRole('button', { name: 'Unpublish the collection' }).click();
 	await expect(educator.getByText('Unpublished: its page answers “not found”.')).toBeVisible();
 	expect((await visitor.request.get('/library/collections/morning-routine')).status()).toBe(404);
+});
+
+/** A recording of the demo clinic with a captions track of `cues`, and an exercise on 0–9 s of it. */
+async function exerciseFollowingTrack(
+	title: string,
+	cues: { id: string; start: number; end: number; text: string }[]
+): Promise<{ exerciseId: string; trackId: string }> {
+	const recordingId = await seedReadyRecording(ACCOUNTS.clinician);
+	const trackId = seedCaptionTrack(recordingId, cues);
+	const segment = await seedReadySegment(recordingId, { title, end: 9, cues });
+	const exerciseId = seedExercise(segment, {
+		title,
+		description: 'Lying on your back, slide the heel towards you and back.'
+	});
+	return { exerciseId, trackId };
+}
+
+test('a caption fixed in the track reaches the library as a caption revision an educator approves', async ({
+	browser
+}) => {
+	test.setTimeout(180_000);
+	const title = `Heel slides with captions ${RUN}`;
+	const cues = [
+		{ id: '1', start: 0.5, end: 2.5, text: 'Lie on your back.' },
+		{ id: '2', start: 3.5, end: 5.5, text: 'Slide the heel in.' },
+		{ id: '3', start: 6.5, end: 8.5, text: 'And slide it out.' }
+	];
+	const { exerciseId: id, trackId } = await exerciseFollowingTrack(title, cues);
+
+	// Published first, through the ordinary path.
+	const clinician = await asNewPerson(browser, ACCOUNTS.clinician);
+	await clinician.goto(`/exercises/${id}/submit`);
+	await expect(clinician.getByTestId('submit-checklist')).not.toContainText('Does not pass');
+	await clinician.getByLabel(/Everyone who can be seen or heard/).check();
+	await clinician.getByRole('button', { name: 'Submit for review' }).click();
+	await expect(clinician.getByText('Submitted. It is waiting for an educator')).toBeVisible();
+	const educator = await asNewPerson(browser, ACCOUNTS.educator);
+	const decide = async (heading: string) => {
+		await educator.goto('/curate');
+		await educator.getByTestId('review-queue').getByRole('link', { name: title }).click();
+		await expect(educator.getByRole('heading', { name: heading, level: 1 })).toBeVisible();
+	};
+	await decide(`Review: ${title}`);
+	for (const box of await educator.getByRole('checkbox').all()) await box.check();
+	await educator.getByLabel('Approve and publish').check();
+	await educator.getByRole('button', { name: 'Record the decision' }).click();
+	await expect(educator.getByText('Approved and published.')).toBeVisible();
+	const publicPage = await educator
+		.getByRole('link', { name: 'See it in the library' })
+		.getAttribute('href');
+	const visitor = await asNewPerson(browser, null);
+	const publicCaptions = async () => {
+		await visitor.goto(publicPage!);
+		const src = await visitor.getByTestId('library-player').locator('track').getAttribute('src');
+		return { src: src!, text: await (await visitor.request.get(src!)).text() };
+	};
+	const first = await publicCaptions();
+	expect(first.text).toContain('Slide the heel in.');
+
+	// The clinician fixes a caption in the track (the studio's save): patients see it at once.
+	const saved = await clinician.request.post(`/api/tracks/${trackId}/versions`, {
+		data: {
+			baseVersion: 1,
+			cues: cues.map((c) => (c.id === '2' ? { ...c, text: 'Slide the heel in, unhurried.' } : c))
+		},
+		headers: { Origin: E2E.origin }
+	});
+	expect(saved.status()).toBe(201);
+
+	// The exercise's submit page offers to send the caption changes to the library.
+	await clinician.goto(`/exercises/${id}`);
+	await clinician.getByRole('link', { name: 'Submit to the library' }).click();
+	const offer = clinician.getByRole('region', { name: 'The library shows older captions' });
+	await expect(offer).toContainText('1 cue changed');
+	const changes = offer.getByTestId('revision-changes');
+	await expect(changes).toContainText('Slide the heel in.');
+	await expect(changes).toContainText('Slide the heel in, unhurried.');
+	await expectNoAxeViolations(clinician);
+	await offer.getByLabel('Note to the reviewer (optional, not public)').fill('One word added.');
+	await offer.getByRole('button', { name: 'Send the caption changes to the library' }).click();
+	await expect(clinician.getByText('Caption changes sent.')).toBeVisible();
+	await expect(
+		clinician.getByRole('region', { name: 'The library shows older captions' })
+	).toContainText('These caption changes are waiting for an educator’s review.');
+
+	// The educator sees the change cue by cue, with only the caption checks, and approves it.
+	await educator.goto('/curate');
+	await expect(
+		educator.getByTestId('review-queue').getByRole('row', { name: new RegExp(title) })
+	).toContainText('Caption changes to a published exercise');
+	await decide(`Review caption changes: ${title}`);
+	const table = educator.getByTestId('caption-changes');
+	await expect(table.getByRole('row')).toHaveCount(2);
+	await expect(table).toContainText('Slide the heel in, unhurried.');
+	const checklist = educator.getByTestId('checklist');
+	await expect(checklist.locator(':scope > li')).toHaveCount(2);
+	await expect(checklist).toContainText('Passes: No patient data in the captions');
+	await expect(educator.getByText('Note from the clinician')).toBeVisible();
+	await educator.screenshot({ path: join(SHOTS, 'library-caption-revision.png'), fullPage: true });
+	await expectNoAxeViolations(educator);
+	for (const box of await educator.getByRole('checkbox').all()) await box.check();
+	await educator.getByLabel('Approve and publish').check();
+	await educator.getByRole('button', { name: 'Record the decision' }).click();
+	await expect(educator.getByText('Approved and published.')).toBeVisible();
+
+	// The public page serves the new captions from a new version; the old version is not served.
+	const second = await publicCaptions();
+	expect(second.src).not.toBe(first.src);
+	expect(second.text).toContain('Slide the heel in, unhurried.');
+	expect((await visitor.request.get(first.src)).status()).toBe(404);
+	await expectNoAxeViolations(visitor);
+});
+
+test('a caption read a little too fast is fixed from the checklist, and the exercise submitted', async ({
+	browser
+}) => {
+	test.setTimeout(90_000);
+	const title = `Heel slides read fast ${RUN}`;
+	// Ten words in 2.95 s: 203 words per minute against the library's 200.
+	const { exerciseId: id } = await exerciseFollowingTrack(title, [
+		{ id: '1', start: 0, end: 2, text: 'Lie on your back.' },
+		{ id: '2', start: 3, end: 5.95, text: 'Bend the knee and slide the heel back in slowly' },
+		{ id: '3', start: 7.5, end: 8.8, text: 'Then rest.' }
+	]);
+	const clinician = await asNewPerson(browser, ACCOUNTS.clinician);
+	await clinician.goto(`/exercises/${id}/submit`);
+	const checks = clinician.getByTestId('submit-checklist');
+	await expect(checks).toContainText('Does not pass: Captions pass the caption checks');
+	await expect(checks).toContainText('Reading rate 203 words per minute');
+	await clinician.getByLabel('Description').fill('Slide the heel towards you, then away again.');
+
+	await clinician
+		.getByTestId('cue-fixes')
+		.getByRole('button', { name: 'Show cue 2 until 00:06.334 (0.38 s longer)' })
+		.click();
+	await expect(clinician.getByText('Saved as version 2 of the recording’s captions')).toBeVisible();
+	await expect(checks).toContainText('Passes: Captions pass the caption checks');
+	await expect(checks).not.toContainText('Does not pass');
+	await expect(clinician.getByLabel('Description')).toHaveValue(
+		'Slide the heel towards you, then away again.'
+	);
+	await expectNoAxeViolations(clinician);
+
+	await clinician.getByLabel(/Everyone who can be seen or heard/).check();
+	await clinician.getByRole('button', { name: 'Submit for review' }).click();
+	await expect(clinician.getByText('Submitted. It is waiting for an educator')).toBeVisible();
 });

@@ -1,6 +1,7 @@
 import { ACCOUNTS } from '../support';
 import { seedReadySegment } from '../segments-support';
 import {
+	seedCaptionRevision,
 	seedCollection,
 	seedExercise,
 	seedPublicExercise,
@@ -62,6 +63,12 @@ const submissionRows = (route: string, file: (submissionId: string) => string): 
 	},
 	{
 		route,
+		note: 'a caption revision under review (its files are the revised version’s copies)',
+		path: (f) => file(f.extra.captionRevisionId),
+		expect: educatorApi(200)
+	},
+	{
+		route,
 		note: 'an id that is no submission',
 		path: () => file(crypto.randomUUID()),
 		expect: educatorApi(404)
@@ -96,6 +103,7 @@ export const libraryPart: MatrixPart = {
 			slug: `matrix-retired-exercise-${RUN}`,
 			status: 'retired'
 		});
+		const captionRevisionId = seedCaptionRevision(published, ACCOUNTS.clinician);
 		const collection = seedCollection(
 			'Matrix collection',
 			`matrix-collection-${RUN}`,
@@ -113,6 +121,7 @@ export const libraryPart: MatrixPart = {
 			libraryExerciseId: exerciseId,
 			otherClinicLibraryExerciseId: otherClinicExerciseId,
 			submissionId,
+			captionRevisionId,
 			publishedVersionId: published.versionId,
 			unpublishedVersionId: unpublished.versionId,
 			retiredVersionId: retired.versionId,
@@ -232,6 +241,12 @@ export const libraryPart: MatrixPart = {
 			route: '/(educator)/curate/submissions/[id=id]',
 			note: "a submission from the educator's own clinic",
 			path: (f) => `/curate/submissions/${f.extra.submissionId}`,
+			expect: onlyPage('educator')
+		},
+		{
+			route: '/(educator)/curate/submissions/[id=id]',
+			note: 'a caption revision',
+			path: (f) => `/curate/submissions/${f.extra.captionRevisionId}`,
 			expect: onlyPage('educator')
 		},
 		{
