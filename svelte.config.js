@@ -14,6 +14,8 @@ const config = {
 				include: [...tsconfig.include, '../fakes/**/*.ts', '../drizzle.config.ts']
 			})
 		},
+		// The patient pages register it themselves (src/lib/offline/register.ts): staff never get it.
+		serviceWorker: { register: false },
 		// Auth.js relies on SvelteKit's Origin check for form posts (on by default; never turn it off).
 		csp: {
 			mode: 'auto',
@@ -25,6 +27,7 @@ const config = {
 				'media-src': ['self', 'blob:'],
 				'font-src': ['self'],
 				'connect-src': ['self'],
+				'worker-src': ['self'],
 				'object-src': ['none'],
 				'base-uri': ['self'],
 				'form-action': ['self'],
