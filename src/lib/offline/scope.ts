@@ -1,5 +1,5 @@
 /**
- * What the service worker (src/service-worker.ts) may keep for offline use, by address: the
+ * What the service worker (src/service-worker) may keep for offline use, by address: the
  * patient's two pages and the files of a segment they replay. Nothing else is ever stored for a
  * person; the app's built files are public and kept apart.
  */

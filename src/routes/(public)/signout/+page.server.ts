@@ -9,6 +9,11 @@ export const actions: Actions = {
 	default: async (event) => {
 		// Ending the server's record is what ends the session; Auth.js then clears the cookie.
 		endSession(event.locals.sessionId ?? undefined);
+		// The browser's HTTP cache may still hold this person's clips (private, max-age=300).
+		// Not "storage": that would also delete session logs still waiting to be sent, which
+		// are kept per patient until they reach the server; the sign-out form and the signed-out
+		// page delete the offline copies themselves (src/lib/offline/forget.ts).
+		event.setHeaders({ 'Clear-Site-Data': '"cache"' });
 		try {
 			await signOut(event);
 		} catch (thrown) {
