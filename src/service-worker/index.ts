@@ -70,7 +70,7 @@ sw.addEventListener('fetch', (event) => {
 	if (request.method !== 'GET') return;
 	const url = new URL(request.url);
 	if (url.origin !== sw.location.origin) return;
-	if (APP_FILES.has(url.pathname)) {
+	if (APP_FILES.has(url.pathname) || url.pathname.startsWith('/_app/immutable/')) {
 		event.respondWith(appFile(request));
 		return;
 	}
@@ -90,8 +90,13 @@ sw.addEventListener('message', (event) => {
 	event.waitUntil(enqueue(() => keep(message)));
 });
 
+/** A built file: from this build's cache, else the build before's (immutable names), else the network. */
 async function appFile(request: Request): Promise<Response> {
-	return (await caches.match(request, { cacheName: APP_CACHE })) ?? fetch(request);
+	return (
+		(await caches.match(request, { cacheName: APP_CACHE })) ??
+		(await caches.match(request)) ??
+		fetch(request)
+	);
 }
 
 /** The one patient cache on this phone (there is never more than one), or null. */
