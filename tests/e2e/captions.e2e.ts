@@ -74,7 +74,7 @@ test('a clinician imports a WebVTT file, and the recording plays it as its capti
 	await expectNoAxeViolations(page);
 
 	await page.getByLabel('Kind').selectOption('captions');
-	await page.getByLabel('Language tag').fill('en-gb');
+	await page.getByLabel('Language', { exact: true }).fill('en-gb');
 	await page.getByRole('button', { name: 'Make track' }).click();
 	const tracks = page.getByTestId('tracks');
 	await expect(tracks).toContainText('British English');

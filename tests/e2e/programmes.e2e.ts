@@ -283,7 +283,7 @@ test('a clinician adds a patient, builds a flagged programme by keyboard, publis
 	await first.getByLabel('Reps', { exact: true }).fill('40');
 	await expect(first).toContainText('Dosage flag: Reps is 40, above');
 	await first.getByLabel('Reps', { exact: true }).fill('12');
-	await expect(first).toContainText('Changed for this patient (default 10)');
+	await expect(first).toContainText('Changed for this patient (starting dosage 10)');
 	await expect(first).toContainText('12 reps a session');
 	await expect(first).not.toContainText('Dosage flag');
 
@@ -317,7 +317,7 @@ test('a clinician adds a patient, builds a flagged programme by keyboard, publis
 	await expect(page.getByRole('img', { name: /QR code that opens the video/ })).toHaveCount(2);
 	await expect(page.getByText('1 set of 12 reps; 4 times a day, every day.')).toBeVisible();
 	await expect(page.getByRole('heading', { name: 'Key cues' }).first()).toBeVisible();
-	const replayLinks = await page.getByText(/Scan to watch, or open/).allTextContents();
+	const replayLinks = await page.getByText(/Scan to watch, or type/).allTextContents();
 	expect(replayLinks).toHaveLength(2);
 	await expectNoAxeViolations(page);
 	await page.emulateMedia({ media: 'print' });
@@ -337,9 +337,10 @@ test('a clinician adds a patient, builds a flagged programme by keyboard, publis
 	await patient.getByLabel('Your name').fill(NEW_PATIENT);
 	await patient.getByRole('button', { name: 'Accept and create my account' }).click();
 	await expect(patient).toHaveURL(/\/today$/);
-	const replay = replayLinks[0].match(/https?:\/\/\S+\/replay\/[0-9a-f-]{36}/)![0];
-	const answer = await patient.goto(new URL(replay).pathname);
+	const printed = replayLinks[0].match(/https?:\/\/\S+\/r\/[0-9A-Z]{8}/)![0];
+	const answer = await patient.goto(new URL(printed).pathname);
 	expect(answer?.status()).toBe(200);
+	await expect(patient).toHaveURL(/\/replay\/[0-9a-f-]{36}$/);
 	await guest.close();
 });
 

@@ -1,4 +1,7 @@
 import { expect, request, type APIRequestContext, type Page } from '@playwright/test';
+import { EXERCISE_TAGS, PRECAUTIONS } from '../../src/lib/clinical/precautions';
+import { PROTOCOL_IDS } from '../../src/lib/clinical/phases';
+import { MOTIONS } from '../../src/lib/clinical/rom';
 import AxeBuilder from '@axe-core/playwright';
 import Database from 'better-sqlite3';
 import { PutObjectCommand, S3Client } from '@aws-sdk/client-s3';
@@ -138,8 +141,30 @@ export function firstLink(text: string, pathPart: string): string {
 	return link;
 }
 
-/** Runs axe-core on the current page and expects no violations at WCAG 2.x A/AA. */
+/**
+ * The words Kinelume stores as ids (precautions, exercise tags, motions, protocols): a screen
+ * shows their labels, never these. Only the hyphenated ones, which no sentence contains by chance.
+ */
+const RAW_IDS = [
+	...Object.keys(PRECAUTIONS),
+	...Object.keys(EXERCISE_TAGS),
+	...Object.keys(MOTIONS),
+	...PROTOCOL_IDS
+].filter((id) => id.includes('-'));
+
+/** Expects the page's visible text to hold no raw vocabulary id. */
+export async function expectNoRawIds(page: Page) {
+	const text = await page.locator('body').innerText();
+	const found = RAW_IDS.filter((id) => new RegExp(`(^|[^\\w-])${id}($|[^\\w-])`).test(text));
+	expect(found, `raw vocabulary ids on ${page.url()}`).toEqual([]);
+}
+
+/**
+ * Runs axe-core on the current page and expects no violations at WCAG 2.x A/AA, and (every page
+ * a test scans this way) no raw vocabulary id in its text.
+ */
 export async function expectNoAxeViolations(page: Page) {
+	await expectNoRawIds(page);
 	const results = await new AxeBuilder({ page })
 		.withTags(['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa', 'wcag22aa', 'best-practice'])
 		.analyze();

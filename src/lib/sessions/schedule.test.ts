@@ -5,6 +5,7 @@ import {
 	instantAt,
 	describeExerciseDays,
 	describeWeekdays,
+	nextSessionWhen,
 	restWords,
 	itemDayStatus,
 	itemSchedule,
@@ -204,5 +205,15 @@ describe('a short first week of any N days (review cases)', () => {
 		expect(
 			itemDayStatus(paused, '2026-03-05', ['2026-03-02', '2026-03-03', '2026-03-04']).kind
 		).toBe('due');
+	});
+});
+
+describe('when the next session is, in words', () => {
+	it('never calls midnight a good time', () => {
+		expect(nextSessionWhen(14 * 60, 10 * 60)).toBe('around 14:00');
+		expect(nextSessionWhen(9 * 60, 10 * 60)).toBe('now is a good time (suggested for 09:00)');
+		expect(nextSessionWhen(19 * 60, 23 * 60 + 50)).toBe(
+			'suggested for 19:00; if it is late for you, start fresh tomorrow'
+		);
 	});
 });

@@ -236,3 +236,19 @@ export function longDate(date: LocalDate, withYear = false): string {
 	if (withYear) words.push(get('year'));
 	return words.join(' ');
 }
+
+/** How late a suggested session may still be called "a good time" (common practice: evening). */
+export const LATEST_GOOD_MINUTE = 21 * 60;
+
+/**
+ * When the next session is, in words: "around 14:00" ahead of its time; "now is a good time
+ * (suggested for 09:00)" once its time has come during the day; late at night only the
+ * suggested time, since midnight is not a good time to exercise.
+ */
+export function nextSessionWhen(suggestedMinutes: number, nowMinutes: number): string {
+	if (suggestedMinutes > nowMinutes) return `around ${clockTime(suggestedMinutes)}`;
+	if (nowMinutes < LATEST_GOOD_MINUTE) {
+		return `now is a good time (suggested for ${clockTime(suggestedMinutes)})`;
+	}
+	return `suggested for ${clockTime(suggestedMinutes)}; if it is late for you, start fresh tomorrow`;
+}

@@ -63,6 +63,20 @@ export function dosageOn(programme: Programme, item: ProgrammeItem, date: LocalD
 	return dosageForWeek(dosageOf(item), item.progression, week);
 }
 
+/** The width and height of a segment's clip: its recording's picture as displayed. */
+export function clipShape(segment: Pick<SegmentRow, 'recordingId'>): {
+	width: number | null;
+	height: number | null;
+} {
+	return (
+		db()
+			.select({ width: schema.recordings.width, height: schema.recordings.height })
+			.from(schema.recordings)
+			.where(eq(schema.recordings.id, segment.recordingId))
+			.get() ?? { width: null, height: null }
+	);
+}
+
 /** The media of a segment, through the segment endpoints (which check the viewer themselves). */
 export function segmentMedia(segment: Pick<SegmentRow, 'id' | 'posterCount'>) {
 	const base = `/api/segments/${segment.id}`;
@@ -110,6 +124,8 @@ export interface TodayItem {
 	/** The clinician's range targets and limits that hold today, in plain words. */
 	rangeGuides: string[];
 	poster: string | null;
+	/** The clip's width and height, so its still is drawn in the clip's own shape. */
+	shape: { width: number | null; height: number | null };
 	hasVideo: boolean;
 }
 
@@ -245,6 +261,7 @@ export function todayFor(patient: Patient, now: number = Date.now()): TodayView 
 			days: describeExerciseDays(schedule),
 			rangeGuides: rangeGuideWords(patient, item, exercise, today),
 			poster: ready && segment ? segmentMedia(segment).poster : null,
+			shape: segment ? clipShape(segment) : { width: null, height: null },
 			hasVideo: ready
 		};
 	});

@@ -10,6 +10,7 @@ import {
 	findReplayItem,
 	hasAcknowledged,
 	itemToday,
+	clipShape,
 	rangeGuideWords,
 	slingOn,
 	segmentMedia,
@@ -57,6 +58,7 @@ export const load: PageServerLoad = ({ params }) => {
 		captionStyle: captionStyleOf(patient),
 		today: itemToday(patient.id, programme, item, today),
 		rangeGuides: rangeGuideWords(patient, item, exercise, today),
+		shape: segment ? clipShape(segment) : null,
 		slingUntil: slingOn(patient, today)
 	};
 };
