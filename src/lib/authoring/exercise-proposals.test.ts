@@ -10,7 +10,12 @@ const cues: Cue[] = [
 	{ id: '2', start: 3, end: 6.5, text: 'Lie on your back and hold a stick in both hands.' },
 	{ id: '3', start: 6.5, end: 10, text: 'Your good arm does the work; let the other arm relax.' },
 	{ id: '4', start: 10, end: 13, text: 'Do one set of eight, a few times a day.' },
-	{ id: '5', start: 13, end: 16, text: 'You may feel some tightness at the end. Stop if it is painful.' }
+	{
+		id: '5',
+		start: 13,
+		end: 16,
+		text: 'You may feel some tightness at the end. Stop if it is painful.'
+	}
 ];
 
 describe('draft exercises for a recording’s segments', () => {
