@@ -127,7 +127,9 @@ test('a clinician builds the early shoulder programme; the patient sees how to m
 	await expect(page.getByText(`Published and e-mailed to ${name}.`)).toBeVisible();
 	// The printed sheet carries the limit and the sling period too.
 	await page.getByRole('link', { name: 'Printable sheet' }).click();
-	await expect(page.getByText(/no further than 20° up to and including .*, moved for you/)).toBeVisible();
+	await expect(
+		page.getByText(/no further than 20° up to and including .*, moved for you/)
+	).toBeVisible();
 	await expect(
 		page.getByText(/wear your sling between sessions up\s+to and including/)
 	).toBeVisible();
