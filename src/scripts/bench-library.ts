@@ -169,7 +169,7 @@ async function main(): Promise<void> {
 		const app = await startApp(run, buildCopy);
 		const agent = new Agent({ keepAlive: true, maxSockets: CLIENTS });
 		const first = await get(agent, `${run.appUrl}/library/exercises/${slugs[0]}`);
-		if (first.status !== 200 || !first.body.includes('Typical starting dosage')) {
+		if (first.status !== 200 || !first.body.includes('Starting dosage')) {
 			throw new Error(`the exercise page answered ${first.status} without the exercise`);
 		}
 		for (const [name, path] of [

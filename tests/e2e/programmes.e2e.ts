@@ -176,16 +176,20 @@ test('a clinician makes an exercise from a segment, with cues, safety notes and 
 	await expect(page.getByLabel('Title')).toHaveValue(NEW_EXERCISE);
 	await page.getByLabel('Reps', { exact: true }).fill('8');
 
-	await page.getByRole('button', { name: 'Add a cue' }).click();
-	await page.getByLabel('Cue 1', { exact: true }).fill('Kneel on the cushion, back straight.');
+	await page.getByRole('button', { name: 'Add a key point' }).click();
+	await page
+		.getByLabel('Key point 1', { exact: true })
+		.fill('Kneel on the cushion, back straight.');
 	await page.getByLabel('Time').first().fill('0:03');
-	await page.getByRole('button', { name: 'Add a cue' }).click();
-	await page.getByLabel('Cue 2', { exact: true }).fill('Reach forward slowly.');
+	await page.getByRole('button', { name: 'Add a key point' }).click();
+	await page.getByLabel('Key point 2', { exact: true }).fill('Reach forward slowly.');
 	// Reordering cues by keyboard keeps focus on the moved cue.
-	await page.getByRole('button', { name: 'Move cue 2 up' }).focus();
+	await page.getByRole('button', { name: 'Move key point 2 up' }).focus();
 	await page.keyboard.press('Enter');
-	await expect(page.getByLabel('Cue 1', { exact: true })).toHaveValue('Reach forward slowly.');
-	await expect(page.getByRole('button', { name: 'Move cue 1 down' })).toBeFocused();
+	await expect(page.getByLabel('Key point 1', { exact: true })).toHaveValue(
+		'Reach forward slowly.'
+	);
+	await expect(page.getByRole('button', { name: 'Move key point 1 down' })).toBeFocused();
 
 	await page
 		.getByLabel('Safety notes')
@@ -202,7 +206,9 @@ test('a clinician makes an exercise from a segment, with cues, safety notes and 
 	await page.getByRole('button', { name: 'Save the exercise' }).click();
 	await expect(page).toHaveURL(/\/exercises\/[0-9a-f-]{36}\?saved=1$/);
 	await expect(page.getByText('The exercise is saved.')).toBeVisible();
-	await expect(page.getByLabel('Cue 1', { exact: true })).toHaveValue('Reach forward slowly.');
+	await expect(page.getByLabel('Key point 1', { exact: true })).toHaveValue(
+		'Reach forward slowly.'
+	);
 	await expectNoAxeViolations(page);
 
 	await page.goto('/exercises?q=kneeling&status=ready');
