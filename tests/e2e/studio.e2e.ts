@@ -286,6 +286,118 @@ test('a fix far down a long list works on the first click', async ({ page }) => 
 	// One click, as a person would make it: the fix must land on the first try.
 	await last.getByRole('button', { name: /Fix: Lengthen into the gap/ }).click();
 	await expect(page.getByRole('list', { name: 'Checks of cue 13' })).toHaveCount(0);
+
+	// The same Fix in the checks panel, after the list has scrolled to the bottom, also needs one click.
+	await page.getByRole('button', { name: 'Undo' }).click();
+	await expect(last).toContainText('Error: Reading rate');
+	await page
+		.getByTestId('findings')
+		.getByRole('button', { name: 'Fix: Lengthen into the gap (cue 13)' })
+		.click();
+	await expect(page.getByRole('list', { name: 'Checks of cue 13' })).toHaveCount(0);
+});
+
+test('findings are grouped by kind with their guideline once, and Fix all mends a kind in one saved step', async ({
+	page
+}) => {
+	test.setTimeout(90_000);
+	await page.setViewportSize({ width: 1366, height: 768 });
+	// Three lines too long that fit in two lines, and three gaps under the BBC's 1 s, the last of
+	// which cannot close: its cue would then be on screen for 7.1 s, over the 7 s of common practice.
+	const seeded = [
+		{ id: 'lie', start: 0, end: 3, text: 'Lie on your back with both legs straight out.' },
+		{ id: 'bend', start: 3.4, end: 7.4, text: 'Bend one knee and keep that foot flat on the bed.' },
+		{
+			id: 'slide',
+			start: 7.8,
+			end: 14.2,
+			text: 'Slide your heel up towards you, then slowly back down.'
+		},
+		{ id: 'hold', start: 14.9, end: 18.5, text: 'Hold it there and breathe.' }
+	];
+	const trackId = seedCaptionTrack(recordingId, seeded, { language: 'en-AU' });
+	await signInWithPassword(page, ACCOUNTS.clinician);
+	await openStudio(page, trackId);
+	await page.getByLabel('Check against').selectOption('bbc');
+
+	const findings = page.getByTestId('findings');
+	const group = (title: string) =>
+		page.getByTestId('finding-group').filter({ has: page.getByRole('heading', { name: title }) });
+	const lines = group('Lines too long');
+	const gaps = group('Gaps too short');
+	await expect(page.getByTestId('checks-summary')).toContainText('6 warnings');
+	await expect(
+		findings.getByRole('list', { name: 'Kinds of finding' }).getByRole('listitem')
+	).toHaveText([/Lines too long\s*3/, /Gaps too short\s*3/]);
+	await expect(lines.getByRole('heading', { level: 3 })).toHaveText(/^Lines too long\s*3 cues$/);
+	await expect(gaps.getByRole('heading', { level: 3 })).toHaveText(/^Gaps too short\s*3 cues$/);
+	// The guideline is named once for its kind, not on each of its three findings.
+	await expect(
+		findings.getByText('BBC Subtitle Guidelines (2026 edition): at most 37 characters per line')
+	).toHaveCount(1);
+	await expect(findings.getByText('gaps between subtitles, if any, at least 1 s')).toHaveCount(1);
+	await expect(lines.getByRole('listitem')).toHaveCount(3);
+	await expect(
+		lines.getByRole('button', { name: /^Fix: Re-flow the lines \(cue \d\)$/ })
+	).toHaveCount(3);
+	await expectNoAxeViolations(page);
+	// The checks panel at the top of a 1366 px window, a little room above its heading.
+	await page.getByRole('region', { name: 'Checks', exact: true }).evaluate((panel) => {
+		panel.scrollIntoView({ block: 'start' });
+		window.scrollBy(0, -16);
+	});
+	await page.screenshot({ path: join(shots, 'studio-grouped.png') });
+	// One click fixes the kind; its group goes and the words are the same words.
+	await lines.getByRole('button', { name: 'Fix all 3: lines too long' }).click();
+	await expect(lines).toHaveCount(0);
+	await expect(page.getByTestId('fix-report')).toHaveText(
+		'Lines too long: fixed 3 cues in one step (Undo puts them back).'
+	);
+	await expect(page.getByTestId('fix-report')).toBeFocused();
+	const words = (text: string) => text.split(/\s+/).filter(Boolean);
+	for (const [i, cue] of seeded.entries()) {
+		const value = await page.getByLabel(`Words of cue ${i + 1}`).inputValue();
+		expect(words(value)).toEqual(words(cue.text));
+		for (const line of value.split('\n')) expect(line.length).toBeLessThanOrEqual(37);
+	}
+	await expect(page.getByLabel('Words of cue 1')).toHaveValue(
+		'Lie on your back with\nboth legs straight out.'
+	);
+
+	// A kind that cannot all be fixed says which stayed and why.
+	await gaps.getByRole('button', { name: 'Fix all 3: gaps too short' }).click();
+	await expect(gaps.getByTestId('fix-report')).toHaveText(
+		'Gaps too short: fixed 2 cues in one step (Undo puts them back). One is left; why is written under it.'
+	);
+	await expect(gaps.getByRole('heading', { level: 3 })).toHaveText(/^Gaps too short\s*1 cue$/);
+	await expect(gaps.getByRole('listitem')).toHaveText([
+		/Cue 3 · Warning: A 0.7 s gap before the next cue flickers.*Not fixed: Closing the gap would leave a cue on screen too long\./
+	]);
+	await expectNoAxeViolations(page);
+
+	// Each Fix all was one undo step.
+	await page.getByRole('button', { name: 'Undo' }).click();
+	await expect(gaps.getByRole('heading', { level: 3 })).toHaveText(/3 cues$/);
+	await expect(page.getByLabel('Words of cue 1')).toHaveValue(
+		'Lie on your back with\nboth legs straight out.'
+	);
+	await page.getByRole('button', { name: 'Redo' }).click();
+	await expect(gaps.getByRole('heading', { level: 3 })).toHaveText(/1 cue$/);
+
+	// Saved like any edit: after a reload the fixes are there.
+	await page.keyboard.press('Control+s');
+	await expect(saveState(page)).toHaveText(/^Saved as version \d+$/, { timeout: 15_000 });
+	const saved = await serverVersion(trackId);
+	expect(saved.cues.map((c) => c.end)).toEqual([3.4, 7.8, 14.2, 18.5]);
+	expect(saved.cues.map((c) => words(c.text))).toEqual(seeded.map((c) => words(c.text)));
+	await page.reload();
+	await expect(page.getByTestId('studio')).toHaveAttribute('data-ready', 'true');
+	await page.getByLabel('Check against').selectOption('bbc');
+	await expect(page.getByLabel('Words of cue 2')).toHaveValue(
+		'Bend one knee and keep\nthat foot flat on the bed.'
+	);
+	await expect(group('Lines too long')).toHaveCount(0);
+	await expect(group('Gaps too short').getByRole('listitem')).toHaveCount(1);
 });
 
 test('a save that meets a newer version shows both side by side and overwrites nothing', async ({
