@@ -1,3 +1,4 @@
+import { compressed, withStrongPageValidator } from '$lib/server/compress';
 import {
 	error,
 	redirect,
@@ -133,6 +134,12 @@ const authorization: Handle = async ({ event, resolve }) => {
 	return resolve(event);
 };
 
+/** Pages and JSON gzipped for browsers that accept it (lib/server/compress). */
+const compression: Handle = async ({ event, resolve }) => {
+	withStrongPageValidator(event.request);
+	return compressed(event.request, await resolve(event));
+};
+
 const securityHeaders: Handle = async ({ event, resolve }) => {
 	let response = await resolve(event);
 	// Responses made by Auth.js (redirects) come with immutable headers; copy them to add ours.
@@ -169,6 +176,7 @@ function isImmutable(response: Response): boolean {
 }
 
 export const handle = sequence(
+	compression,
 	securityHeaders,
 	requestContext,
 	contentTypeRequired,
