@@ -322,7 +322,7 @@ test('a clinician adds a patient, builds a flagged programme by keyboard, publis
 	await page.getByRole('link', { name: 'Printable sheet' }).click();
 	await expect(page.getByRole('img', { name: /QR code that opens the video/ })).toHaveCount(2);
 	await expect(page.getByText('1 set of 12 reps; 4 times a day, every day.')).toBeVisible();
-	await expect(page.getByRole('heading', { name: 'Key cues' }).first()).toBeVisible();
+	await expect(page.getByRole('heading', { name: 'Key points' }).first()).toBeVisible();
 	const replayLinks = await page.getByText(/Scan to watch, or type/).allTextContents();
 	expect(replayLinks).toHaveLength(2);
 	await expectNoAxeViolations(page);

@@ -18,6 +18,7 @@ import { patientPart } from './matrix/patient';
 import { programmesPart } from './matrix/programmes';
 import { libraryPart } from './matrix/library';
 import { speechPart } from './matrix/speech';
+import { replayCodesPart } from './matrix/replay-codes';
 import {
 	clinicianApi,
 	everyone,
@@ -35,7 +36,8 @@ const PARTS: MatrixPart[] = [
 	patientPart,
 	libraryPart,
 	programmesPart,
-	speechPart
+	speechPart,
+	replayCodesPart
 ];
 
 /**

@@ -13,7 +13,8 @@ const { db, schema } = await import('../../src/lib/server/db');
 const { loadPrincipal } = await import('../../src/lib/server/auth/principal');
 const exercisesModule = await import('../../src/lib/server/exercises');
 const programmesModule = await import('../../src/lib/server/programmes');
-const { programmeSheet } = await import('../../src/lib/server/programmes/sheet');
+const { ownItemByCode, programmeSheet } = await import('../../src/lib/server/programmes/sheet');
+const { replayCode } = await import('../../src/lib/programmes/replay-code');
 const { builderCatalogue, builderState } = await import('../../src/lib/server/programmes/builder');
 const { saveDraft } = await import('../../src/lib/server/programmes/save');
 const { listInbox, readInboxMessage } = await import('../../src/lib/server/mail/inbox');
@@ -441,14 +442,58 @@ describe('programmes', () => {
 		});
 		const sheet = await programmeSheet(view);
 		const [item] = sheet.items;
+		const code = await replayCode(view.items[0].id);
 		expect(item.url).toBe(
-			`${new URL(`/replay/${view.items[0].id}`, process.env.ORIGIN ?? 'http://localhost:3000')}`
+			`${new URL(`/r/${code}`, process.env.ORIGIN ?? 'http://localhost:3000')}`
 		);
+		expect(item.typedUrl).toBe(item.url.replace(/^https:\/\//, ''));
 		expect(item.qrSvg).toMatch(/^<svg[^>]*viewBox/);
+		// People's dates and the patient's side in words, never a raw id.
+		expect(sheet.startDate).toBe('Tuesday 17 November 2026');
+		expect(item.side).toBe('Either leg.');
+		expect(item.movement).toBe(
+			'Your hands, a strap or a helper helps; the leg being treated does part of the work.'
+		);
+		expect(item.position).toBe('Lying on your back (supine)');
 		expect(item.dosage).toBe('1 set of 8 reps, hold 5 seconds; 3 times a day, every day.');
 		expect(item.progression).toBe('Add 2 reps each week, up to 15.');
 		expect(item.safetyHtml).toBe('<p>Stop if the pain is <strong>sharp</strong>.</p>');
 		expect(item.cues).toEqual(['Slide slowly']);
+	});
+
+	it('print the treated side in words and open a printed code only for its own patient', async () => {
+		const patient = makePatient(alder.id, 'left.knee@patients.example', {
+			affectedSide: 'left',
+			operationDate: '2026-11-10'
+		});
+		const make = (title: string) => {
+			const programme = createProgramme(clinician, patient.id, {
+				title,
+				startDate: '2026-11-17',
+				endDate: '2026-12-20'
+			});
+			return saveProgramme(clinician, programme.id, {
+				title,
+				startDate: '2026-11-17',
+				endDate: '2026-12-20',
+				note: '',
+				items: [{ exerciseId: readyId, dosage: dose, progression: { kind: 'none' } }]
+			});
+		};
+		const draft = make('Not yet');
+		const view = make('Left knee');
+		await publishProgramme(clinician, view.programme.id);
+		const sheet = await programmeSheet(view);
+		expect(sheet.endDate).toBe('Sunday 20 December 2026');
+		expect(sheet.items[0].side).toBe('Your left leg — the one being treated.');
+
+		const itemId = view.items[0].id;
+		const code = await replayCode(itemId);
+		expect(await ownItemByCode(patient.id, code)).toBe(itemId);
+		// Another patient's code, a draft's and a made-up one find nothing.
+		expect(await ownItemByCode(patientId, code)).toBeUndefined();
+		expect(await ownItemByCode(patient.id, await replayCode(draft.items[0].id))).toBeUndefined();
+		expect(await ownItemByCode(patient.id, 'ZZZZZZZZ')).toBeUndefined();
 	});
 
 	it('offer the builder ready exercises and those already in the programme', () => {
