@@ -208,6 +208,12 @@ test('submit → changes requested → fixed → approved → found by a signed-
 	await expect(results.getByRole('link', { name: TITLE })).toBeVisible();
 	await expect(results.locator('mark').first()).toBeVisible();
 	await visitor.screenshot({ path: join(SHOTS, 'library-search.png'), fullPage: true });
+	for (const width of [390, 1366])
+		await visitor
+			.setViewportSize({ width, height: 900 })
+			.then(() =>
+				visitor.screenshot({ path: join(SHOTS, `library-cards-${width}.png`), fullPage: true })
+			);
 	await expectNoAxeViolations(visitor);
 	await results.getByRole('link', { name: TITLE }).click();
 	await expect(visitor.getByRole('heading', { name: TITLE, level: 1 })).toBeVisible();
