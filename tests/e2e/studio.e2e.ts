@@ -143,8 +143,8 @@ test('a clinician writes three cues with the keyboard while the video plays, and
 	const trackId = seedCaptionTrack(recordingId, [], { language: 'en-GB' });
 	await signInWithPassword(page, ACCOUNTS.clinician);
 	await page.goto(`/recordings/${recordingId}`);
-	await page.getByRole('link', { name: 'Caption studio' }).click();
-	await expect(page.getByRole('heading', { name: 'Caption studio', level: 1 })).toBeVisible();
+	await page.getByRole('link', { name: 'Caption editor' }).click();
+	await expect(page.getByRole('heading', { name: 'Caption editor', level: 1 })).toBeVisible();
 	await expect(page.getByTestId('studio')).toHaveAttribute('data-ready', 'true');
 	await expect(page).toHaveURL(new RegExp(`/recordings/${recordingId}/studio$`));
 	await expect(saveState(page)).toHaveText('Saved as version 1');
@@ -159,7 +159,7 @@ test('a clinician writes three cues with the keyboard while the video plays, and
 				else element.addEventListener('loadeddata', () => resolve(), { once: true });
 			})
 	);
-	await page.getByRole('heading', { name: 'Caption studio', level: 1 }).click();
+	await page.getByRole('heading', { name: 'Caption editor', level: 1 }).click();
 	await page.keyboard.press(' ');
 	await expect
 		.poll(() => video.evaluate((v) => (v as HTMLVideoElement).currentTime))
@@ -200,7 +200,7 @@ test('a clinician writes three cues with the keyboard while the video plays, and
 	expect(await shownAt(page, saved.cues[2].end + 0.5)).toEqual([]);
 
 	// Undo takes the last words away, on the video too; redo brings them back.
-	await page.getByRole('heading', { name: 'Caption studio', level: 1 }).click();
+	await page.getByRole('heading', { name: 'Caption editor', level: 1 }).click();
 	await page.keyboard.press('Control+z');
 	await expect(page.getByLabel('Words of cue 3')).toHaveValue('');
 	await page.keyboard.press('Control+Shift+z');

@@ -70,7 +70,7 @@ describe('failingCues', () => {
 				index: 0,
 				trackIndex: 0,
 				fixes: [],
-				note: 'No one-step fix clears this; change it in the studio.'
+				note: 'No one-step fix clears this; change it in the caption editor.'
 			}
 		]);
 	});
@@ -82,7 +82,7 @@ describe('failingCues', () => {
 				index: 0,
 				trackIndex: null,
 				fixes: [],
-				note: 'It runs across the edge of the segment; change it in the studio.'
+				note: 'It runs across the edge of the segment; change it in the caption editor.'
 			}
 		]);
 		expect(fixedTrack(cues, window, 0, 'extend-into-gap', profile)).toBeNull();

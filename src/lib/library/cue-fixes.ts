@@ -131,7 +131,7 @@ export function failingCues(
 	const cues = served(trackCues, window);
 	if (!cues) return [];
 	const positions = keptPositions(trackCues, window);
-	// Fixes work on cues in time order; a track out of order is put right in the studio first.
+	// Fixes work on cues in time order; a track out of order is put right in the caption editor first.
 	const ordered = trackCues.every((c, k) => k === 0 || c.start >= trackCues[k - 1].start);
 	const byCue = new Map<number, Finding[]>();
 	for (const finding of errorsOf(cues, profile)) {
@@ -150,10 +150,10 @@ export function failingCues(
 			const trackIndex = positions.length === cues.length ? positions[index] : undefined;
 			const source = trackIndex === undefined ? undefined : trackCues[trackIndex];
 			let note: string | null = null;
-			if (!ordered) note = 'The cues are out of order; put them in order in the studio first.';
-			else if (!source) note = 'Change it in the studio.';
+			if (!ordered) note = 'The cues are out of order; put them in order in the caption editor first.';
+			else if (!source) note = 'Change it in the caption editor.';
 			else if (source.start < window.start || source.end > window.end) {
-				note = 'It runs across the edge of the segment; change it in the studio.';
+				note = 'It runs across the edge of the segment; change it in the caption editor.';
 			}
 			if (note || trackIndex === undefined) {
 				return { ...base, trackIndex: null, fixes: [], note };
@@ -172,7 +172,7 @@ export function failingCues(
 				...base,
 				trackIndex,
 				fixes,
-				note: fixes.length ? null : 'No one-step fix clears this; change it in the studio.'
+				note: fixes.length ? null : 'No one-step fix clears this; change it in the caption editor.'
 			};
 		});
 }

@@ -50,7 +50,7 @@ describe('weekAfterOperation', () => {
 		const week = weekAfterOperation(knee, '2026-11-17');
 		expect(week).toMatchObject({ weeks: 1, days: 7, operationDate: '2026-11-10' });
 		expect(week?.basis).toBe(
-			'week 1 after the operation (7 days), counted from 2026-11-10 to the start on 2026-11-17'
+			'week 1 after the operation (7 days), counted from 10 Nov 2026 to the start on 17 Nov 2026'
 		);
 		// The knee table (common practice, see lib/clinical/phases) puts weeks 0–2 in early motion.
 		expect(week?.hint?.phase).toBe('early-motion');

@@ -34,6 +34,7 @@ import {
 	type WeeklyVolume
 } from '$lib/dosage';
 import { phaseOf } from '$lib/exercises/vocabulary';
+import { formatDate } from '$lib/followup/words';
 import type { MotionId } from '$lib/clinical/rom';
 
 export interface FigureExercise {
@@ -124,8 +125,8 @@ export function weekAfterOperation(
 	const since = weeksSince(patient.operationDate, startDate);
 	const basis =
 		since.days < 0
-			? `the start on ${startDate} is ${-since.days} days before the operation on ${patient.operationDate}`
-			: `week ${since.weeks} after the operation (${since.days} days), counted from ${patient.operationDate} to the start on ${startDate}`;
+			? `the start on ${formatDate(startDate)} is ${-since.days} days before the operation on ${formatDate(patient.operationDate)}`
+			: `week ${since.weeks} after the operation (${since.days} days), counted from ${formatDate(patient.operationDate)} to the start on ${formatDate(startDate)}`;
 	const table = protocolById(patient.protocol);
 	const hint =
 		since.days < 0 ? null : phaseForWeek(patient.protocol, since.weeks, patient.protocolShiftWeeks);

@@ -80,7 +80,7 @@ export function fixSegmentCue(
 	if (!fixed || !offered) {
 		throw new LibraryError(
 			409,
-			'That fix does not apply to the captions as they are; nothing was saved. Change the cue in the studio.'
+			'That fix does not apply to the captions as they are; nothing was saved. Change the cue in the caption editor.'
 		);
 	}
 	let saved;
