@@ -1,4 +1,8 @@
-/** Applies pending SQL migrations from drizzle/ to DATABASE_PATH (the app also does this at start). */
+/**
+ * Applies pending SQL migrations from drizzle/ to DATABASE_PATH. The app and the worker also
+ * migrate when they open the database, under an exclusive lock, so processes started together
+ * never collide; running this first, before any of them, keeps their starts short.
+ */
 import { closeDatabase, db } from '../lib/server/db';
 import { config } from '../lib/server/config';
 

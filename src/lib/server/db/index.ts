@@ -1,6 +1,6 @@
 import Database from 'better-sqlite3';
 import { drizzle, type BetterSQLite3Database } from 'drizzle-orm/better-sqlite3';
-import { migrate } from 'drizzle-orm/better-sqlite3/migrator';
+import { readMigrationFiles } from 'drizzle-orm/migrator';
 import { mkdirSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
 import { config } from '../config';
@@ -14,13 +14,69 @@ let opened: Db | undefined;
 export function openDatabase(path: string, migrationsFolder = resolve('drizzle')): Db {
 	if (path !== ':memory:') mkdirSync(dirname(resolve(path)), { recursive: true });
 	const sqlite = new Database(path);
+	// First, so that a process opening a file another is creating waits instead of failing.
+	sqlite.pragma('busy_timeout = 5000');
 	sqlite.pragma('journal_mode = WAL');
 	sqlite.pragma('foreign_keys = ON');
-	sqlite.pragma('busy_timeout = 5000');
 	sqlite.pragma('synchronous = NORMAL');
-	const db = drizzle(sqlite, { schema }) as Db;
-	migrate(db, { migrationsFolder });
-	return db;
+	migrateExclusively(sqlite, migrationsFolder);
+	return drizzle(sqlite, { schema }) as Db;
+}
+
+const MIGRATIONS_TABLE = '__drizzle_migrations';
+/** How long a starting process waits for another one's migrations before giving up. */
+const MIGRATION_WAIT_MS = 120_000;
+
+/** The newest applied migration's folder time, or null when none is (or no table yet). */
+function lastApplied(sqlite: Database.Database): number | null {
+	const table = sqlite
+		.prepare("select 1 from sqlite_master where type = 'table' and name = ?")
+		.get(MIGRATIONS_TABLE);
+	if (!table) return null;
+	const row = sqlite
+		.prepare(`select created_at from "${MIGRATIONS_TABLE}" order by created_at desc limit 1`)
+		.get() as { created_at: number | string } | undefined;
+	return row ? Number(row.created_at) : null;
+}
+
+/**
+ * Applies pending migrations from `drizzle/` with drizzle's own files, table and rule (a
+ * migration runs when it is newer than the newest applied one), but decides what is pending
+ * inside one exclusive transaction. drizzle's migrator reads the newest applied migration before
+ * its BEGIN, so processes started together on a new database all ran the first migration and
+ * all but one failed ("table … already exists"). Here the second process waits for the lock,
+ * then finds everything applied.
+ */
+export function migrateExclusively(sqlite: Database.Database, migrationsFolder: string): void {
+	const migrations = readMigrationFiles({ migrationsFolder });
+	const newest = migrations.at(-1)?.folderMillis ?? 0;
+	// Most starts have nothing to apply: answered without taking the write lock.
+	if ((lastApplied(sqlite) ?? -1) >= newest) return;
+	const usualWait = sqlite.pragma('busy_timeout', { simple: true }) as number;
+	sqlite.pragma(`busy_timeout = ${MIGRATION_WAIT_MS}`);
+	try {
+		sqlite.exec('BEGIN EXCLUSIVE');
+		try {
+			sqlite.exec(
+				`CREATE TABLE IF NOT EXISTS "${MIGRATIONS_TABLE}" (id SERIAL PRIMARY KEY, hash text NOT NULL, created_at numeric)`
+			);
+			const last = lastApplied(sqlite);
+			const record = sqlite.prepare(
+				`INSERT INTO "${MIGRATIONS_TABLE}" ("hash", "created_at") VALUES (?, ?)`
+			);
+			for (const migration of migrations) {
+				if (last !== null && last >= migration.folderMillis) continue;
+				for (const statement of migration.sql) sqlite.exec(statement);
+				record.run(migration.hash, migration.folderMillis);
+			}
+			sqlite.exec('COMMIT');
+		} catch (error) {
+			if (sqlite.inTransaction) sqlite.exec('ROLLBACK');
+			throw error;
+		}
+	} finally {
+		sqlite.pragma(`busy_timeout = ${usualWait}`);
+	}
 }
 
 /**
