@@ -150,7 +150,8 @@ export function failingCues(
 			const trackIndex = positions.length === cues.length ? positions[index] : undefined;
 			const source = trackIndex === undefined ? undefined : trackCues[trackIndex];
 			let note: string | null = null;
-			if (!ordered) note = 'The cues are out of order; put them in order in the caption editor first.';
+			if (!ordered)
+				note = 'The cues are out of order; put them in order in the caption editor first.';
 			else if (!source) note = 'Change it in the caption editor.';
 			else if (source.start < window.start || source.end > window.end) {
 				note = 'It runs across the edge of the segment; change it in the caption editor.';
