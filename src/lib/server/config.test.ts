@@ -1,3 +1,4 @@
+import { availableParallelism } from 'node:os';
 import { describe, expect, it } from 'vitest';
 import { readConfig } from './config';
 
@@ -9,6 +10,15 @@ describe('readConfig', () => {
 		expect(config.S3_FORCE_PATH_STYLE).toBe(true);
 		expect(config.SMTP_PORT).toBe(2525);
 		expect(config.INVITATION_TTL_HOURS).toBe(72);
+	});
+
+	it('limits ffmpeg runs to the number of cores unless told otherwise, and never below one', () => {
+		expect(readConfig({}).FFMPEG_MAX_CONCURRENT).toBe(Math.max(1, availableParallelism()));
+		expect(readConfig({ FFMPEG_MAX_CONCURRENT: '' }).FFMPEG_MAX_CONCURRENT).toBe(
+			Math.max(1, availableParallelism())
+		);
+		expect(readConfig({ FFMPEG_MAX_CONCURRENT: '3' }).FFMPEG_MAX_CONCURRENT).toBe(3);
+		expect(() => readConfig({ FFMPEG_MAX_CONCURRENT: '0' })).toThrow(/FFMPEG_MAX_CONCURRENT/);
 	});
 
 	it('keeps the development inbox off unless set, and never lets it on in production', () => {

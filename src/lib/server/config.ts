@@ -1,3 +1,4 @@
+import { availableParallelism } from 'node:os';
 import { z } from 'zod';
 
 /**
@@ -9,6 +10,10 @@ import { z } from 'zod';
 const bool = z
 	.enum(['true', 'false', '1', '0', 'yes', 'no'])
 	.transform((v) => v === 'true' || v === '1' || v === 'yes');
+
+/** An empty value (`NAME=` in an env file) counts as unset, so the default applies. */
+const unsetWhenEmpty = <T extends z.ZodType>(type: T) =>
+	z.preprocess((v) => (v === '' ? undefined : v), type);
 
 const schema = z.object({
 	DATABASE_PATH: z.string().min(1).default('.data/kinelume.db'),
@@ -66,6 +71,16 @@ const schema = z.object({
 	// ffmpeg and ffprobe executables; empty means the binaries inside the npm installer packages.
 	FFMPEG_PATH: z.string().default(''),
 	FFPROBE_PATH: z.string().default(''),
+	// ffmpeg runs at once on this machine, counted across every process sharing the database
+	// (media/slots.ts). Default: the number of cores.
+	FFMPEG_MAX_CONCURRENT: unsetWhenEmpty(
+		z.coerce
+			.number()
+			.int()
+			.min(1)
+			.max(256)
+			.default(() => Math.max(1, availableParallelism()))
+	),
 	MEDIA_JOB_TIMEOUT_SECONDS: z.coerce
 		.number()
 		.int()

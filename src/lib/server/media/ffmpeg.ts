@@ -3,6 +3,7 @@ import { accessSync, constants } from 'node:fs';
 import { createRequire } from 'node:module';
 import { setPriority } from 'node:os';
 import { config } from '../config';
+import { withMediaSlot } from './slots';
 
 /*
  * Every long ffmpeg and ffprobe run goes through `runMedia` here (stills use fluent-ffmpeg, in
@@ -124,20 +125,38 @@ const STDOUT_LIMIT = 64 * 1024 * 1024;
 /**
  * Runs ffmpeg with the constraints every media job needs: protocol whitelist on each input,
  * lowered priority, a wall-clock timeout, cancellation through `signal`, and progress read from
- * `-progress pipe:3`. `args` are what follows `ffmpeg -hide_banner -nostdin`; `-i` inputs get the
+ * `-progress pipe:3`, and at most FFMPEG_MAX_CONCURRENT runs at once on the machine. `args` are
+ * what follows `ffmpeg -hide_banner -nostdin`; `-i` inputs get the
  * whitelist added in front of them. Resolves when ffmpeg exits 0; rejects with MediaError only
  * once the process has exited, so nothing keeps running after a rejection.
  */
 export function runFfmpeg(args: string[], options: RunOptions = {}): Promise<RunResult> {
 	const withProgress = options.onProgress ? ['-progress', 'pipe:3', '-nostats'] : [];
-	return runMedia(
-		ffmpegPath(),
-		['-hide_banner', '-nostdin', '-loglevel', 'error', ...withProgress, ...whitelistInputs(args)],
-		options
+	const binary = ffmpegPath();
+	// One of the machine's FFMPEG_MAX_CONCURRENT slots first (slots.ts); the time limit counts
+	// from the start of the run, not the wait.
+	return withMediaSlot(
+		() =>
+			runMedia(
+				binary,
+				[
+					'-hide_banner',
+					'-nostdin',
+					'-loglevel',
+					'error',
+					...withProgress,
+					...whitelistInputs(args)
+				],
+				options
+			),
+		{ signal: options.signal }
 	);
 }
 
-/** Runs ffprobe under the same constraints; `args` should name the input with `-i`. */
+/**
+ * Runs ffprobe under the same constraints; `args` should name the input with `-i`. A probe reads
+ * only the container's index, so it takes no ffmpeg slot.
+ */
 export function runFfprobe(args: string[], options: RunOptions = {}): Promise<RunResult> {
 	return runMedia(ffprobePath(), ['-hide_banner', '-v', 'error', ...whitelistInputs(args)], {
 		...options,

@@ -1,6 +1,7 @@
 import ffmpeg from 'fluent-ffmpeg';
 import { config } from '../config';
 import { ffmpegPath, MediaError, PROTOCOL_WHITELIST } from './ffmpeg';
+import { withMediaSlot } from './slots';
 
 export interface StillOptions {
 	/** A video filter for the picture, e.g. a scale that fits a width. */
@@ -23,6 +24,19 @@ export function grabStill(
 	options: StillOptions
 ): Promise<void> {
 	const timeout = options.timeoutSeconds ?? config().MEDIA_JOB_TIMEOUT_SECONDS;
+	// A still is an ffmpeg run like any other: it waits for one of the machine's slots.
+	return withMediaSlot(() => still(input, seconds, output, options, timeout), {
+		signal: options.signal
+	});
+}
+
+function still(
+	input: string,
+	seconds: number,
+	output: string,
+	options: StillOptions,
+	timeout: number
+): Promise<void> {
 	return new Promise((resolve, reject) => {
 		if (options.signal?.aborted) {
 			reject(new MediaError('Processing was cancelled.', 'aborted'));
