@@ -7,6 +7,7 @@ import {
 	type RequestEvent
 } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
+import { dev } from '$app/environment';
 import { accessForRoute, decide } from '$lib/auth/access';
 import { loadPrincipal } from '$lib/server/auth/principal';
 import { runWithRequestContext } from '$lib/server/auth/request-context';
@@ -14,7 +15,7 @@ import { readSessionClaim, sessionCookieName, type SessionClaim } from '$lib/ser
 import { sessionIsAlive } from '$lib/server/auth/sessions';
 import { config } from '$lib/server/config';
 import { db } from '$lib/server/db';
-import { startBackgroundWork, stopBackgroundWork } from '$lib/server/jobs';
+import { startBackgroundWork, stopBackgroundWork, workerInApp } from '$lib/server/jobs';
 import { storageOrigin } from '$lib/server/storage/multipart';
 import { authHandle } from './auth';
 
@@ -22,7 +23,8 @@ import { authHandle } from './auth';
 export function init() {
 	config();
 	db();
-	if (config().WORKER_IN_APP) {
+	// In production the worker is `npm run worker`; the demo and the e2e stack set WORKER_IN_APP.
+	if (workerInApp(dev)) {
 		startBackgroundWork();
 		// adapter-node emits this on SIGTERM/SIGINT: running jobs go back to the queue at once
 		// instead of waiting for their heartbeat to go stale.

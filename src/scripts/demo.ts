@@ -16,6 +16,8 @@ process.env.DATABASE_PATH ??= resolve(dataDir, 'kinelume.db');
 process.env.ORIGIN = origin;
 // The demo is where the development inbox is on: e-mails land there instead of anyone's mailbox.
 process.env.DEV_INBOX_URL ??= 'http://127.0.0.1:2526';
+// One process for the whole demo: the app runs the job worker too (production runs `npm run worker`).
+process.env.WORKER_IN_APP ??= 'true';
 
 if (reset) {
 	for (const name of ['kinelume.db', 'kinelume.db-wal', 'kinelume.db-shm', 'fakes']) {

@@ -1,7 +1,8 @@
 /**
- * `npm run worker`: drains the media job table in its own process, sharing only the database and
- * the storage with the app (run the app with WORKER_IN_APP=false then). Stops cleanly on
- * SIGINT/SIGTERM, handing running jobs back to the queue.
+ * `npm run worker`: drains the job table in its own process, sharing only the database and the
+ * storage with the app. This is how production runs background work (the app runs none unless
+ * WORKER_IN_APP=true); several may run on one machine, and their ffmpeg runs together stay within
+ * FFMPEG_MAX_CONCURRENT. Stops cleanly on SIGINT/SIGTERM, handing running jobs back to the queue.
  */
 import { config } from '../lib/server/config';
 import { closeDatabase, db } from '../lib/server/db';

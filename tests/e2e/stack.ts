@@ -20,7 +20,9 @@ const env = {
 	SPEECH_TO_TEXT_URL: `http://127.0.0.1:${E2E.speechPort}/v1`,
 	SPEECH_TO_TEXT_API_KEY: 'e2e-speech-key',
 	SPEECH_TO_TEXT_MODEL: 'stand-in',
-	AUTH_SECRET: 'e2e-only-secret-that-is-long-enough-0123456789'
+	AUTH_SECRET: 'e2e-only-secret-that-is-long-enough-0123456789',
+	// The app runs the job worker itself here, as in the demo (production runs `npm run worker`).
+	WORKER_IN_APP: 'true'
 };
 Object.assign(process.env, env);
 

@@ -10,6 +10,7 @@ describe('readConfig', () => {
 		expect(config.S3_FORCE_PATH_STYLE).toBe(true);
 		expect(config.SMTP_PORT).toBe(2525);
 		expect(config.INVITATION_TTL_HOURS).toBe(72);
+		expect(config.WORKER_IN_APP).toBeUndefined();
 	});
 
 	it('limits ffmpeg runs to the number of cores unless told otherwise, and never below one', () => {
@@ -19,6 +20,8 @@ describe('readConfig', () => {
 		);
 		expect(readConfig({ FFMPEG_MAX_CONCURRENT: '3' }).FFMPEG_MAX_CONCURRENT).toBe(3);
 		expect(() => readConfig({ FFMPEG_MAX_CONCURRENT: '0' })).toThrow(/FFMPEG_MAX_CONCURRENT/);
+		expect(readConfig({ WORKER_IN_APP: 'true' }).WORKER_IN_APP).toBe(true);
+		expect(readConfig({ WORKER_IN_APP: '' }).WORKER_IN_APP).toBeUndefined();
 	});
 
 	it('keeps the development inbox off unless set, and never lets it on in production', () => {

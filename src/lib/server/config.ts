@@ -63,7 +63,9 @@ const schema = z.object({
 		.max(24 * 30)
 		.default(24),
 	MEDIA_JOB_CONCURRENCY: z.coerce.number().int().min(1).max(16).default(1),
-	WORKER_IN_APP: bool.default(true),
+	// Whether the app process also runs the job worker. Unset: only under `vite dev`; a production
+	// server leaves the work to `npm run worker` (hooks.server.ts).
+	WORKER_IN_APP: unsetWhenEmpty(bool.optional()),
 	JOB_HEARTBEAT_SECONDS: z.coerce.number().min(0.2).max(300).default(5),
 	JOB_STALE_SECONDS: z.coerce.number().min(1).max(3600).default(60),
 	JOB_RETRY_BASE_SECONDS: z.coerce.number().min(0).max(3600).default(10),

@@ -15,8 +15,7 @@ export const HANDLERS: WorkerOptions['handlers'] = {
 
 /**
  * Starts this process's media worker, the abandoned-upload sweep and the hourly check for the
- * weekly digest, once. The app calls it from its `init` hook unless WORKER_IN_APP=false;
- * `npm run worker` calls it on its own.
+ * weekly digest, once. `npm run worker` calls it; the app's `init` hook only when workerInApp().
  */
 export function startBackgroundWork(options: Partial<WorkerOptions> = {}): Worker {
 	if (running) return running.worker;
@@ -41,6 +40,11 @@ export async function stopBackgroundWork(): Promise<void> {
 	await worker.stop();
 }
 
-export function workerInApp(): boolean {
-	return config().WORKER_IN_APP;
+/**
+ * Whether the app process runs the worker too: WORKER_IN_APP when set, otherwise only under the
+ * dev server (`devServer`). In production the worker is its own process, `npm run worker`, so
+ * ffmpeg work never multiplies with app processes behind a proxy.
+ */
+export function workerInApp(devServer: boolean): boolean {
+	return config().WORKER_IN_APP ?? devServer;
 }
