@@ -17,6 +17,7 @@ const recordings = await import('$lib/server/recordings');
 const queue = await import('$lib/server/jobs/queue');
 const { startWorker } = await import('$lib/server/jobs/worker');
 const { HANDLERS } = await import('$lib/server/jobs');
+const { detectionKey } = await import('$lib/server/segments/detection');
 const { getObjectStream, headObject, storage, bucketName } = await import('$lib/server/storage');
 const { recordingKeys } = await import('$lib/server/storage/keys');
 const multipart = await import('$lib/server/storage/multipart');
@@ -280,6 +281,18 @@ describe('processing', () => {
 			expect((await headObject(keys.rendition))?.contentLength).toBe(ready.renditionSize);
 			const job = await jobFinished(recording.id);
 			expect(job).toMatchObject({ status: 'succeeded', progress: 1, attempts: 1 });
+			// The rendition's segment detection was queued with it, and the worker ran it.
+			expect(queue.latestJobFor(recording.id, 'detect-signals')?.uniqueKey).toBe(
+				detectionKey(ready)
+			);
+			const signals = await waitFor('the segment detectors’ result', () =>
+				db()
+					.select()
+					.from(schema.recordingSignals)
+					.where(eq(schema.recordingSignals.recordingId, recording.id))
+					.get()
+			);
+			expect(signals.renditionReadyAt.getTime()).toBe(ready.readyAt?.getTime());
 		} finally {
 			await worker.stop();
 		}

@@ -177,6 +177,13 @@ afterAll(async () => {
 });
 
 describe('suggestions for a stored recording', () => {
+	// The detectors run as a job: a worker measures, suggestionsFor only reads and waits.
+	let detector: ReturnType<typeof worker>;
+	beforeAll(() => {
+		detector = worker();
+	});
+	afterAll(() => detector.stop());
+
 	const storedSignals = (id: string) =>
 		db()
 			.select()
@@ -232,12 +239,19 @@ describe('suggestions for a stored recording', () => {
 	}, 60_000);
 
 	it('measures again when the recording has a new rendition', async () => {
-		const remade = { ...recording, readyAt: new Date(recording.readyAt!.getTime() + 1000) };
+		const readyAt = new Date(recording.readyAt!.getTime() + 1000);
+		const remade = db()
+			.update(schema.recordings)
+			.set({ readyAt })
+			.where(eq(schema.recordings.id, recording.id))
+			.returning()
+			.get();
 		const early = await segments.suggestionsFor(remade, { waitMs: 0 });
 		expect(early).toEqual({ state: 'working', recordingId: recording.id });
 		const later = await segments.suggestionsFor(remade, { waitMs: 60_000 });
 		expect(later.state).toBe('ready');
-		expect(storedSignals(recording.id)?.renditionReadyAt.getTime()).toBe(remade.readyAt.getTime());
+		expect(storedSignals(recording.id)?.renditionReadyAt.getTime()).toBe(readyAt.getTime());
+		recording = remade;
 	}, 60_000);
 
 	it('answers "working" while the detectors run, and refuses a recording not yet ready', async () => {
@@ -296,7 +310,10 @@ describe('confirming and cutting', () => {
 			expect.objectContaining({ status: 409 })
 		);
 		expect(db().select().from(schema.segments).all()).toEqual([]);
-		expect(db().select().from(schema.jobs).all()).toEqual([]);
+		// (The suggestions above left their detection jobs; no cut was queued.)
+		expect(
+			db().select().from(schema.jobs).where(eq(schema.jobs.kind, 'cut-segment')).all()
+		).toEqual([]);
 	});
 
 	it('cuts each confirmed segment to its own clip, within one frame, with posters and shifted cues', async () => {

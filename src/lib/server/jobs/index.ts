@@ -2,6 +2,7 @@ import { config } from '../config';
 import { startDigestSchedule } from '../followup/digest';
 import { processRecordingHandler } from '../recordings/process';
 import { startUploadSweep } from '../recordings/uploads';
+import { detectSignalsHandler } from '../segments/detection';
 import { cutSegmentHandler } from '../segments/job';
 import { startWorker, type Worker, type WorkerOptions } from './worker';
 
@@ -10,7 +11,8 @@ let running: { worker: Worker; stopSweep: () => void; stopDigest: () => void } |
 /** Every kind of job this codebase knows how to run. */
 export const HANDLERS: WorkerOptions['handlers'] = {
 	'process-recording': processRecordingHandler,
-	'cut-segment': cutSegmentHandler
+	'cut-segment': cutSegmentHandler,
+	'detect-signals': detectSignalsHandler
 };
 
 /**

@@ -1,6 +1,6 @@
 import { and, eq, inArray, lt, sql } from 'drizzle-orm';
 import { db } from '../db';
-import { jobs, type Job, type JobKind } from '../db/schema';
+import { jobs, type Job, type JobKind, type JobStatus } from '../db/schema';
 
 type Tx = Parameters<Parameters<ReturnType<typeof db>['transaction']>[0]>[0];
 
@@ -19,6 +19,31 @@ export function enqueue(
 		})
 		.returning()
 		.get();
+}
+
+/**
+ * Queues work that must be done once whoever asks for it: the one job with `uniqueKey`, queued
+ * now unless a process (this one or another) already queued it. Answers that job, new or not.
+ */
+export function enqueueOnce(
+	input: { kind: JobKind; recordingId: string; uniqueKey: string; maxAttempts?: number },
+	tx: Tx | ReturnType<typeof db> = db()
+): Job {
+	tx.insert(jobs)
+		.values({
+			kind: input.kind,
+			recordingId: input.recordingId,
+			uniqueKey: input.uniqueKey,
+			maxAttempts: input.maxAttempts ?? 3
+		})
+		.onConflictDoNothing({ target: jobs.uniqueKey })
+		.run();
+	return tx.select().from(jobs).where(eq(jobs.uniqueKey, input.uniqueKey)).get()!;
+}
+
+/** The job queued with this unique key, or null. */
+export function jobWithKey(uniqueKey: string): Job | null {
+	return db().select().from(jobs).where(eq(jobs.uniqueKey, uniqueKey)).get() ?? null;
 }
 
 /**
@@ -162,8 +187,14 @@ export function cancel(jobId: string): boolean {
 	return running.changes > 0;
 }
 
-/** Puts a failed or cancelled job back in the queue with fresh attempts. */
-export function requeue(jobId: string): boolean {
+/**
+ * Puts a finished job back in the queue with fresh attempts: by default a failed or cancelled one.
+ * One UPDATE, so when several processes try at once only one of them puts it back.
+ */
+export function requeue(
+	jobId: string,
+	from: readonly JobStatus[] = ['failed', 'cancelled']
+): boolean {
 	const result = db()
 		.update(jobs)
 		.set({
@@ -178,7 +209,7 @@ export function requeue(jobId: string): boolean {
 			cancelRequested: false,
 			finishedAt: null
 		})
-		.where(and(eq(jobs.id, jobId), inArray(jobs.status, ['failed', 'cancelled'])))
+		.where(and(eq(jobs.id, jobId), inArray(jobs.status, [...from])))
 		.run();
 	return result.changes > 0;
 }

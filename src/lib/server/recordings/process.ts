@@ -11,6 +11,7 @@ import { makePosters, makeRendition, makeSprite, makeWaveform } from '../media/o
 import { deletePrefix, putObject } from '../storage';
 import { recordingKeys } from '../storage/keys';
 import { downloadToFile } from '../storage/multipart';
+import { queueDetection } from '../segments/detection';
 import { markCancelled, markFailed } from './index';
 
 export const POSTER_COUNT = 3;
@@ -116,19 +117,26 @@ async function processRecording(job: Job, context: JobContext): Promise<void> {
 		checkpoint();
 		report('storing', 1);
 
-		const updated = db()
-			.update(recordings)
-			.set({
-				status: 'ready',
-				renditionSize,
-				posterCount: posters.length,
-				sprite,
-				waveformKey: waveformPath ? keys.waveform : null,
-				failureReason: null,
-				readyAt: new Date()
-			})
-			.where(eq(recordings.id, recording.id))
-			.run();
+		const readyAt = new Date();
+		const updated = db().transaction((tx) => {
+			const marked = tx
+				.update(recordings)
+				.set({
+					status: 'ready',
+					renditionSize,
+					posterCount: posters.length,
+					sprite,
+					waveformKey: waveformPath ? keys.waveform : null,
+					failureReason: null,
+					readyAt
+				})
+				.where(eq(recordings.id, recording.id))
+				.run();
+			// The segment detectors' pass over the new rendition, queued with it, so the segments
+			// page finds their result waiting (segments/detection.ts).
+			if (marked.changes > 0) queueDetection({ id: recording.id, readyAt }, tx);
+			return marked;
+		});
 		// Deleted while we worked: its objects went before ours arrived, so remove ours too.
 		if (updated.changes === 0) await deletePrefix(keys.prefix);
 	} finally {

@@ -8,9 +8,6 @@
  */
 import { configuredWordLists } from './word-lists';
 import { createHash } from 'node:crypto';
-import { mkdtemp, rm } from 'node:fs/promises';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
 import { and, asc, desc, eq, inArray, isNotNull, isNull, notExists } from 'drizzle-orm';
 import { chaptersFromSegments, shiftAndClip } from '$lib/captions/segment';
 import { suggestBoundaries, type Suggestion } from '$lib/captions/suggest';
@@ -19,7 +16,6 @@ import type { Cue } from '$lib/captions/types';
 import { serializeVtt } from '$lib/captions/vtt';
 import { planProblems, type PlannedSegment } from '$lib/segments/plan';
 import { createTrack, firstCaptionsTrack, getVersion, saveVersion } from '../captions';
-import { config } from '../config';
 import { db } from '../db';
 import {
 	captionTracks,
@@ -29,7 +25,6 @@ import {
 	programmeItems,
 	programmes,
 	recordings,
-	recordingSignals,
 	segments,
 	type CaptionTrack,
 	type Job,
@@ -40,13 +35,8 @@ import {
 import * as queue from '../jobs/queue';
 import { recordingKeys } from '../storage/keys';
 import { deleteObject, deletePrefix } from '../storage';
-import { downloadToFile } from '../storage/multipart';
-import {
-	DEFAULT_MIN_SILENCE_SECONDS,
-	detectMediaSignals,
-	signalSettings,
-	type MediaSignals
-} from './suggest';
+import { detectionState, forgetSignals } from './detection';
+import { DEFAULT_MIN_SILENCE_SECONDS } from './suggest';
 
 export type { SegmentRow, SegmentStatus };
 
@@ -80,20 +70,6 @@ export interface SuggestionsReady {
 
 export type SuggestionsAnswer = SuggestionsReady | { state: 'working'; recordingId: string };
 
-// Detection takes two ffmpeg passes over the whole rendition. What it finds is kept in
-// recording_signals (once per rendition and detector settings); while it runs, a page reload or
-// a second clinician waits on the same run instead of starting another. A run that failed is
-// remembered for a while, so the page is not made to wait on a failing file at every visit.
-const FAILED_DETECTION_RETRY_MS = 10 * 60 * 1000;
-const SETTINGS = signalSettings();
-interface Detection {
-	promise: Promise<MediaSignals | null>;
-	failedAt: number | null;
-}
-const detections = new Map<string, Detection>();
-// One detection at a time: each already keeps both cores busy.
-let detecting: Promise<unknown> = Promise.resolve();
-
 /** The recording's current captions: its first captions track and that track's newest cues. */
 export function currentCaptions(recording: Recording): {
 	track: CaptionTrack | null;
@@ -111,91 +87,29 @@ export function currentCaptions(recording: Recording): {
 	};
 }
 
-/** The detectors' findings stored for this rendition with today's settings, or null. */
-function storedSignals(recording: Recording): MediaSignals | null {
-	const row = db()
-		.select()
-		.from(recordingSignals)
-		.where(eq(recordingSignals.recordingId, recording.id))
-		.get();
-	if (!row || row.settings !== SETTINGS) return null;
-	if (row.renditionReadyAt.getTime() !== (recording.readyAt?.getTime() ?? 0)) return null;
-	return { silences: row.silences, sceneChanges: row.sceneChanges };
-}
-
-/** Downloads the rendition, runs the detectors and stores what they found; null when that failed. */
-async function detectAndStore(recording: Recording): Promise<MediaSignals | null> {
-	let dir: string | undefined;
-	try {
-		dir = await mkdtemp(join(config().MEDIA_WORK_DIR || tmpdir(), 'kinelume-suggest-'));
-		const rendition = join(dir, 'rendition.mp4');
-		const keys = recordingKeys(recording.clinicId, recording.id);
-		if (!(await downloadToFile(keys.rendition, rendition))) {
-			throw new Error('The web version of this recording is missing from storage.');
-		}
-		const found = await detectMediaSignals(rendition, recording.durationSeconds);
-		const values = {
-			renditionReadyAt: recording.readyAt ?? new Date(0),
-			settings: SETTINGS,
-			silences: found.silences,
-			sceneChanges: found.sceneChanges,
-			detectedAt: new Date()
-		};
-		db()
-			.insert(recordingSignals)
-			.values({ recordingId: recording.id, ...values })
-			.onConflictDoUpdate({ target: recordingSignals.recordingId, set: values })
-			.run();
-		return found;
-	} catch (error) {
-		console.error(`[segments] detection for ${recording.id} failed:`, error);
-		return null;
-	} finally {
-		if (dir) await rm(dir, { recursive: true, force: true });
-	}
-}
-
-/** The rendition's signals: stored, being measured (the shared run), or a new run. */
-function signalsFor(recording: Recording): MediaSignals | Promise<MediaSignals | null> {
-	const stored = storedSignals(recording);
-	if (stored) return stored;
-	const key = `${recording.id}:${recording.readyAt?.getTime() ?? 0}`;
-	const known = detections.get(key);
-	if (known && (known.failedAt === null || Date.now() - known.failedAt < FAILED_DETECTION_RETRY_MS))
-		return known.promise;
-	const run = detecting.then(() => detectAndStore(recording));
-	detecting = run;
-	const detection: Detection = { promise: run, failedAt: null };
-	detections.set(key, detection);
-	void run.then((found) => {
-		if (found) detections.delete(key);
-		else detection.failedAt = Date.now();
-	});
-	return run;
-}
-
 /**
  * Suggested boundaries for a ready recording, from its current captions and its rendition's
- * sound and picture. Waits up to `waitMs` for the detectors on a first visit; if they are still
- * running it answers `working` and the caller asks again (the work carries on).
+ * sound and picture. Never measures anything itself: the detectors run as a `detect-signals`
+ * job (detection.ts), queued here when their result is missing. Waits up to `waitMs` for that
+ * result, reading the database; if it is not there by then, answers `working` and the caller
+ * asks again (the job carries on).
  */
 export async function suggestionsFor(
 	recording: Recording,
-	{ waitMs = 20_000 }: { waitMs?: number } = {}
+	{ waitMs = 20_000, pollMs = 250 }: { waitMs?: number; pollMs?: number } = {}
 ): Promise<SuggestionsAnswer> {
 	if (recording.status !== 'ready') {
 		throw new SegmentError(409, 'The recording is not ready yet; suggestions follow once it is.');
 	}
-	let signals: MediaSignals | null | Promise<MediaSignals | null> = signalsFor(recording);
-	if (signals instanceof Promise) {
-		let timer: ReturnType<typeof setTimeout> | undefined;
-		const waited = await Promise.race([
-			signals,
-			new Promise<'waiting'>((resolve) => (timer = setTimeout(() => resolve('waiting'), waitMs)))
-		]).finally(() => clearTimeout(timer));
-		if (waited === 'waiting') return { state: 'working', recordingId: recording.id };
-		signals = waited;
+	const until = Date.now() + waitMs;
+	let detection = detectionState(recording);
+	while (detection.state === 'working') {
+		const left = until - Date.now();
+		if (left <= 0) return { state: 'working', recordingId: recording.id };
+		await new Promise((resolve) => setTimeout(resolve, Math.min(pollMs, left)));
+		detection = detectionState(recording);
 	}
+	const signals = detection.state === 'ready' ? detection.signals : null;
 	// Read after the wait: captions saved meanwhile are the ones to suggest from.
 	const captions = currentCaptions(recording);
 	const words = { language: captions.language, wordLists: configuredWordLists() };
@@ -216,13 +130,9 @@ export async function suggestionsFor(
 	};
 }
 
-/** Forgets what the detectors found (tests, and asking for a fresh measurement). */
+/** Forgets what the detectors found and their jobs (tests, and asking for a fresh measurement). */
 export function forgetSuggestions(recordingId?: string): void {
-	for (const key of [...detections.keys()]) {
-		if (!recordingId || key.startsWith(`${recordingId}:`)) detections.delete(key);
-	}
-	const rows = db().delete(recordingSignals);
-	(recordingId ? rows.where(eq(recordingSignals.recordingId, recordingId)) : rows).run();
+	forgetSignals(recordingId);
 }
 
 // ---------------------------------------------------------------------------------------------

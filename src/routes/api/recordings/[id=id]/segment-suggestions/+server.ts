@@ -7,9 +7,10 @@ import type { RequestHandler } from './$types';
 export type { SuggestionsAnswer };
 
 /**
- * Suggested exercise boundaries with the signals behind each. Detection reads the whole
- * rendition, so this waits a while for it: 200 with the suggestions, or 202 `working` when it
- * is still running (ask again; the work carries on and its result is kept).
+ * Suggested exercise boundaries with the signals behind each. Only reads: the detectors' pass
+ * over the rendition is a worker's job (queued here when its result is missing), so this waits a
+ * moment for its result and then answers 200 with the suggestions, or 202 `working` (ask again;
+ * the page does every second).
  */
 export const GET: RequestHandler = async ({ params }) => {
 	const caller = apiCaller('clinician');
@@ -17,7 +18,7 @@ export const GET: RequestHandler = async ({ params }) => {
 	const recording = findRecording(caller.clinicId, params.id);
 	if (!recording) return apiError(404, 'Not found.');
 	try {
-		const answer = await suggestionsFor(recording, { waitMs: 15_000 });
+		const answer = await suggestionsFor(recording, { waitMs: 2_000 });
 		return json(answer satisfies SuggestionsAnswer, {
 			status: answer.state === 'working' ? 202 : 200,
 			headers: { 'Cache-Control': 'no-store' }
