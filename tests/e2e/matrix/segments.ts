@@ -1,4 +1,4 @@
-import { ACCOUNTS, seedCaptionTrack, seedReadyRecording } from '../support';
+import { ACCOUNTS, database, seedCaptionTrack, seedReadyRecording } from '../support';
 import { seedReadySegment } from '../segments-support';
 import { clinicianApi, onlyPage, type MatrixPart, type Row } from './types';
 
@@ -43,7 +43,26 @@ export const segmentsPart: MatrixPart = {
 			[{ id: 'chapter-1', start: 0, end: 1, text: 'Heel slides' }],
 			{ kind: 'chapters', language: 'en-GB' }
 		);
-		return { segmentId, otherClinicSegmentId, cuttingSegmentId, chaptersRecordingId };
+		// The matrix recording's sound and picture as already measured (its "rendition" is a few
+		// bytes): its suggestions answer at once. The settings are signalSettings()'s defaults.
+		const db = database();
+		try {
+			db.prepare(
+				`insert into recording_signals (recording_id, rendition_ready_at, settings, silences, scene_changes, detected_at)
+				 select id, ready_at, 'silence -45 dB 1.5 s; scene 0.3', '[]', '[]', ? from recording where id = ?`
+			).run(Date.now(), f.recordingId);
+		} finally {
+			db.close();
+		}
+		// Never measured: asking queues the detection job, and the answer is 202 "working".
+		const unmeasuredRecordingId = await seedReadyRecording(ACCOUNTS.clinician);
+		return {
+			segmentId,
+			otherClinicSegmentId,
+			cuttingSegmentId,
+			chaptersRecordingId,
+			unmeasuredRecordingId
+		};
 	},
 	rows: [
 		{
@@ -84,9 +103,15 @@ export const segmentsPart: MatrixPart = {
 		},
 		{
 			route: '/api/recordings/[id=id]/segment-suggestions',
-			note: "own clinic's recording (its stand-in rendition leaves the captions alone)",
+			note: "own clinic's recording, its sound and picture measured",
 			path: (f) => `/api/recordings/${f.recordingId}/segment-suggestions`,
 			expect: clinicianApi(200)
+		},
+		{
+			route: '/api/recordings/[id=id]/segment-suggestions',
+			note: "own clinic's recording not measured yet (the detection job is queued)",
+			path: (f) => `/api/recordings/${f.extra.unmeasuredRecordingId}/segment-suggestions`,
+			expect: clinicianApi(202)
 		},
 		{
 			route: '/api/recordings/[id=id]/segment-suggestions',
