@@ -220,12 +220,8 @@ async function author(
 
 	// --- captions -------------------------------------------------------------------------------
 	c.begin('captions');
-	await c.click(page.getByRole('link', { name: 'Captions and versions' }), 'Captions and versions');
-	await c.click(page.getByRole('button', { name: 'Make track' }), 'Make track');
-	await c.click(
-		page.getByRole('link', { name: /^Open “.*” in the caption studio$/ }),
-		'Open in the caption studio'
-	);
+	// No track yet: the recording page's one button makes it and opens the editor.
+	await c.click(page.getByRole('button', { name: 'Caption editor' }), 'Caption editor');
 	await c.wait(() => page.locator('[data-testid="studio"][data-ready="true"]').waitFor());
 	const trackId = new URL(page.url()).searchParams.get('track');
 	if (!trackId) throw new Error('The studio opened without ?track=.');
@@ -346,33 +342,23 @@ async function author(
 	for (const [i, exercise] of EXERCISES.entries()) {
 		corrections.push(...(await review(c, page, i, exercise)));
 	}
-	await c.click(
-		page.getByRole('button', { name: 'Make the ticked exercises as drafts' }),
-		'Make the ticked exercises as drafts'
+	// Made ready on the same page: one tick instead of a visit to each exercise.
+	await c.check(
+		page.getByRole('checkbox', { name: 'Make them ready for programmes now' }),
+		'Ready now'
 	);
-	const made = page.getByText(/draft exercises? made:/);
+	await c.click(
+		page.getByRole('button', { name: 'Make the ticked exercises' }),
+		'Make the ticked exercises'
+	);
+	const made = page.getByText(/exercises? made, ready for programmes:/);
 	const refused = page.getByText(/Nothing was made/);
 	await c.wait(() => made.or(refused).waitFor());
 	if (await refused.isVisible()) {
 		const problems = await page.locator('fieldset p.text-berry').allInnerTexts();
-		throw new Error(`The drafts were refused: ${problems.join(' ')}`);
+		throw new Error(`The exercises were refused: ${problems.join(' ')}`);
 	}
 	const titles = EXERCISES.map((e) => e.expected.title);
-
-	// --- ready ----------------------------------------------------------------------------------
-	c.begin('ready');
-	for (const [i, title] of titles.entries()) {
-		if (i === 0) {
-			await c.click(page.getByRole('link', { name: title, exact: true }), `${title} (made list)`);
-		} else {
-			await c.click(nav.getByRole('link', { name: 'Exercises', exact: true }), 'Exercises (menu)');
-			await c.click(page.getByRole('link', { name: title, exact: true }), title);
-		}
-		await page.waitForURL(/\/exercises\/[0-9a-f-]{36}/);
-		await c.check(page.getByRole('radio', { name: /^Ready/ }), 'Ready');
-		await c.click(page.getByRole('button', { name: 'Save changes' }), 'Save changes');
-		await c.wait(() => page.getByText('The exercise is saved.').waitFor());
-	}
 
 	// --- programme ------------------------------------------------------------------------------
 	c.begin('programme');

@@ -82,14 +82,14 @@ test('a clinician renames a recording, imports its captions there and makes draf
 
 	// Unsettled, nothing is made and nothing typed is lost.
 	await first.getByLabel('Body region').fill('Shoulder');
-	await page.getByRole('button', { name: 'Make the ticked exercises as drafts' }).click();
+	await page.getByRole('button', { name: 'Make the ticked exercises' }).click();
 	await expect(page.getByRole('alert')).toContainText('Nothing was made');
 	await expect(first.getByLabel('Body region')).toHaveValue('Shoulder');
 	await first.getByLabel('Sessions a day').fill('3');
 	if ((await second.getByLabel('Body region').inputValue()) === '') {
 		await second.getByLabel('Body region').fill('Knee');
 	}
-	await page.getByRole('button', { name: 'Make the ticked exercises as drafts' }).click();
+	await page.getByRole('button', { name: 'Make the ticked exercises' }).click();
 	await expect(page.getByText('2 draft exercises made')).toBeVisible();
 
 	await page.goto(`/exercises?q=${encodeURIComponent('supported arm raise')}`);

@@ -1,8 +1,8 @@
 /**
- * Draft exercises made from a recording's segments in one step: each ready segment's narration
- * (its captions, as patients are shown them) proposes the exercise, the clinician reviews the
- * rows, and only the rows they tick are made — all or none, as drafts, so nothing reaches a
- * programme before the clinician marks it ready.
+ * Exercises made from a recording's segments in one step: each ready segment's narration (its
+ * captions, as patients are shown them) proposes the exercise, the clinician reviews the rows,
+ * and only the rows they tick are made — all or none, as drafts unless the clinician ticks
+ * "ready for programmes" on the same page (the exercise form's own checks apply either way).
  */
 import { and, eq, inArray, isNull } from 'drizzle-orm';
 import { draftExercise } from '$lib/authoring/exercise-draft';
@@ -73,13 +73,15 @@ export type MadeExercises =
 	| { ok: false; problems: { row: number; path: string; message: string }[] };
 
 /**
- * Makes the ticked rows as draft exercises, all or none. Each row must name one of this
- * recording's current, ready segments, and pass the exercise form's own checks.
+ * Makes the ticked rows as exercises (drafts, or ready when asked), all or none. Each row must
+ * name one of this recording's current, ready segments, and pass the exercise form's own checks.
  */
 export function makeExercisesFromSegments(
 	clinician: Principal,
 	recording: Recording,
-	rows: { make: boolean; draft: ExerciseDraft }[]
+	rows: { make: boolean; draft: ExerciseDraft }[],
+	/** Ready for programmes at once when the clinician says so; drafts otherwise. */
+	exerciseStatus: 'draft' | 'ready' = 'draft'
 ): MadeExercises {
 	const offered = new Map(
 		segmentProposals(recording).map((p) => [p.row.segmentId, p.status] as const)
@@ -88,19 +90,19 @@ export function makeExercisesFromSegments(
 	const inputs: Parameters<typeof createExercise>[1][] = [];
 	rows.forEach((row, index) => {
 		if (!row.make) return;
-		const status = offered.get(row.draft.segmentId);
-		if (status !== 'ready') {
+		const segmentStatus = offered.get(row.draft.segmentId);
+		if (segmentStatus !== 'ready') {
 			problems.push({
 				row: index,
 				path: 'segmentId',
 				message:
-					status === undefined
+					segmentStatus === undefined
 						? 'This segment is no longer one of the recording’s segments.'
 						: 'This segment is not cut yet; make its exercise once it is ready.'
 			});
 			return;
 		}
-		const parsed = parseDraft({ ...row.draft, status: 'draft' });
+		const parsed = parseDraft({ ...row.draft, status: exerciseStatus });
 		if (!parsed.ok) {
 			for (const p of parsed.problems) problems.push({ row: index, ...p });
 			return;

@@ -2,6 +2,7 @@ import { fail, redirect } from '@sveltejs/kit';
 import { parseRecordingTitle } from '$lib/recordings/formats';
 import {
 	CaptionError,
+	createTrack,
 	firstCaptionsTrack,
 	importIntoCaptions,
 	listTracks
@@ -53,6 +54,17 @@ export const load: PageServerLoad = ({ params }) => {
 };
 
 export const actions: Actions = {
+	/** Opens the caption editor on a recording with no track yet: its captions track is made first. */
+	startCaptions: ({ params }) => {
+		const { clinician, recording } = requireOwnRecording(params.id);
+		if (recording.status !== 'ready') {
+			return fail(409, { message: 'Captions can be written once the recording is ready.' });
+		}
+		const track =
+			firstCaptionsTrack(clinician.clinicId, recording.id) ??
+			createTrack(recording, { kind: 'captions', language: 'en-GB' });
+		redirect(303, `/recordings/${recording.id}/studio?track=${track.id}`);
+	},
 	rename: async ({ params, request }) => {
 		const { recording } = requireOwnRecording(params.id);
 		const typed = String((await request.formData()).get('title') ?? '');

@@ -19,12 +19,19 @@ export const load: PageServerLoad = ({ params }) => {
 export const actions: Actions = {
 	make: async ({ params, request }) => {
 		const { clinician, recording } = requireOwnRecording(params.id);
-		const rows = rowsFromForm(await request.formData(), MAX_PROPOSAL_ROWS);
-		const outcome = makeExercisesFromSegments(clinician, recording, rows);
+		const form = await request.formData();
+		const rows = rowsFromForm(form, MAX_PROPOSAL_ROWS);
+		const ready = form.get('ready') === 'on';
+		const outcome = makeExercisesFromSegments(
+			clinician,
+			recording,
+			rows,
+			ready ? 'ready' : 'draft'
+		);
 		if (!outcome.ok) {
 			// Every row comes back as typed, with its problems: nothing was made.
-			return fail(400, { rows, problems: outcome.problems });
+			return fail(400, { rows, ready, problems: outcome.problems });
 		}
-		return { made: outcome.created.map((e) => ({ id: e.id, title: e.title })) };
+		return { made: outcome.created.map((e) => ({ id: e.id, title: e.title })), ready };
 	}
 };
