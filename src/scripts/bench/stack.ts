@@ -61,6 +61,8 @@ export async function startRun(name: string, ports: BenchPorts): Promise<BenchRu
 		SMTP_PORT: String(ports.smtp),
 		DEV_INBOX_URL: `http://127.0.0.1:${ports.mailApi}`,
 		MEDIA_WORK_DIR: join(dataDir, 'work'),
+		// One process for the run: the app runs the media worker too, as the demo does.
+		WORKER_IN_APP: 'true',
 		AUTH_SECRET: 'bench-only-secret-that-is-long-enough-0123456789'
 	});
 
