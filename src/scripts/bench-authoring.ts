@@ -216,7 +216,6 @@ async function author(
 	await page.waitForURL(/\/recordings\/[0-9a-f-]{36}$/);
 	const recordingId = new URL(page.url()).pathname.split('/')[2];
 	await c.wait(() => page.getByTestId('player').waitFor({ timeout: 10 * MINUTES }));
-	const recordingTitle = (await page.getByRole('heading', { level: 1 }).textContent())?.trim();
 
 	// --- captions -------------------------------------------------------------------------------
 	c.begin('captions');
@@ -281,10 +280,7 @@ async function author(
 
 	// --- segments -------------------------------------------------------------------------------
 	c.begin('segments');
-	await c.click(
-		page.getByRole('link', { name: `← ${recordingTitle}`, exact: true }),
-		'← the recording'
-	);
+	// Straight from the caption editor to the segments.
 	await c.click(page.getByRole('link', { name: 'Exercise segments' }), 'Exercise segments');
 	const acceptAll = page.getByRole('button', { name: 'Accept all suggestions' });
 	await c.wait(() => acceptAll.waitFor({ timeout: 5 * MINUTES }));

@@ -230,3 +230,22 @@ describe('suggestBoundaries on synthetic signals alone', () => {
 		).toHaveLength(0);
 	});
 });
+
+describe('the name after an announcing phrase', () => {
+	it('ends at a comma, so a name with a clause after it is still read', () => {
+		const cues = [
+			{ id: '1', start: 0, end: 3, text: 'First, the heel slide.' },
+			{
+				id: '2',
+				start: 10,
+				end: 14,
+				text: 'The next exercise is the narrow stance, for your standing balance.'
+			}
+		];
+		const found = suggestBoundaries(
+			{ durationSeconds: 20, cues, silences: [], sceneChanges: [] },
+			{ language: 'en' }
+		);
+		expect(found.map((s) => s.name)).toContain('Narrow stance');
+	});
+});

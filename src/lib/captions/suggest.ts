@@ -268,7 +268,8 @@ function phraseIndex(text: string, phrase: Phrase): number {
 
 /** A short title-like name after `at` in the sentence, or null (e.g. "heel slides"). */
 function exerciseName(text: string, at: number, filler: Set<string>): string | null {
-	const sentence = text.slice(at).split(/[.!?;]/)[0];
+	// A name ends at the first clause break ("the narrow stance, for your balance").
+	const sentence = text.slice(at).split(/[.!?;,]/)[0];
 	const words = sentence.split(/[\s:,–—]+/).filter((w) => /[\p{L}]/u.test(w));
 	let k = 0;
 	while (k < words.length && filler.has(words[k])) k++;
