@@ -1,5 +1,5 @@
 import { expect, test } from '@playwright/test';
-import { ACCOUNTS, expectNoAxeViolations, idOf, signInWithPassword, visit } from './support';
+import { ACCOUNTS, expectNoAxeViolations, idOf, signInWithPassword, visit, open } from './support';
 import { E2E } from './ports';
 
 /** Every page each role can reach, scanned with axe-core in chromium. */
@@ -7,11 +7,11 @@ const PUBLIC_PAGES = ['/', '/signin', '/signin/link-sent', '/signout'];
 
 test('public pages have no axe violations', async ({ page }) => {
 	for (const path of PUBLIC_PAGES) {
-		await page.goto(path);
+		await open(page, path);
 		await expectNoAxeViolations(page);
 	}
 	// Error pages share the look and must be just as readable.
-	const missing = await page.goto('/no-such-page');
+	const missing = await open(page, '/no-such-page');
 	expect(missing?.status()).toBe(404);
 	await expect(page.getByRole('heading', { level: 1 })).toHaveText('We could not find that page');
 	await expectNoAxeViolations(page);
@@ -60,7 +60,7 @@ test('the inbox message page and the invitation page have no axe violations', as
 		.getAttribute('href');
 	const guest = await browser.newContext({ baseURL: E2E.origin });
 	const visitor = await guest.newPage();
-	await visitor.goto(link!);
+	await open(visitor, link!);
 	await expect(visitor.getByRole('heading', { level: 1 })).toContainText('Join');
 	await expectNoAxeViolations(visitor);
 	await guest.close();

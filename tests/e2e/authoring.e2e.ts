@@ -6,7 +6,13 @@
  */
 import { expect, test } from '@playwright/test';
 import { seedReadySegment } from './segments-support';
-import { ACCOUNTS, expectNoAxeViolations, seedReadyRecording, signInWithPassword } from './support';
+import {
+	ACCOUNTS,
+	expectNoAxeViolations,
+	seedReadyRecording,
+	signInWithPassword,
+	open
+} from './support';
 
 const NARRATION = `WEBVTT
 
@@ -40,7 +46,7 @@ test('a clinician renames a recording, imports its captions there and makes draf
 	await seedReadySegment(recordingId, { title: `Part one ${run}`, start: 0, end: 16 });
 	await seedReadySegment(recordingId, { title: `Part two ${run}`, start: 16, end: 23 });
 	await signInWithPassword(page, ACCOUNTS.clinician);
-	await page.goto(`/recordings/${recordingId}`);
+	await open(page, `/recordings/${recordingId}`);
 
 	// Rename: a blank title is refused in words; a real one is kept.
 	await page.getByText('Rename', { exact: true }).click();
@@ -92,7 +98,7 @@ test('a clinician renames a recording, imports its captions there and makes draf
 	await page.getByRole('button', { name: 'Make the ticked exercises' }).click();
 	await expect(page.getByText('2 draft exercises made')).toBeVisible();
 
-	await page.goto(`/exercises?q=${encodeURIComponent('supported arm raise')}`);
+	await open(page, `/exercises?q=${encodeURIComponent('supported arm raise')}`);
 	await expect(
 		page
 			.getByRole('row')

@@ -11,7 +11,9 @@ import {
 	seedCaptionTrack,
 	seedReadyRecording,
 	signedInRequest,
-	signInWithPassword
+	signInWithPassword,
+	open,
+	reload
 } from './support';
 import { E2E } from './ports';
 
@@ -68,7 +70,7 @@ test('a clinician imports a WebVTT file, and the recording plays it as its capti
 }) => {
 	test.setTimeout(90_000);
 	await signInWithPassword(page, ACCOUNTS.clinician);
-	await page.goto(`/recordings/${recordingId}`);
+	await open(page, `/recordings/${recordingId}`);
 	await page.getByRole('link', { name: 'Captions and versions' }).click();
 	await expect(page.getByRole('heading', { name: 'Captions', level: 1 })).toBeVisible();
 	await expectNoAxeViolations(page);
@@ -98,7 +100,7 @@ test('a clinician imports a WebVTT file, and the recording plays it as its capti
 	await page.getByLabel('Caption file').setInputFiles(file('mistakes.vtt', BROKEN));
 	await page.getByRole('button', { name: 'Import' }).click();
 	await expect(page.getByRole('list', { name: 'Problems in the file' })).toBeVisible();
-	await page.reload();
+	await reload(page);
 	await expect(page.getByTestId('versions').getByRole('row')).toHaveCount(2);
 
 	await page.getByRole('link', { name: 'What changed in version 1' }).click();
@@ -124,7 +126,7 @@ test('a clinician imports a WebVTT file, and the recording plays it as its capti
 	await expect(page.getByTestId('versions').getByRole('row')).toHaveCount(4);
 	await expect(page.getByTestId('versions')).toContainText('Restored version 1');
 
-	await page.goto(`/recordings/${recordingId}`);
+	await open(page, `/recordings/${recordingId}`);
 	const player = page.getByTestId('player');
 	await expect(player).toBeVisible();
 	await expect(player.locator('track')).toHaveAttribute('kind', 'captions');

@@ -8,7 +8,7 @@ import {
 	signInAs
 } from './followup-support';
 import { seedProgramme } from './programme-fixtures';
-import { ACCOUNTS, expectNoAxeViolations, visit } from './support';
+import { ACCOUNTS, expectNoAxeViolations, visit, open } from './support';
 
 /**
  * Follow-up in the browser: the caseload's sorting, filters and pages (server-rendered, so the
@@ -256,7 +256,7 @@ test('range-of-motion readings compare with normal, the other side and the measu
 
 test("another clinic's patient page is not found", async ({ page }) => {
 	await signInAs(page, ACCOUNTS.otherClinicClinician);
-	const response = await page.goto(`/patients/${risingId}`);
+	const response = await open(page, `/patients/${risingId}`);
 	expect(response?.status()).toBe(404);
 	const api = await page.request.get(`/api/patients/${risingId}/followup.json`);
 	expect(api.status()).toBe(404);

@@ -1,5 +1,13 @@
 import { expect, test } from '@playwright/test';
-import { ACCOUNTS, database, firstLink, signInWithPassword, waitForMail } from './support';
+import {
+	ACCOUNTS,
+	database,
+	firstLink,
+	signInWithPassword,
+	waitForMail,
+	open,
+	reload
+} from './support';
 import { E2E } from './ports';
 
 // People of this run's own: the suite can run again on the same data without meeting them twice.
@@ -34,7 +42,7 @@ test('an admin invites a clinician, who accepts and signs in; the link then is s
 
 	const guest = await browser.newContext({ baseURL: E2E.origin });
 	const newcomer = await guest.newPage();
-	await newcomer.goto(link);
+	await open(newcomer, link);
 	await expect(newcomer.getByRole('heading', { level: 1 })).toHaveText(
 		'Join Alder Street Community Clinic'
 	);
@@ -51,7 +59,7 @@ test('an admin invites a clinician, who accepts and signs in; the link then is s
 	expect(await reused.text()).toContain('already been used');
 	await guest.close();
 
-	await page.reload();
+	await reload(page);
 	await expect(page.getByRole('cell', { name: NEWCOMER, exact: true })).toBeVisible();
 });
 
@@ -110,7 +118,7 @@ test('a clinician invites a patient, who joins without a password, lands on Toda
 	const link = firstLink((await waitForMail(email, since)).text, '/invite/');
 	const guest = await browser.newContext({ baseURL: E2E.origin });
 	const patient = await guest.newPage();
-	await patient.goto(link);
+	await open(patient, link);
 	await patient.getByLabel('Your name').fill(JOINING_PATIENT);
 	await patient.getByRole('button', { name: 'Accept and create my account' }).click();
 	// Accepting signs the patient in at once and opens their programme.
@@ -119,7 +127,9 @@ test('a clinician invites a patient, who joins without a password, lands on Toda
 
 	// Later, without a password, they sign in with an e-mailed link.
 	await patient.getByRole('button', { name: 'Sign out' }).click();
-	await patient.goto('/signin');
+	// Signing out lands on the sign-in page; opening it before then would cut that navigation short.
+	await patient.waitForURL((url) => url.pathname === '/signin');
+	await patient.locator('html[data-started]').waitFor({ state: 'attached' });
 	const linkSince = Date.now();
 	const linkForm = patient.locator('form[action="?/link"]');
 	await linkForm.getByLabel('E-mail address').fill(email);
@@ -128,12 +138,12 @@ test('a clinician invites a patient, who joins without a password, lands on Toda
 		(await waitForMail(email, linkSince, 'sign-in link')).text,
 		'/auth/callback/nodemailer'
 	);
-	await patient.goto(signInLink);
+	await open(patient, signInLink);
 	await expect(patient).toHaveURL(/\/today$/);
 	await expect(patient.getByRole('heading', { level: 1 })).toContainText('Hattie');
 	await guest.close();
 
-	await page.reload();
+	await reload(page);
 	await expect(
 		page.getByRole('row').filter({ hasText: JOINING_PATIENT }).getByText('Signed up')
 	).toBeVisible();

@@ -17,7 +17,8 @@ import {
 	firstLink,
 	seedReadyRecording,
 	waitForMail,
-	storageClient
+	storageClient,
+	open
 } from './support';
 
 /*
@@ -171,7 +172,7 @@ async function activate(control: Locator) {
 
 /** Password sign-in through the page, typed; waits for the page's script before typing. */
 async function signInByKeyboard(page: Page, email: string) {
-	await page.goto('/signin');
+	await open(page, '/signin');
 	await page.waitForLoadState('networkidle');
 	const form = page.locator('form[action="?/password"]');
 	await form.getByLabel('E-mail address').fill(email);
@@ -191,7 +192,7 @@ test('clinician builds a programme, the patient replays, restyles captions and l
 	const clinicianContext = await browser.newContext({ baseURL: E2E.origin });
 	const clinician = await clinicianContext.newPage();
 	await signInByKeyboard(clinician, ACCOUNTS.clinician);
-	await clinician.goto('/patients');
+	await open(clinician, '/patients');
 	const invite = clinician.locator('form[action="?/invite"]');
 	await invite.getByLabel('Full name').fill(PATIENT.name);
 	await invite.getByLabel('E-mail address').fill(email);
@@ -231,7 +232,7 @@ test('clinician builds a programme, the patient replays, restyles captions and l
 	// 3. The patient opens the link in their own browser and signs in by accepting it.
 	const patientContext = await browser.newContext({ baseURL: E2E.origin });
 	const patient = await patientContext.newPage();
-	await patient.goto(link);
+	await open(patient, link);
 	await patient.waitForLoadState('networkidle');
 	await expectNoAxeViolations(patient);
 	await patient.getByLabel('Your name').fill(PATIENT.name);
@@ -298,7 +299,7 @@ test('clinician builds a programme, the patient replays, restyles captions and l
 	await expectNoAxeViolations(patient);
 
 	// 7. The clinician's caseload shows the adherence and the log, each with its basis.
-	await clinician.goto(`/caseload?q=${encodeURIComponent(PATIENT.name)}`);
+	await open(clinician, `/caseload?q=${encodeURIComponent(PATIENT.name)}`);
 	const caseloadRow = clinician
 		.getByRole('row')
 		.filter({ has: clinician.getByRole('rowheader', { name: PATIENT.name }) });

@@ -1,6 +1,6 @@
 /** A clinician's desk (1366 px): the main navigation stays on one row. */
 import { expect, test } from '@playwright/test';
-import { ACCOUNTS, signInWithPassword } from './support';
+import { ACCOUNTS, signInWithPassword, open } from './support';
 
 test.use({ viewport: { width: 1366, height: 768 } });
 
@@ -8,7 +8,7 @@ test('the clinician’s navigation fits one row at 1366 px, development inbox in
 	page
 }) => {
 	await signInWithPassword(page, ACCOUNTS.clinician);
-	await page.goto('/caseload');
+	await open(page, '/caseload');
 	const links = page.getByRole('navigation', { name: 'Main' }).getByRole('link');
 	const tops = await links.evaluateAll((all) => all.map((a) => a.getBoundingClientRect().top));
 	expect(tops.length).toBeGreaterThanOrEqual(5);

@@ -16,7 +16,8 @@ import {
 	seedReadyRecording,
 	signedInRequest,
 	storageClient,
-	waitForMail
+	waitForMail,
+	open
 } from './support';
 import { E2E } from './ports';
 import { seedReadySegment } from './segments-support';
@@ -114,7 +115,7 @@ async function asNewPerson(browser: Browser, email: string | null): Promise<Page
 }
 
 async function openQueuedSubmission(page: Page): Promise<void> {
-	await page.goto('/curate');
+	await open(page, '/curate');
 	await page.getByTestId('review-queue').getByRole('link', { name: TITLE }).click();
 	await expect(page.getByRole('heading', { name: `Review: ${TITLE}`, level: 1 })).toBeVisible();
 }
@@ -126,7 +127,7 @@ test('submit → changes requested → fixed → approved → found by a signed-
 
 	// 1. The clinician submits the exercise, with consent and a licence.
 	const clinician = await asNewPerson(browser, ACCOUNTS.clinician);
-	await clinician.goto(`/exercises/${exerciseId}`);
+	await open(clinician, `/exercises/${exerciseId}`);
 	await clinician.getByRole('link', { name: 'Submit to the library' }).click();
 	await expect(
 		clinician.getByRole('heading', { name: 'Submit to the public library', level: 1 })
@@ -174,7 +175,7 @@ test('submit → changes requested → fixed → approved → found by a signed-
 	expect(mail.text).toContain('take the clinic phone number out');
 
 	// 3. The clinician follows the e-mail, reads the comment and fixes the description.
-	await clinician.goto(firstLink(mail.text, '/submit'));
+	await open(clinician, firstLink(mail.text, '/submit'));
 	await expect(
 		clinician.getByRole('region', { name: 'The educator asked for changes' })
 	).toContainText('take the clinic phone number out');
@@ -199,7 +200,7 @@ test('submit → changes requested → fixed → approved → found by a signed-
 
 	// 5. A signed-out visitor finds it by the start of a word and plays it with captions.
 	const visitor = await asNewPerson(browser, null);
-	await visitor.goto('/library');
+	await open(visitor, '/library');
 	await expectNoAxeViolations(visitor);
 	await visitor.getByLabel('Search exercises').fill('stan chai');
 	await visitor.getByRole('button', { name: 'Search' }).click();
@@ -286,13 +287,13 @@ test('submit → changes requested → fixed → approved → found by a signed-
 		'published',
 		[entryId]
 	);
-	await visitor.goto(`/library/collections/chair-exercises-for-week-two-${RUN}`);
+	await open(visitor, `/library/collections/chair-exercises-for-week-two-${RUN}`);
 	await expect(
 		visitor.getByRole('heading', { name: 'Chair exercises for week two', level: 1 })
 	).toBeVisible();
 	await expect(visitor.getByRole('link', { name: new RegExp(TITLE) })).toBeVisible();
 	await expectNoAxeViolations(visitor);
-	await visitor.goto('/library');
+	await open(visitor, '/library');
 	await visitor.screenshot({ path: join(SHOTS, 'library-front.png'), fullPage: true });
 });
 
@@ -313,7 +314,7 @@ test('an educator unpublishes and retires: the page answers 404, then 410, and s
 	expect(await status(`/api/library/versions/${row.versionId}/clip.mp4`)).toBe(200);
 
 	const educator = await asNewPerson(browser, ACCOUNTS.educator);
-	await educator.goto('/curate/published');
+	await open(educator, '/curate/published');
 	const line = educator
 		.getByTestId('published-table')
 		.getByRole('row', { name: new RegExp(TITLE) });
@@ -330,7 +331,7 @@ test('an educator unpublishes and retires: the page answers 404, then 410, and s
 	await expect(educator.getByText('Retired: its page now says it was withdrawn')).toBeVisible();
 	expect(await status(`/library/exercises/${row.slug}`)).toBe(410);
 	expect(await status(`/api/library/versions/${row.versionId}/poster-0.jpg`)).toBe(410);
-	await visitor.goto(`/library/exercises/${row.slug}`);
+	await open(visitor, `/library/exercises/${row.slug}`);
 	await expect(visitor.getByRole('heading', { name: 'This is no longer available' })).toBeVisible();
 	await expectNoAxeViolations(visitor);
 });
@@ -354,7 +355,7 @@ test('an educator builds a collection in order, with a cover, and publishes it',
 	});
 
 	const educator = await asNewPerson(browser, ACCOUNTS.educator);
-	await educator.goto('/curate/collections');
+	await open(educator, '/curate/collections');
 	await educator.getByLabel('Title').fill(`Morning routine ${RUN}`);
 	await educator.getByRole('button', { name: 'Create the collection' }).click();
 	await expect(
@@ -385,7 +386,7 @@ test('an educator builds a collection in order, with a cover, and publishes it',
 	await expectNoAxeViolations(educator);
 
 	const visitor = await asNewPerson(browser, null);
-	await visitor.goto(`/library/collections/morning-routine-${RUN}`);
+	await open(visitor, `/library/collections/morning-routine-${RUN}`);
 	await expect(
 		visitor.getByRole('heading', { name: `Morning routine ${RUN}`, level: 1 })
 	).toBeVisible();
@@ -433,14 +434,14 @@ test('a caption fixed in the track reaches the library as a caption revision an 
 
 	// Published first, through the ordinary path.
 	const clinician = await asNewPerson(browser, ACCOUNTS.clinician);
-	await clinician.goto(`/exercises/${id}/submit`);
+	await open(clinician, `/exercises/${id}/submit`);
 	await expect(clinician.getByTestId('submit-checklist')).not.toContainText('Does not pass');
 	await clinician.getByLabel(/Everyone who can be seen or heard/).check();
 	await clinician.getByRole('button', { name: 'Submit for review' }).click();
 	await expect(clinician.getByText('Submitted. It is waiting for an educator')).toBeVisible();
 	const educator = await asNewPerson(browser, ACCOUNTS.educator);
 	const decide = async (heading: string) => {
-		await educator.goto('/curate');
+		await open(educator, '/curate');
 		await educator.getByTestId('review-queue').getByRole('link', { name: title }).click();
 		await expect(educator.getByRole('heading', { name: heading, level: 1 })).toBeVisible();
 	};
@@ -454,7 +455,7 @@ test('a caption fixed in the track reaches the library as a caption revision an 
 		.getAttribute('href');
 	const visitor = await asNewPerson(browser, null);
 	const publicCaptions = async () => {
-		await visitor.goto(publicPage!);
+		await open(visitor, publicPage!);
 		const src = await visitor.getByTestId('library-player').locator('track').getAttribute('src');
 		return { src: src!, text: await (await visitor.request.get(src!)).text() };
 	};
@@ -472,7 +473,7 @@ test('a caption fixed in the track reaches the library as a caption revision an 
 	expect(saved.status()).toBe(201);
 
 	// The exercise's submit page offers to send the caption changes to the library.
-	await clinician.goto(`/exercises/${id}`);
+	await open(clinician, `/exercises/${id}`);
 	await clinician.getByRole('link', { name: 'Submit to the library' }).click();
 	const offer = clinician.getByRole('region', { name: 'The library shows older captions' });
 	await expect(offer).toContainText('1 cue changed');
@@ -488,7 +489,7 @@ test('a caption fixed in the track reaches the library as a caption revision an 
 	).toContainText('These caption changes are waiting for an educator’s review.');
 
 	// The educator sees the change cue by cue, with only the caption checks, and approves it.
-	await educator.goto('/curate');
+	await open(educator, '/curate');
 	await expect(
 		educator.getByTestId('review-queue').getByRole('row', { name: new RegExp(title) })
 	).toContainText('Caption changes to a published exercise');
@@ -527,7 +528,7 @@ test('a caption read a little too fast is fixed from the checklist, and the exer
 		{ id: '3', start: 7.5, end: 8.8, text: 'Then rest.' }
 	]);
 	const clinician = await asNewPerson(browser, ACCOUNTS.clinician);
-	await clinician.goto(`/exercises/${id}/submit`);
+	await open(clinician, `/exercises/${id}/submit`);
 	const checks = clinician.getByTestId('submit-checklist');
 	await expect(checks).toContainText('Does not pass: Captions pass the caption checks');
 	await expect(checks).toContainText('Reading rate 203 words per minute');

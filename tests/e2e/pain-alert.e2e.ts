@@ -10,7 +10,8 @@ import {
 	expectNoAxeViolations,
 	seedReadyRecording,
 	signInWithPassword,
-	waitForMail
+	waitForMail,
+	open
 } from './support';
 
 test('a patient logs 8/10 with sharp pain ticked; the clinician is e-mailed and the caseload flags it', async ({
@@ -28,7 +29,7 @@ test('a patient logs 8/10 with sharp pain ticked; the clinician is e-mailed and 
 	]);
 
 	await signInWithPassword(page, patient.email);
-	await page.goto(`/replay/${itemId}`);
+	await open(page, `/replay/${itemId}`);
 	await page.getByRole('button', { name: /I have read these notes/ }).click();
 	const since = Date.now();
 	await page.getByRole('button', { name: /Done — log this session/ }).click();
@@ -55,7 +56,7 @@ test('a patient logs 8/10 with sharp pain ticked; the clinician is e-mailed and 
 	const desk = await browser.newContext();
 	const clinician = await desk.newPage();
 	await signInWithPassword(clinician, ACCOUNTS.clinician);
-	await clinician.goto('/caseload?flag=pain-severe');
+	await open(clinician, '/caseload?flag=pain-severe');
 	const row = clinician.getByRole('row').filter({ hasText: name });
 	await expect(row).toContainText('Severe or sharp pain');
 	await desk.close();

@@ -15,7 +15,9 @@ import {
 	signedInRequest,
 	signInWithPassword,
 	visit,
-	storageClient
+	storageClient,
+	open,
+	reload
 } from './support';
 import { seedReadySegment } from './segments-support';
 import { seedProgramme, seedSignInPatient, sessionLogsOf } from './programme-fixtures';
@@ -184,7 +186,7 @@ test('a patient replays an exercise, sets captions, counts by keyboard and logs 
 	await expect(page.getByTestId('replay-video')).toBeVisible();
 
 	// Acknowledged once: the notes do not stand in the way again.
-	await page.reload();
+	await reload(page);
 	await expect(page.getByTestId('safety-gate')).toHaveCount(0);
 	await expect(page.getByTestId('replay-video')).toBeVisible();
 	await expect(page.getByTestId('dosage')).toHaveText(
@@ -371,7 +373,7 @@ test('session logs are idempotent, scoped to the patient, and other patients rea
 	expect((await signedOut.post('/api/sessions', { data: body, headers })).status()).toBe(401);
 	await signedOut.dispose();
 
-	const other = await page.goto(`/replay/${otherItemId}`);
+	const other = await open(page, `/replay/${otherItemId}`);
 	expect(other?.status()).toBe(404);
 	await expectNoAxeViolations(page);
 
@@ -392,7 +394,7 @@ test("a patient cannot read another patient's replay or the segment's captions t
 	page
 }) => {
 	await signInWithPassword(page, otherPatientEmail);
-	expect((await page.goto(`/replay/${itemId}`))?.status()).toBe(404);
+	expect((await open(page, `/replay/${itemId}`))?.status()).toBe(404);
 	// Their own item uses the same segment, so its captions are theirs too; a stranger's are not.
 	await visit(page, `/replay/${otherItemId}`);
 	const stranger = await seedSignInPatient(ACCOUNTS.clinician, { name: 'Stranger' });

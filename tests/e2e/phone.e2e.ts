@@ -17,7 +17,8 @@ import {
 	database,
 	expectNoAxeViolations,
 	seedReadyRecording,
-	signInWithPassword
+	signInWithPassword,
+	open
 } from './support';
 
 const run = promisify(execFile);
@@ -108,7 +109,7 @@ test('on a phone the next exercise is on Today’s first screen, and the upright
 	page
 }) => {
 	await signInWithPassword(page, patientEmail);
-	await page.goto('/today');
+	await open(page, '/today');
 	const firstCard = page.getByRole('link', { name: /Play exercise.*Wall slide/ });
 	const card = await firstCard.boundingBox();
 	expect(card && card.y + card.height).toBeLessThanOrEqual(PHONE.height);

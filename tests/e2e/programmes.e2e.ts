@@ -16,7 +16,9 @@ import {
 	seedReadyRecording,
 	signInWithPassword,
 	waitForMail,
-	storageClient
+	storageClient,
+	open,
+	reload
 } from './support';
 import { seedReadySegment } from './segments-support';
 import { E2E } from './ports';
@@ -155,7 +157,7 @@ test('a clinician makes an exercise from a segment, with cues, safety notes and 
 	page
 }) => {
 	await signInWithPassword(page, ACCOUNTS.clinician);
-	await page.goto('/exercises');
+	await open(page, '/exercises');
 	await expect(page.getByRole('heading', { level: 1, name: 'Exercises' })).toBeVisible();
 	await expectNoAxeViolations(page);
 
@@ -211,11 +213,11 @@ test('a clinician makes an exercise from a segment, with cues, safety notes and 
 	);
 	await expectNoAxeViolations(page);
 
-	await page.goto('/exercises?q=kneeling&status=ready');
+	await open(page, '/exercises?q=kneeling&status=ready');
 	const row = page.getByRole('row').filter({ hasText: NEW_EXERCISE });
 	await expect(row).toContainText('Ready');
 	await expect(row).toContainText('4 · Strengthening');
-	await page.goto('/exercises');
+	await open(page, '/exercises');
 	await shot(page, 'exercise-table');
 });
 
@@ -228,7 +230,7 @@ test('a clinician adds a patient, builds a flagged programme by keyboard, publis
 	const today = localDateOf(new Date(), 'Europe/London');
 	const operationDate = addDays(today, -8);
 	await signInWithPassword(page, ACCOUNTS.clinician);
-	await page.goto('/patients');
+	await open(page, '/patients');
 	const invite = page.locator('form[action="?/invite"]');
 	await invite.getByLabel('Full name').fill(NEW_PATIENT);
 	await invite.getByLabel('E-mail address').fill(email);
@@ -257,7 +259,7 @@ test('a clinician adds a patient, builds a flagged programme by keyboard, publis
 	await expect(page.getByLabel('Other precautions')).toHaveValue('Avoid long car journeys for now');
 	await expectNoAxeViolations(page);
 	await shot(page, 'patient-details');
-	await page.goto('/patients');
+	await open(page, '/patients');
 
 	await patientRow.getByRole('link', { name: `New programme for ${NEW_PATIENT}` }).click();
 	await expect(page.getByRole('heading', { name: 'New home programme' })).toBeVisible();
@@ -303,7 +305,7 @@ test('a clinician adds a patient, builds a flagged programme by keyboard, publis
 	await shot(page, 'builder');
 
 	// Saved: a reload shows the order and the override.
-	await page.reload();
+	await reload(page);
 	await expect(items).toHaveText([`1. ${NEW_EXERCISE}`, `2. ${SEEDED_EXERCISE}`]);
 	await expect(
 		page.locator('ol > li').filter({ hasText: SEEDED_EXERCISE }).getByLabel('Reps', { exact: true })
@@ -339,12 +341,12 @@ test('a clinician adds a patient, builds a flagged programme by keyboard, publis
 	);
 	const guest = await browser.newContext({ baseURL: E2E.origin });
 	const patient = await guest.newPage();
-	await patient.goto(invitation);
+	await open(patient, invitation);
 	await patient.getByLabel('Your name').fill(NEW_PATIENT);
 	await patient.getByRole('button', { name: 'Accept and create my account' }).click();
 	await expect(patient).toHaveURL(/\/today$/);
 	const printed = replayLinks[0].match(/https?:\/\/\S+\/r\/[0-9A-Z]{8}/)![0];
-	const answer = await patient.goto(new URL(printed).pathname);
+	const answer = await open(patient, new URL(printed).pathname);
 	expect(answer?.status()).toBe(200);
 	await expect(patient).toHaveURL(/\/replay\/[0-9a-f-]{36}$/);
 	await guest.close();
@@ -352,7 +354,7 @@ test('a clinician adds a patient, builds a flagged programme by keyboard, publis
 
 test('a failed live save keeps the edits and says so, then saves on retry', async ({ page }) => {
 	await signInWithPassword(page, ACCOUNTS.clinician);
-	await page.goto('/patients');
+	await open(page, '/patients');
 	await page
 		.getByRole('row')
 		.filter({ hasText: 'Percy Oakes' })
@@ -371,7 +373,7 @@ test('a failed live save keeps the edits and says so, then saves on retry', asyn
 	await page.unroute('**/api/programmes/*');
 	await page.getByRole('button', { name: 'Try again' }).click();
 	await expect(page.getByText(/All changes saved at/)).toBeVisible();
-	await page.reload();
+	await reload(page);
 	await expect(page.getByLabel('Sets', { exact: true })).toHaveValue('2');
 });
 

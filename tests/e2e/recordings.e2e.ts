@@ -8,7 +8,9 @@ import {
 	contextFor,
 	expectNoAxeViolations,
 	MATRIX_ROLES,
-	signInWithPassword
+	signInWithPassword,
+	open,
+	reload
 } from './support';
 import { E2E } from './ports';
 
@@ -30,7 +32,7 @@ test('a clinician uploads a clip, sees it get ready, plays it and seeks (206 res
 }) => {
 	test.setTimeout(180_000);
 	await signInWithPassword(page, ACCOUNTS.clinician);
-	const response = await page.goto('/recordings');
+	const response = await open(page, '/recordings');
 	// Parts go straight to storage, so the page's policy must let it connect there (and only there).
 	expect(response?.headers()['content-security-policy']).toContain(
 		`connect-src 'self' http://127.0.0.1:${E2E.storagePort}`
@@ -91,7 +93,7 @@ test('a clinician uploads a clip, sees it get ready, plays it and seeks (206 res
 		path: join(import.meta.dirname, '../.run/e2e-results/recording-page.png'),
 		fullPage: true
 	});
-	await page.goto('/recordings');
+	await open(page, '/recordings');
 	// This upload's own entry (an earlier run on the same data may have one of the same name).
 	await expect(
 		page.getByRole('link', { name: 'Sit to stand' }).and(page.locator(`[href="${recordingPath}"]`))
@@ -107,7 +109,7 @@ test('an upload interrupted by a reload resumes without re-sending stored parts'
 }) => {
 	test.setTimeout(120_000);
 	await signInWithPassword(page, ACCOUNTS.clinician);
-	await page.goto('/recordings');
+	await open(page, '/recordings');
 	const file = join(dir, 'Step ups.mp4');
 	const sent: number[] = [];
 	page.on('requestfinished', (request) => {
@@ -128,7 +130,7 @@ test('an upload interrupted by a reload resumes without re-sending stored parts'
 	// The connection drops: the held parts never arrive.
 	for (const route of heldRoutes) await route.abort('connectionreset');
 	await page.unroute(held);
-	await page.reload();
+	await reload(page);
 	await expect(page.getByRole('heading', { name: 'Unfinished uploads' })).toBeVisible();
 	await expect(page.getByText('Step ups.mp4 (', { exact: false })).toBeVisible();
 	sent.length = 0;

@@ -18,7 +18,8 @@ import {
 	seedCaptionTrack,
 	seedReadyRecording,
 	signedInRequest,
-	waitForMail
+	waitForMail,
+	open
 } from './support';
 
 const SESSION_COOKIE = 'authjs.session-token';
@@ -196,7 +197,7 @@ test.describe('every sign-in path is limited and audited', () => {
 		const link = firstLink(newest.text, '/auth/callback/nodemailer');
 		const context = await browser.newContext({ baseURL: E2E.origin });
 		const page = await context.newPage();
-		await page.goto(link);
+		await open(page, link);
 		await expect(page).toHaveURL(/\/patients$/);
 		await context.close();
 		await api.dispose();
@@ -444,7 +445,7 @@ test.describe('no redirect leaves the site', () => {
 		const link = firstLink((await waitForMail(email, since)).text, '/auth/callback/nodemailer');
 		const context = await browser.newContext({ baseURL: E2E.origin });
 		const page = await context.newPage();
-		await page.goto(link);
+		await open(page, link);
 		expect(new URL(page.url()).origin).toBe(E2E.origin);
 		await context.close();
 		await api.dispose();

@@ -14,7 +14,8 @@ import {
 	seedCaptionTrack,
 	seedReadyRecording,
 	signedInRequest,
-	signInWithPassword
+	signInWithPassword,
+	open
 } from './support';
 import { seedPatientWithProgramme } from './segments-support';
 
@@ -51,7 +52,7 @@ test('a clinician accepts the suggested segments, confirms, and plays a cut segm
 }) => {
 	test.setTimeout(180_000);
 	await signInWithPassword(page, ACCOUNTS.clinician);
-	await page.goto(`/recordings/${recordingId}`);
+	await open(page, `/recordings/${recordingId}`);
 	await page.getByRole('link', { name: 'Exercise segments' }).click();
 	await expect(page.getByRole('heading', { name: 'Segments', level: 1 })).toBeVisible();
 
@@ -141,14 +142,25 @@ test('a clinician accepts the suggested segments, confirms, and plays a cut segm
 test('segment files: ranges, captions with ETags, a transcript; a patient only through a published programme', async () => {
 	test.setTimeout(60_000);
 	const clinician = await signedInRequest(ACCOUNTS.clinician);
-	const listed = await clinician.get(`/api/recordings/${recordingId}/segments`);
-	expect(listed.status()).toBe(200);
-	const { segments } = (await listed.json()) as {
-		segments: { id: string; status: string; title: string; urls: { clip: string } }[];
-	};
-	const segment = segments.find((s) => s.status === 'ready');
-	expect(segment, 'a ready segment from the test before').toBeTruthy();
-	const base = `/api/segments/${segment!.id}`;
+	// Its own segments, confirmed through the API (this test does not rely on the one before).
+	const confirmed = await clinician.post(`/api/recordings/${recordingId}/segments`, {
+		data: { segments: exercises.map(({ title, start, end }) => ({ title, start, end })) }
+	});
+	expect(confirmed.status()).toBe(201);
+	type Listed = { segments: { id: string; status: string; title: string }[] };
+	let segments: Listed['segments'] = [];
+	await expect
+		.poll(
+			async () => {
+				const listed = await clinician.get(`/api/recordings/${recordingId}/segments`);
+				({ segments } = (await listed.json()) as Listed);
+				return segments.map((s) => s.status);
+			},
+			{ timeout: 90_000, message: 'the confirmed segments are cut' }
+		)
+		.toEqual(exercises.map(() => 'ready'));
+	const segment = segments[0];
+	const base = `/api/segments/${segment.id}`;
 
 	// RFC 9110: a single range answers 206 with Content-Range; a range past the end 416.
 	const ranged = await clinician.get(`${base}/clip.mp4`, { headers: { Range: 'bytes=0-99' } });
@@ -181,7 +193,7 @@ test('segment files: ranges, captions with ETags, a transcript; a patient only t
 	expect(poster.headers()['content-type']).toBe('image/jpeg');
 
 	// A patient whose published programme uses the segment may watch it; another patient may not.
-	const viewerEmail = await seedPatientWithProgramme(segment!.id);
+	const viewerEmail = await seedPatientWithProgramme(segment.id);
 	const viewer = await signedInRequest(viewerEmail);
 	const outsider = await signedInRequest(ACCOUNTS.patient);
 	for (const path of ['clip.mp4', 'captions.vtt', 'transcript.json', 'poster-0.jpg']) {

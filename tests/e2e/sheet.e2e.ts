@@ -15,7 +15,8 @@ import {
 	expectNoAxeViolations,
 	seedReadyRecording,
 	signInWithPassword,
-	storageClient
+	storageClient,
+	open
 } from './support';
 import { seedReadySegment } from './segments-support';
 import { seedProgramme, seedSignInPatient, type SeedItem } from './programme-fixtures';
@@ -263,7 +264,7 @@ for (const count of [3, 6] as const) {
 	}) => {
 		const { programmeId, itemIds } = programmes[count];
 		await signInWithPassword(page, ACCOUNTS.clinician);
-		await page.goto(`/programmes/${programmeId}/sheet`);
+		await open(page, `/programmes/${programmeId}/sheet`);
 		const sheet = page.locator('article.sheet');
 		await expect(sheet.getByRole('heading', { level: 2 })).toHaveCount(count);
 
@@ -322,7 +323,7 @@ test('the printed short address opens the replay for its patient only', async ({
 	// Signed out: to sign in, and from there on to the replay.
 	const guest = await browser.newContext();
 	const page = await guest.newPage();
-	await page.goto(`/r/${code.toLowerCase()}`);
+	await open(page, `/r/${code.toLowerCase()}`);
 	await expect(page).toHaveURL(/\/signin\?next=/);
 	const form = page.locator('form[action="?/password"]');
 	await form.getByLabel('E-mail address').fill(patient.email);
@@ -336,7 +337,7 @@ test('the printed short address opens the replay for its patient only', async ({
 	const other = await browser.newContext();
 	const otherPage = await other.newPage();
 	await signInWithPassword(otherPage, ACCOUNTS.patient);
-	const answer = await otherPage.goto(`/r/${code}`);
+	const answer = await open(otherPage, `/r/${code}`);
 	expect(answer?.status()).toBe(404);
 	expect(otherPage.url()).toMatch(new RegExp(`/r/${code}$`));
 	await other.close();

@@ -14,7 +14,8 @@ import {
 	expectNoAxeViolations,
 	seedReadyRecording,
 	signInWithPassword,
-	waitForMail
+	waitForMail,
+	open
 } from './support';
 
 /** Screens kept with the run's results, to look at after a change. */
@@ -62,7 +63,7 @@ test('a clinician builds the early shoulder programme; the patient sees how to m
 
 	// The clinician records the repair, the precaution with its end and the sling period.
 	await signInWithPassword(page, ACCOUNTS.clinician);
-	await page.goto(`/patients/${patient.patientId}/details`);
+	await open(page, `/patients/${patient.patientId}/details`);
 	await page.getByLabel('Operation or injury', { exact: true }).fill('Right rotator cuff repair');
 	await page.getByLabel('Affected side').selectOption('right');
 	await page.getByLabel('Date of the operation (or injury)').fill(operationDate);
@@ -87,7 +88,7 @@ test('a clinician builds the early shoulder programme; the patient sees how to m
 	await expectNoAxeViolations(page);
 	await shot(page, 'details');
 
-	await page.goto(`/patients/${patient.patientId}`);
+	await open(page, `/patients/${patient.patientId}`);
 	await shot(page, 'patient');
 	await expect(page.getByTestId('precautions')).toContainText(
 		'Biceps repair: no active elbow flexion, until'
@@ -139,7 +140,7 @@ test('a clinician builds the early shoulder programme; the patient sees how to m
 	const phone = await browser.newContext({ viewport: { width: 390, height: 844 } });
 	const patientPage = await phone.newPage();
 	await signInWithPassword(patientPage, patient.email);
-	await patientPage.goto('/today');
+	await open(patientPage, '/today');
 	await expect(patientPage.getByTestId('sling')).toContainText(
 		'wear your sling between sessions up to and including'
 	);
@@ -178,7 +179,7 @@ test('a clinician builds the early shoulder programme; the patient sees how to m
 		'a patient logged severe or sharp pain'
 	);
 	expect(mail.text).toContain(`${name} (Alder Street Community Clinic) logged pain 8/10`);
-	await page.goto('/caseload?flag=pain-severe');
+	await open(page, '/caseload?flag=pain-severe');
 	await expect(page.getByRole('row').filter({ hasText: name })).toContainText(
 		'Severe or sharp pain'
 	);

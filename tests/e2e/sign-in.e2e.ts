@@ -5,7 +5,8 @@ import {
 	DEMO_PASSWORD,
 	firstLink,
 	signInWithPassword,
-	waitForMail
+	waitForMail,
+	open
 } from './support';
 import { E2E } from './ports';
 
@@ -66,7 +67,7 @@ test('the patient home carries the standing caution', async ({ page }) => {
 
 test('signing in by the e-mailed link works once', async ({ page, browser }) => {
 	const since = Date.now();
-	await page.goto('/signin');
+	await open(page, '/signin');
 	const form = page.locator('form[action="?/link"]');
 	await form.getByLabel('E-mail address').fill(ACCOUNTS.clinician);
 	await form.getByRole('button', { name: 'Send me a sign-in link' }).click();
@@ -75,13 +76,13 @@ test('signing in by the e-mailed link works once', async ({ page, browser }) => 
 	const mail = await waitForMail(ACCOUNTS.clinician, since);
 	expect(mail.subject).toBe('Your Kinelume sign-in link');
 	const link = firstLink(mail.text, '/auth/callback/nodemailer');
-	await page.goto(link);
+	await open(page, link);
 	await expect(page).toHaveURL(/\/patients$/);
 
 	// The same link a second time, in a fresh browser, is refused with a clear sentence.
 	const fresh = await browser.newContext({ baseURL: E2E.origin });
 	const again = await fresh.newPage();
-	await again.goto(link);
+	await open(again, link);
 	await expect(again).toHaveURL(/\/signin\?error=Verification/);
 	await expect(again.getByRole('alert')).toContainText('expired or was already used');
 	await fresh.close();
@@ -100,7 +101,7 @@ test('asking a link for an unknown address says the same as for a known one and 
 	page
 }) => {
 	const since = Date.now();
-	await page.goto('/signin');
+	await open(page, '/signin');
 	const form = page.locator('form[action="?/link"]');
 	await form.getByLabel('E-mail address').fill('stranger@nowhere.example');
 	await form.getByRole('button', { name: 'Send me a sign-in link' }).click();

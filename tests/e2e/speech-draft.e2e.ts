@@ -11,7 +11,9 @@ import {
 	seedCaptionTrack,
 	seedReadyRecording,
 	signedInRequest,
-	signInWithPassword
+	signInWithPassword,
+	open,
+	reload
 } from './support';
 
 /*
@@ -102,7 +104,7 @@ test('an empty track gets cues timed to the narration, accepted, undoable and sa
 	// A track whose saved version holds no cues, named for this run.
 	const trackId = seedCaptionTrack(recordingId, [], { language: 'en-GB' });
 	await signInWithPassword(page, ACCOUNTS.clinician);
-	await page.goto(`/recordings/${recordingId}/studio?track=${trackId}`);
+	await open(page, `/recordings/${recordingId}/studio?track=${trackId}`);
 	await expect(page.getByTestId('studio')).toHaveAttribute('data-ready', 'true');
 
 	const offer = page.getByTestId('speech-draft');
@@ -141,7 +143,7 @@ test('an empty track gets cues timed to the narration, accepted, undoable and sa
 	});
 	await expect(page.getByTestId('save-state')).not.toHaveText('Saved as version 1');
 
-	await page.reload();
+	await reload(page);
 	await expect(page.getByTestId('studio')).toHaveAttribute('data-ready', 'true');
 	await expect(page.getByRole('heading', { name: /Cues of “Seeded” \(3\)/ })).toBeVisible();
 	await expect(page.getByTestId('speech-draft')).toHaveCount(0);

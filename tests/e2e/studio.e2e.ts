@@ -15,7 +15,9 @@ import {
 	seedReadyRecording,
 	signedInRequest,
 	signInWithPassword,
-	storageClient
+	storageClient,
+	open,
+	reload
 } from './support';
 import { E2E } from './ports';
 
@@ -104,7 +106,7 @@ test.afterAll(async () => {
 });
 
 async function openStudio(page: Page, trackId: string) {
-	await page.goto(`/recordings/${recordingId}/studio?track=${trackId}`);
+	await open(page, `/recordings/${recordingId}/studio?track=${trackId}`);
 	await expect(page.getByTestId('studio')).toHaveAttribute('data-ready', 'true');
 }
 
@@ -142,7 +144,7 @@ test('a clinician writes three cues with the keyboard while the video plays, and
 	test.setTimeout(90_000);
 	const trackId = seedCaptionTrack(recordingId, [], { language: 'en-GB' });
 	await signInWithPassword(page, ACCOUNTS.clinician);
-	await page.goto(`/recordings/${recordingId}`);
+	await open(page, `/recordings/${recordingId}`);
 	await page.getByRole('link', { name: 'Caption editor' }).click();
 	await expect(page.getByRole('heading', { name: 'Caption editor', level: 1 })).toBeVisible();
 	await expect(page.getByTestId('studio')).toHaveAttribute('data-ready', 'true');
@@ -390,7 +392,7 @@ test('findings are grouped by kind with their guideline once, and Fix all mends 
 	const saved = await serverVersion(trackId);
 	expect(saved.cues.map((c) => c.end)).toEqual([3.4, 7.8, 14.2, 18.5]);
 	expect(saved.cues.map((c) => words(c.text))).toEqual(seeded.map((c) => words(c.text)));
-	await page.reload();
+	await reload(page);
 	await expect(page.getByTestId('studio')).toHaveAttribute('data-ready', 'true');
 	await page.getByLabel('Check against').selectOption('bbc');
 	await expect(page.getByLabel('Words of cue 2')).toHaveValue(
@@ -477,7 +479,7 @@ test('changes whose save failed are kept on the device and restored after a relo
 	expect((await serverVersion(trackId)).version).toBe(1);
 
 	await page.unroute('**/versions');
-	await page.reload();
+	await reload(page);
 	await expect(page.getByTestId('studio')).toHaveAttribute('data-ready', 'true');
 	const offer = page.getByRole('region', { name: 'Changes kept on this device' });
 	await expect(offer).toContainText('never reached Kinelume (1 cue, started from version 1)');
@@ -491,7 +493,7 @@ test('changes whose save failed are kept on the device and restored after a relo
 	expect((await serverVersion(trackId)).cues[0].text).toBe('Breathe in, and relax your shoulders.');
 
 	// Saved: nothing is offered any more.
-	await page.reload();
+	await reload(page);
 	await expect(page.getByTestId('studio')).toHaveAttribute('data-ready', 'true');
 	await expect(page.getByRole('region', { name: 'Changes kept on this device' })).toHaveCount(0);
 });

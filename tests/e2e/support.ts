@@ -1,4 +1,10 @@
-import { expect, request, type APIRequestContext, type Page } from '@playwright/test';
+import {
+	expect,
+	request,
+	type APIRequestContext,
+	type Page,
+	type Response
+} from '@playwright/test';
 import { EXERCISE_TAGS, PRECAUTIONS } from '../../src/lib/clinical/precautions';
 import { PROTOCOL_IDS } from '../../src/lib/clinical/phases';
 import { MOTIONS } from '../../src/lib/clinical/rom';
@@ -93,9 +99,32 @@ export async function signInWithPassword(
 	else await expect(page.getByRole('alert')).toBeVisible();
 }
 
+async function started(page: Page, response: Response | null) {
+	const html = (response?.headers()['content-type'] ?? '').startsWith('text/html');
+	if (html) await page.locator('html[data-started]').waitFor({ state: 'attached' });
+	return response;
+}
+
+/**
+ * Opens a page and, when it is one of the app's pages, waits until its script has started.
+ * Until then its forms work as plain HTML (by design), so a test that presses Enter too soon gets
+ * a full-page answer without what the script adds (focus moved, a live message) and fails on some
+ * runs only. Pages in a context without scripts must use `page.goto` directly.
+ */
+export async function open(page: Page, path: string, options?: Parameters<Page['goto']>[1]) {
+	const response = await page.goto(path, options);
+	return started(page, response);
+}
+
+/** Loads the page again and waits for its script, as `open` does. */
+export async function reload(page: Page) {
+	const response = await page.reload();
+	return started(page, response);
+}
+
 /** Opens a page and checks the app did not send us elsewhere (e.g. back to sign in). */
 export async function visit(page: Page, path: string) {
-	await page.goto(path);
+	await open(page, path);
 	expect(new URL(page.url()).pathname, `visiting ${path}`).toBe(path.split('?')[0]);
 }
 
