@@ -1,4 +1,4 @@
-import { testEnv } from './env';
+import './env';
 import { mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -77,7 +77,6 @@ async function cutDemoSegments(clinicId: string): Promise<void> {
 
 describe('demo library', () => {
 	it('publishes the chosen demo exercises through review, with a collection and one waiting', async () => {
-		expect(testEnv.DATABASE_PATH).toBeTruthy();
 		await seedDemo();
 		const clinic = db()
 			.select()

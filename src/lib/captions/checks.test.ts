@@ -162,15 +162,10 @@ describe('checkCues', () => {
 		expect(rates).toEqual([]);
 	});
 
-	it('checks 2,000 cues quickly enough to run on every keystroke', () => {
+	it('finds nothing in 2,000 well-formed cues (their speed is measured in bench:captions)', () => {
 		const many = Array.from({ length: 2000 }, (_, i) =>
 			cue(`${i}`, i * 3, i * 3 + 2, 'Slide your heel up.')
 		);
-		const started = performance.now();
-		const findings = checkCues(many, profiles.bbc);
-		const elapsed = performance.now() - started;
-		expect(findings).toEqual([]);
-		// Issue 4's goal is 16 ms after one edit; a loose bound keeps this test steady on a busy machine.
-		expect(elapsed).toBeLessThan(200);
+		expect(checkCues(many, profiles.bbc)).toEqual([]);
 	});
 });
