@@ -11,6 +11,7 @@ import { users } from './auth';
 import { clinics } from './clinics';
 import type { PrecautionDetail } from '../../../clinical/precautions';
 import { SEXES } from '../../../clinical/rom';
+import { PATIENT_SIDES } from '../../../patients/vocabulary';
 
 /** A patient's caption look; colours are #rrggbb, checked for contrast before saving. */
 export interface CaptionStyle {
@@ -18,8 +19,6 @@ export interface CaptionStyle {
 	color: string;
 	background: string;
 }
-
-export const SIDES = ['left', 'right', 'both', 'not applicable'] as const;
 
 /**
  * A person under a clinic's care. The record exists from the moment a clinician invites them;
@@ -35,7 +34,9 @@ export const patients = sqliteTable(
 		userId: text('user_id').references(() => users.id, { onDelete: 'set null' }),
 		fullName: text('full_name').notNull(),
 		email: text('email').notNull(),
-		affectedSide: text('affected_side', { enum: SIDES }).notNull().default('not applicable'),
+		affectedSide: text('affected_side', { enum: PATIENT_SIDES })
+			.notNull()
+			.default('not applicable'),
 		/** What the programme is for, in the clinician's words, e.g. "left total knee replacement". */
 		condition: text('condition').notNull().default(''),
 		/** The operation or injury date, 'YYYY-MM-DD' in the patient's time zone, when there is one. */
