@@ -1,3 +1,4 @@
+import { LRUCache } from 'lru-cache';
 import type { Cookies } from '@sveltejs/kit';
 import { decode, encode, type JWT } from '@auth/core/jwt';
 import type { Role } from '$lib/auth/roles';
@@ -50,8 +51,7 @@ export interface SessionClaim {
 }
 
 /** How many read tokens are remembered; each is a few hundred bytes. */
-const READ_TOKENS_KEPT = 2000;
-const readTokens = new Map<string, SessionClaim & { expiresAt: number }>();
+const readTokens = new LRUCache<string, SessionClaim & { expiresAt: number }>({ max: 2000 });
 
 /**
  * The user and session ids in the request's session token, read without Auth.js's session round
@@ -87,10 +87,6 @@ export async function readSessionClaim(
 		return null;
 	}
 	if (!payload?.sub || typeof payload.exp !== 'number' || payload.exp <= nowSeconds) return null;
-	if (readTokens.size >= READ_TOKENS_KEPT) {
-		const oldest = readTokens.keys().next().value;
-		if (oldest !== undefined) readTokens.delete(oldest);
-	}
 	const claim = {
 		userId: payload.sub,
 		sessionId: typeof payload.sid === 'string' ? payload.sid : undefined

@@ -17,7 +17,7 @@ import {
 import { cueProblemSentence, cuesSchema, MAX_CUES } from '$lib/captions/schema';
 import { cuesAsServed, parseVtt, serializeVtt } from '$lib/captions/vtt';
 import { db, prepared } from '../db';
-import { ExportCache } from './export-cache';
+import { exportCache } from './export-cache';
 import {
 	captionTracks,
 	captionTrackVersions,
@@ -442,7 +442,7 @@ function fileStem(track: CaptionTrack): string {
  * Files already written, by track, version and format: a `<track>` revalidates on every page
  * load, and a version never changes once saved. About 50 long (2,000-cue) tracks fit.
  */
-const exportedFiles = new ExportCache(8 * 1024 * 1024);
+const exportedFiles = exportCache(8 * 1024 * 1024);
 
 /** The track (or one version of it) as WebVTT or SRT; version 0 exports an empty file. */
 export function exportTrack(

@@ -1,7 +1,7 @@
 import { apiError } from '../api';
 import { exportTrack, type CaptionFormat } from '.';
 import { callerTrack, matchesNoneMatch, REVALIDATE, versionParam } from './api';
-import { ExportCache } from './export-cache';
+import { exportCache } from './export-cache';
 
 const TYPES: Record<CaptionFormat, string> = {
 	vtt: 'text/vtt; charset=utf-8',
@@ -29,7 +29,7 @@ export function serveTrackFile(
 
 // The encoded bytes of files recently served, by their strong tag (which names one content for
 // good). Encoding a long track to UTF-8 on every request was a good part of each answer's cost.
-const encodedFiles = new ExportCache<Uint8Array<ArrayBuffer>>(16 * 1024 * 1024);
+const encodedFiles = exportCache<Uint8Array<ArrayBuffer>>(16 * 1024 * 1024);
 const utf8 = new TextEncoder();
 
 /**

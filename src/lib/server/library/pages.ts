@@ -2,6 +2,7 @@
  * Small helpers the public library pages share: caching for the signed-out, absolute addresses
  * for shared links and Open Graph tags, and the card shape the pages send to the browser.
  */
+import { LRUCache } from 'lru-cache';
 import { config } from '../config';
 import { renderSafetyNotes } from '../markdown';
 import type { ExerciseCard } from './public';
@@ -39,8 +40,7 @@ export function cardData(card: ExerciseCard) {
 }
 
 // A published version never changes, so its safety notes are rendered once, not per visit.
-const SAFETY_HTML_MAX = 1000;
-const safetyHtml = new Map<string, string>();
+const safetyHtml = new LRUCache<string, string>({ max: 1000 });
 
 /** A published version's safety notes as sanitised HTML (renderSafetyNotes), kept by version id. */
 export function versionSafetyHtml(version: {
@@ -50,7 +50,6 @@ export function versionSafetyHtml(version: {
 	let html = safetyHtml.get(version.id);
 	if (html === undefined) {
 		html = renderSafetyNotes(version.snapshot.safetyNotes);
-		if (safetyHtml.size >= SAFETY_HTML_MAX) safetyHtml.delete(safetyHtml.keys().next().value!);
 		safetyHtml.set(version.id, html);
 	}
 	return html;

@@ -6,6 +6,7 @@
  * No request-bound imports here: the stand-alone worker process loads this module through the
  * cut-segment job. Endpoint access checks live in access.ts.
  */
+import { LRUCache } from 'lru-cache';
 import { configuredWordLists } from './word-lists';
 import { createHash } from 'node:crypto';
 import { and, asc, desc, eq, inArray, isNotNull, isNull, notExists } from 'drizzle-orm';
@@ -161,12 +162,20 @@ export interface ReadySegment {
 	posterCount: number;
 	cueCount: number;
 	captionsLanguage: string;
+	/** The recording's picture size: the clip's shape. */
+	width: number;
+	height: number;
 }
 
 /** Every current, cut segment of the clinic, by recording and then order: what exercises pick from. */
 export function listReadySegments(clinicId: string): ReadySegment[] {
 	return db()
-		.select({ segment: segments, recordingTitle: recordings.title })
+		.select({
+			segment: segments,
+			recordingTitle: recordings.title,
+			width: recordings.width,
+			height: recordings.height
+		})
 		.from(segments)
 		.innerJoin(recordings, eq(recordings.id, segments.recordingId))
 		.where(
@@ -178,7 +187,7 @@ export function listReadySegments(clinicId: string): ReadySegment[] {
 		)
 		.orderBy(asc(recordings.title), asc(segments.recordingId), asc(segments.position))
 		.all()
-		.map(({ segment: s, recordingTitle }) => ({
+		.map(({ segment: s, recordingTitle, width, height }) => ({
 			id: s.id,
 			recordingId: s.recordingId,
 			recordingTitle,
@@ -189,7 +198,9 @@ export function listReadySegments(clinicId: string): ReadySegment[] {
 			durationSeconds: s.clipDurationSeconds ?? s.endSeconds - s.startSeconds,
 			posterCount: s.posterCount,
 			cueCount: s.cues.length,
-			captionsLanguage: s.captionsLanguage
+			captionsLanguage: s.captionsLanguage,
+			width,
+			height
 		}));
 }
 
@@ -587,8 +598,7 @@ export interface SegmentCaptions {
 }
 
 // Clipped cues by track, version and segment: a version never changes, so neither do they.
-const clippedCaptions = new Map<string, Cue[]>();
-const CLIPPED_KEPT = 500;
+const clippedCaptions = new LRUCache<string, Cue[]>({ max: 500 });
 
 /**
  * A segment's captions as patients see them: the recording's current captions track clipped to
@@ -610,10 +620,6 @@ export function segmentCaptions(segment: SegmentRow): SegmentCaptions {
 	let cues = clippedCaptions.get(key);
 	if (!cues) {
 		cues = shiftAndClip(getVersion(track)?.cues ?? [], segment.startSeconds, segment.endSeconds);
-		if (clippedCaptions.size >= CLIPPED_KEPT) {
-			const oldest = clippedCaptions.keys().next().value;
-			if (oldest !== undefined) clippedCaptions.delete(oldest);
-		}
 		clippedCaptions.set(key, cues);
 	}
 	return { trackId: track.id, version: track.currentVersion, language: track.language, cues };
