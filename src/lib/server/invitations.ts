@@ -5,7 +5,7 @@ import { db, schema } from './db';
 import type { Invitation, InvitedRole } from './db/schema/invitations';
 import { recordAudit } from './audit';
 import { hashPassword } from './auth/passwords';
-import { sendMail } from './mail';
+import { sendMail, type Delivery } from './mail';
 import { patientInvitationMail, staffInvitationMail } from './mail/templates';
 
 export function normaliseEmail(email: string): string {
@@ -35,7 +35,7 @@ export async function sendInvitation(input: {
 	role: InvitedRole;
 	patientId?: string;
 	invitedBy: { id: string; name: string };
-}): Promise<Invitation> {
+}): Promise<Invitation & { mail: Delivery['status'] }> {
 	const email = normaliseEmail(input.email);
 	const token = randomBytes(32).toString('base64url');
 	const expiresAt = new Date(Date.now() + config().INVITATION_TTL_HOURS * 3_600_000);
@@ -95,7 +95,7 @@ export async function sendInvitation(input: {
 					expiresAt,
 					timeZone: clinic.timeZone
 				});
-	await sendMail({ clinicId: input.clinicId, to: email, ...content });
+	const delivery = await sendMail({ clinicId: input.clinicId, to: email, ...content });
 	recordAudit({
 		kind: 'invitation-sent',
 		clinicId: input.clinicId,
@@ -103,7 +103,7 @@ export async function sendInvitation(input: {
 		subject: email,
 		detail: { role: input.role, invitationId: invitation.id }
 	});
-	return invitation;
+	return { ...invitation, mail: delivery.status };
 }
 
 export interface InvitationView {

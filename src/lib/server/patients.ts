@@ -7,6 +7,7 @@ import {
 	sendInvitation,
 	type InvitationStatus
 } from './invitations';
+import type { Delivery } from './mail';
 import type { Principal } from './auth/principal';
 
 export type PatientAccess = 'active' | InvitationStatus | 'not invited';
@@ -85,7 +86,7 @@ export async function invitePatient(
 			| 'timeZone'
 		>
 	>
-): Promise<Patient> {
+): Promise<Patient & { invitationMail: Delivery['status'] }> {
 	const email = normaliseEmail(input.email);
 	const existing = db()
 		.query.patients.findFirst({
@@ -120,31 +121,32 @@ export async function invitePatient(
 			.run();
 		return created;
 	});
-	await sendInvitation({
+	const invitation = await sendInvitation({
 		clinicId: clinician.clinicId,
 		email,
 		role: 'patient',
 		patientId: patient.id,
 		invitedBy: clinician
 	});
-	return patient;
+	return { ...patient, invitationMail: invitation.mail };
 }
 
 /** Sends a fresh invitation to a patient who has not signed in yet. */
 export async function resendPatientInvitation(
 	clinician: Principal,
 	patientId: string
-): Promise<void> {
+): Promise<Delivery['status']> {
 	const patient = findPatientInClinic(clinician.clinicId, patientId);
 	if (!patient) throw new PatientError('That patient is not in your clinic.');
 	if (patient.userId) throw new PatientError('This patient already has an account.');
-	await sendInvitation({
+	const invitation = await sendInvitation({
 		clinicId: clinician.clinicId,
 		email: patient.email,
 		role: 'patient',
 		patientId,
 		invitedBy: clinician
 	});
+	return invitation.mail;
 }
 
 /** The clinical details a clinician keeps up to date on a patient's record. */

@@ -15,6 +15,8 @@ export interface DigestRun {
 	weekStarts: string[];
 	/** Addresses a digest went to in this run. */
 	sent: string[];
+	/** Addresses whose digest waits in the mail outbox (the mail server was away); it goes later. */
+	queued: string[];
 	/** Clinicians whose digest for this week had already gone (or is going from another worker). */
 	alreadySent: number;
 	/** Clinicians none of whose patients has a published programme or a log: nothing sent. */
@@ -105,6 +107,7 @@ export async function sendWeeklyDigests(
 		alreadySent: 0,
 		nothingToReport: 0,
 		notDueYet: 0,
+		queued: [],
 		failed: []
 	};
 	const origin = config().ORIGIN;
@@ -152,8 +155,17 @@ export async function sendWeeklyDigests(
 			basis: [`Adherence: ${ADHERENCE_BASIS}`, `Pain: ${PAIN_BASIS}`]
 		});
 		try {
-			await sendMail({ clinicId: clinician.clinicId, to: clinician.email, ...mail });
-			run.sent.push(clinician.email);
+			const delivery = await sendMail({
+				clinicId: clinician.clinicId,
+				to: clinician.email,
+				...mail
+			});
+			if (delivery.status === 'sent') run.sent.push(clinician.email);
+			else {
+				// Kept in the outbox, which sends it once mail is back: the week stays claimed.
+				run.queued.push(clinician.email);
+				options.log?.(`[digest] ${clinician.email}: waiting in the outbox (${delivery.reason})`);
+			}
 		} catch (error) {
 			db().delete(schema.weeklyDigests).where(digestOf(clinician.id, weekStart)).run();
 			const reason = error instanceof Error ? error.message : String(error);

@@ -1,12 +1,15 @@
 import { config } from '../config';
 import { startDigestSchedule } from '../followup/digest';
+import { startOutboxSchedule } from '../mail';
 import { processRecordingHandler } from '../recordings/process';
 import { startUploadSweep } from '../recordings/uploads';
 import { detectSignalsHandler } from '../segments/detection';
 import { cutSegmentHandler } from '../segments/job';
 import { startWorker, type Worker, type WorkerOptions } from './worker';
 
-let running: { worker: Worker; stopSweep: () => void; stopDigest: () => void } | undefined;
+let running:
+	| { worker: Worker; stopSweep: () => void; stopDigest: () => void; stopOutbox: () => void }
+	| undefined;
 
 /** Every kind of job this codebase knows how to run. */
 export const HANDLERS: WorkerOptions['handlers'] = {
@@ -16,15 +19,16 @@ export const HANDLERS: WorkerOptions['handlers'] = {
 };
 
 /**
- * Starts this process's media worker, the abandoned-upload sweep and the hourly check for the
- * weekly digest, once. `npm run worker` calls it; the app's `init` hook only when workerInApp().
+ * Starts this process's media worker, the abandoned-upload sweep, the hourly check for the
+ * weekly digest and the mail outbox's retries, once. `npm run worker` calls it; the app's `init` hook only when workerInApp().
  */
 export function startBackgroundWork(options: Partial<WorkerOptions> = {}): Worker {
 	if (running) return running.worker;
 	const worker = startWorker({ handlers: HANDLERS, ...options });
 	const stopSweep = startUploadSweep();
 	const stopDigest = startDigestSchedule();
-	running = { worker, stopSweep, stopDigest };
+	const stopOutbox = startOutboxSchedule();
+	running = { worker, stopSweep, stopDigest, stopOutbox };
 	return worker;
 }
 
@@ -35,10 +39,11 @@ export function nudgeWorker(): void {
 
 export async function stopBackgroundWork(): Promise<void> {
 	if (!running) return;
-	const { worker, stopSweep, stopDigest } = running;
+	const { worker, stopSweep, stopDigest, stopOutbox } = running;
 	running = undefined;
 	stopSweep();
 	stopDigest();
+	stopOutbox();
 	await worker.stop();
 }
 

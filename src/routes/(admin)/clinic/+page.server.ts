@@ -89,8 +89,12 @@ export const actions: Actions = {
 				parsed.data
 			);
 		}
-		await sendInvitation({ clinicId: admin.clinicId, ...parsed.data, invitedBy: admin });
-		return { action: 'invite', sent: parsed.data.email };
+		const { mail } = await sendInvitation({
+			clinicId: admin.clinicId,
+			...parsed.data,
+			invitedBy: admin
+		});
+		return { action: 'invite', sent: parsed.data.email, mail };
 	},
 	role: async ({ request }) => {
 		const admin = requireRole('admin');

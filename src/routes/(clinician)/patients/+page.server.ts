@@ -1,3 +1,4 @@
+import type { Delivery } from '$lib/server/mail';
 import { fail } from '@sveltejs/kit';
 import { z } from 'zod';
 import { requireRole } from '$lib/server/auth/guard';
@@ -59,14 +60,18 @@ export const actions: Actions = {
 				values
 			});
 		}
+		let mail: Delivery['status'];
 		try {
-			await invitePatient(clinician, { ...parsed.details, email: parsedEmail.data });
+			({ invitationMail: mail } = await invitePatient(clinician, {
+				...parsed.details,
+				email: parsedEmail.data
+			}));
 		} catch (e) {
 			if (e instanceof PatientError)
 				return fail(409, { action: 'invite', message: e.message, path: 'email', values });
 			throw e;
 		}
-		return { action: 'invite', sent: parsedEmail.data };
+		return { action: 'invite', sent: parsedEmail.data, mail };
 	},
 	resend: async ({ request }) => {
 		const clinician = requireRole('clinician');
@@ -74,12 +79,13 @@ export const actions: Actions = {
 			.object({ id: z.uuid() })
 			.safeParse(Object.fromEntries(await request.formData()));
 		if (!parsed.success) return fail(400, { action: 'resend', message: 'Choose a patient.' });
+		let mail: Delivery['status'];
 		try {
-			await resendPatientInvitation(clinician, parsed.data.id);
+			mail = await resendPatientInvitation(clinician, parsed.data.id);
 		} catch (e) {
 			if (e instanceof PatientError) return fail(409, { action: 'resend', message: e.message });
 			throw e;
 		}
-		return { action: 'resend', sent: 'the patient' };
+		return { action: 'resend', sent: 'the patient', mail };
 	}
 };

@@ -9,3 +9,4 @@ export * from './captions';
 export * from './segments';
 export * from './programmes';
 export * from './library';
+export * from './mail';
