@@ -1,4 +1,5 @@
 import { spawn } from 'node:child_process';
+import { accessSync, constants } from 'node:fs';
 import { mkdtemp, rm, writeFile } from 'node:fs/promises';
 import { createServer, type IncomingMessage, type ServerResponse } from 'node:http';
 import { createRequire } from 'node:module';
@@ -6,6 +7,7 @@ import type { AddressInfo } from 'node:net';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { Readable } from 'node:stream';
+import { chooseTool } from '../../src/lib/server/media/tools';
 
 /*
  * A stand-in for a speech-to-text server that offers the OpenAI-compatible audio transcription
@@ -30,7 +32,7 @@ export interface SpeechFakeOptions {
 	port: number;
 	/** When set, requests must carry `Authorization: Bearer <apiKey>`; otherwise any key is taken. */
 	apiKey?: string;
-	/** Defaults to FFMPEG_PATH, then the binary inside @ffmpeg-installer/ffmpeg. */
+	/** Defaults to the app's choice: FFMPEG_PATH, Debian's /usr/bin/ffmpeg, the npm package's. */
 	ffmpegPath?: string;
 }
 
@@ -76,7 +78,18 @@ function sendError(res: ServerResponse, error: RequestError) {
 const require = createRequire(import.meta.url);
 
 function defaultFfmpeg(): string {
-	return process.env.FFMPEG_PATH || (require('@ffmpeg-installer/ffmpeg') as { path: string }).path;
+	return chooseTool('ffmpeg', {
+		setting: process.env.FFMPEG_PATH,
+		isExecutable: (path) => {
+			try {
+				accessSync(path, constants.X_OK);
+				return true;
+			} catch {
+				return false;
+			}
+		},
+		bundled: () => (require('@ffmpeg-installer/ffmpeg') as { path: string }).path
+	}).path;
 }
 
 /** Runs ffmpeg's silencedetect over `file`; returns its silences and the decoded duration. */

@@ -1,11 +1,31 @@
 import { execFile } from 'node:child_process';
+import { accessSync, constants } from 'node:fs';
+import { createRequire } from 'node:module';
 import { promisify } from 'node:util';
-import ffmpegInstaller from '@ffmpeg-installer/ffmpeg';
+import { chooseTool } from '../../src/lib/server/media/tools';
 
 const run = promisify(execFile);
+const require = createRequire(import.meta.url);
 
 /**
- * Makes an MP4 clip with the packaged ffmpeg binary (a moving test pattern and a tone), without
+ * The ffmpeg the app chooses on this machine (FFMPEG_PATH, else Debian's, else the npm build),
+ * fixed when this module loads: a test may point FFMPEG_PATH at a wrapper afterwards.
+ */
+export const FFMPEG = chooseTool('ffmpeg', {
+	setting: process.env.FFMPEG_PATH,
+	isExecutable: (path) => {
+		try {
+			accessSync(path, constants.X_OK);
+			return true;
+		} catch {
+			return false;
+		}
+	},
+	bundled: () => (require('@ffmpeg-installer/ffmpeg') as { path: string }).path
+}).path;
+
+/**
+ * Makes an MP4 clip with the chosen ffmpeg (a moving test pattern and a tone), without
  * fast start so the index sits at the end and a truncated copy has none. `heavy` makes it
  * about 10 MB a second.
  */
@@ -18,7 +38,7 @@ export async function makeClip(
 		heavy = false
 	}: { seconds?: number; size?: string; rate?: number; heavy?: boolean } = {}
 ): Promise<void> {
-	await run(ffmpegInstaller.path, [
+	await run(FFMPEG, [
 		'-hide_banner',
 		'-loglevel',
 		'error',

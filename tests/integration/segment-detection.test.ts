@@ -3,9 +3,8 @@ import { spawn } from 'node:child_process';
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { readFile, rm } from 'node:fs/promises';
 import { join, resolve } from 'node:path';
-import ffmpegInstaller from '@ffmpeg-installer/ffmpeg';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { makeClip } from './recordings-support';
+import { FFMPEG, makeClip } from './recordings-support';
 
 /*
  * Segment detection runs once per rendition whoever asks: app processes asking at the same
@@ -20,7 +19,7 @@ const forbiddenRuns = join(work, 'forbidden-runs');
 const wrapper = join(work, 'ffmpeg');
 writeFileSync(
 	wrapper,
-	`#!/bin/sh\necho "$*" >> '${ffmpegRuns}'\nexec '${ffmpegInstaller.path}' "$@"\n`,
+	`#!/bin/sh\necho "$*" >> '${ffmpegRuns}'\nexec '${FFMPEG}' "$@"\n`,
 	{
 		mode: 0o755
 	}

@@ -25,7 +25,7 @@ execFileSync(ffmpegPath(), [
 	clip
 ]);
 
-describe('grabStill (fluent-ffmpeg)', () => {
+describe('grabStill (through the runner)', () => {
 	it('writes a JPEG of the asked size from the middle of a clip', async () => {
 		const out = join(dir, 'middle.jpg');
 		await grabStill(clip, 1.5, out, { filter: 'scale=320:-2' });

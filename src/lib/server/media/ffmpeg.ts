@@ -2,18 +2,21 @@ import { spawn } from 'node:child_process';
 import { accessSync, constants } from 'node:fs';
 import { createRequire } from 'node:module';
 import { setPriority } from 'node:os';
+import type { Writable } from 'node:stream';
 import { config } from '../config';
 import { withMediaSlot } from './slots';
+import { chooseTool, TOOL_SETTINGS, versionLine, type ChosenTool, type MediaTool } from './tools';
 
 /*
- * Every long ffmpeg and ffprobe run goes through `runMedia` here (stills use fluent-ffmpeg, in
- * stills.ts, where its options suffice). It spawns the binaries itself rather than through
- * fluent-ffmpeg, because fluent-ffmpeg 2.1.3 cannot hand ffmpeg an extra pipe for progress
- * (we use fd 3 so stdout stays free for PCM), takes no AbortSignal, reports progress by parsing
- * stderr after an extra ffprobe run of its own, stops a timed-out process without waiting for it
- * to exit, and its ffprobe wrapper parses the INI-style output, which drops the display-matrix
- * side data that carries a phone's rotation. The argument lists are short and are written out
- * in outputs.ts and probe.ts instead.
+ * The one way Kinelume runs ffmpeg and ffprobe: the app, the worker, the demo renderer and the
+ * benchmarks all call `runFfmpeg` / `runFfprobe` here, with the binaries chosen in tools.ts.
+ * It spawns the binaries itself rather than through fluent-ffmpeg (which the project no longer
+ * uses; see DEVELOPERS.md, "ffmpeg"): fluent-ffmpeg 2.1.3 cannot hand ffmpeg an extra pipe for
+ * progress (we use fd 3 so stdout stays free for PCM), takes no AbortSignal, reports progress by
+ * parsing stderr after an extra ffprobe run of its own, stops a timed-out process without
+ * waiting for it to exit, and its ffprobe wrapper parses the INI-style output, which drops the
+ * display-matrix side data that carries a phone's rotation. The argument lists are short and
+ * are written out where they are used (outputs.ts, probe.ts, stills.ts, cut.ts, detect.ts).
  */
 
 /** A media failure with a message fit to show a clinician; `detail` holds ffmpeg's own words. */
@@ -30,38 +33,98 @@ export class MediaError extends Error {
 
 const require = createRequire(import.meta.url);
 
-function executable(path: string, variable: string): string {
+function isExecutable(path: string): boolean {
 	try {
 		accessSync(path, constants.X_OK);
+		return true;
 	} catch {
+		return false;
+	}
+}
+
+const BUNDLED: Record<MediaTool, () => string> = {
+	ffmpeg: () => (require('@ffmpeg-installer/ffmpeg') as { path: string }).path,
+	ffprobe: () => (require('@ffprobe-installer/ffprobe') as { path: string }).path
+};
+
+const chosen = new Map<MediaTool, ChosenTool>();
+
+/** The executable run for `tool`, and where it came from (tools.ts); checked once per process. */
+export function mediaTool(tool: MediaTool): ChosenTool {
+	const known = chosen.get(tool);
+	if (known) return known;
+	const variable = TOOL_SETTINGS[tool];
+	const choice = chooseTool(tool, {
+		setting: config()[variable],
+		isExecutable,
+		bundled: BUNDLED[tool]
+	});
+	if (!isExecutable(choice.path)) {
 		// @ffprobe-installer installs its binary as mode 744, so only the installing user may run it.
 		throw new MediaError(
-			`The media tool at ${path} cannot be run by this user. Make it executable (chmod 755) or set ${variable} to another copy.`,
+			`The media tool at ${choice.path} cannot be run by this user. Make it executable (chmod 755), install Debian's ffmpeg package, or set ${variable} to another copy.`,
 			'unavailable'
 		);
 	}
-	return path;
+	chosen.set(tool, choice);
+	return choice;
 }
 
-let ffmpegBinary: string | undefined;
-let ffprobeBinary: string | undefined;
-
-/** The ffmpeg executable: FFMPEG_PATH, or the one inside @ffmpeg-installer/ffmpeg. */
+/** The ffmpeg executable: FFMPEG_PATH, else Debian's /usr/bin/ffmpeg, else the npm package's. */
 export function ffmpegPath(): string {
-	ffmpegBinary ??= executable(
-		config().FFMPEG_PATH || (require('@ffmpeg-installer/ffmpeg') as { path: string }).path,
-		'FFMPEG_PATH'
-	);
-	return ffmpegBinary;
+	return mediaTool('ffmpeg').path;
 }
 
-/** The ffprobe executable: FFPROBE_PATH, or the one inside @ffprobe-installer/ffprobe. */
+/** The ffprobe executable: FFPROBE_PATH, else Debian's /usr/bin/ffprobe, else the npm package's. */
 export function ffprobePath(): string {
-	ffprobeBinary ??= executable(
-		config().FFPROBE_PATH || (require('@ffprobe-installer/ffprobe') as { path: string }).path,
-		'FFPROBE_PATH'
-	);
-	return ffprobeBinary;
+	return mediaTool('ffprobe').path;
+}
+
+/** What the admin health report says of one tool. */
+export interface MediaToolReport {
+	ok: boolean;
+	path: string;
+	source: ChosenTool['source'] | null;
+	/** The first line of `-version`, or why it could not be run. */
+	detail: string;
+}
+
+const reports = new Map<MediaTool, Promise<MediaToolReport>>();
+
+/**
+ * Runs `<tool> -version` once per process and reports which binary runs, from where, and its
+ * version line. A failure is not kept, so a fixed installation shows up without a restart.
+ */
+export function mediaToolReport(tool: MediaTool): Promise<MediaToolReport> {
+	let report = reports.get(tool);
+	if (!report) {
+		report = readVersion(tool);
+		reports.set(tool, report);
+		void report.then((r) => {
+			if (!r.ok) reports.delete(tool);
+		});
+	}
+	return report;
+}
+
+async function readVersion(tool: MediaTool): Promise<MediaToolReport> {
+	let choice: ChosenTool;
+	try {
+		choice = mediaTool(tool);
+	} catch (error) {
+		return { ok: false, path: '', source: null, detail: messageOf(error) };
+	}
+	try {
+		const { stdout } = await runMedia(choice.path, ['-version'], { timeoutSeconds: 10 });
+		return { ok: true, path: choice.path, source: choice.source, detail: versionLine(stdout) };
+	} catch (error) {
+		const detail = error instanceof MediaError && error.detail ? error.detail : messageOf(error);
+		return { ok: false, path: choice.path, source: choice.source, detail };
+	}
+}
+
+function messageOf(error: unknown): string {
+	return error instanceof Error ? error.message : String(error);
 }
 
 const NICE_CANDIDATES = ['/usr/bin/nice', '/bin/nice'];
@@ -111,6 +174,16 @@ export interface RunOptions {
 	onProgress?: (progress: MediaProgress) => void;
 	/** Receives stdout as it arrives; without it stdout is collected and returned. */
 	onStdout?: (chunk: Buffer) => void;
+	/**
+	 * ffmpeg only: written to its standard input (read with `-i pipe:0`) as fast as it takes it;
+	 * stdin is closed when this ends. A throw stops the run with that error.
+	 */
+	input?: AsyncIterable<Uint8Array>;
+	/**
+	 * ffmpeg only: whether to wait for one of the machine's slots first (default true). Only
+	 * tools that run without the app's database (the demo renderer) pass false.
+	 */
+	slot?: boolean;
 }
 
 export interface RunResult {
@@ -133,24 +206,24 @@ const STDOUT_LIMIT = 64 * 1024 * 1024;
 export function runFfmpeg(args: string[], options: RunOptions = {}): Promise<RunResult> {
 	const withProgress = options.onProgress ? ['-progress', 'pipe:3', '-nostats'] : [];
 	const binary = ffmpegPath();
+	const run = () =>
+		runMedia(
+			binary,
+			[
+				'-hide_banner',
+				// -nostdin stops ffmpeg reading keys from stdin; `-i pipe:0` still reads an input.
+				'-nostdin',
+				'-loglevel',
+				'error',
+				...withProgress,
+				...whitelistInputs(args)
+			],
+			options
+		);
+	if (options.slot === false) return run();
 	// One of the machine's FFMPEG_MAX_CONCURRENT slots first (slots.ts); the time limit counts
 	// from the start of the run, not the wait.
-	return withMediaSlot(
-		() =>
-			runMedia(
-				binary,
-				[
-					'-hide_banner',
-					'-nostdin',
-					'-loglevel',
-					'error',
-					...withProgress,
-					...whitelistInputs(args)
-				],
-				options
-			),
-		{ signal: options.signal }
-	);
+	return withMediaSlot(run, { signal: options.signal });
 }
 
 /**
@@ -160,7 +233,8 @@ export function runFfmpeg(args: string[], options: RunOptions = {}): Promise<Run
 export function runFfprobe(args: string[], options: RunOptions = {}): Promise<RunResult> {
 	return runMedia(ffprobePath(), ['-hide_banner', '-v', 'error', ...whitelistInputs(args)], {
 		...options,
-		onProgress: undefined
+		onProgress: undefined,
+		input: undefined
 	});
 }
 
@@ -177,7 +251,7 @@ function whitelistInputs(args: string[]): string[] {
 }
 
 function runMedia(binary: string, args: string[], options: RunOptions): Promise<RunResult> {
-	const { signal, onProgress, onStdout } = options;
+	const { signal, onProgress, onStdout, input } = options;
 	const timeoutSeconds = options.timeoutSeconds ?? config().MEDIA_JOB_TIMEOUT_SECONDS;
 	if (signal?.aborted) {
 		return Promise.reject(new MediaError('Processing was cancelled.', 'aborted'));
@@ -190,7 +264,7 @@ function runMedia(binary: string, args: string[], options: RunOptions): Promise<
 
 	return new Promise<RunResult>((resolve, reject) => {
 		const child = spawn(command, commandArgs, {
-			stdio: ['ignore', 'pipe', 'pipe', onProgress ? 'pipe' : 'ignore'],
+			stdio: [input ? 'pipe' : 'ignore', 'pipe', 'pipe', onProgress ? 'pipe' : 'ignore'],
 			windowsHide: true
 		});
 		if (!nice && child.pid !== undefined) {
@@ -255,7 +329,18 @@ function runMedia(binary: string, args: string[], options: RunOptions): Promise<
 			readProgress(progressPipe as NodeJS.ReadableStream, guarded(onProgress));
 		}
 
+		let exited = false;
+		let markExited = () => {};
+		const exit = new Promise<void>((resolve) => (markExited = resolve));
+		if (input && child.stdin) {
+			feed(child.stdin, input, exit, () => exited || stopped !== null).catch((error: unknown) =>
+				stop(error instanceof Error ? error : new Error(String(error)))
+			);
+		}
+
 		const finish = () => {
+			exited = true;
+			markExited();
 			clearTimeout(timer);
 			signal?.removeEventListener('abort', onAbort);
 		};
@@ -287,6 +372,23 @@ function runMedia(binary: string, args: string[], options: RunOptions): Promise<
 			resolve({ stdout: Buffer.concat(stdoutChunks).toString('utf8'), stderr });
 		});
 	});
+}
+
+/** Writes `input` to stdin, waiting for the pipe to drain, until it ends or the run is over. */
+async function feed(
+	stdin: Writable,
+	input: AsyncIterable<Uint8Array>,
+	exit: Promise<void>,
+	over: () => boolean
+): Promise<void> {
+	// An ffmpeg that stops early closes the pipe (EPIPE); its exit code and stderr say why.
+	stdin.on('error', () => {});
+	for await (const chunk of input) {
+		if (over()) break;
+		// Racing the exit keeps a dead ffmpeg from leaving us waiting for a drain forever.
+		if (!stdin.write(chunk)) await Promise.race([new Promise((r) => stdin.once('drain', r)), exit]);
+	}
+	stdin.end();
 }
 
 function describeSeconds(seconds: number): string {

@@ -54,29 +54,32 @@ export async function detectMediaSignals(
 		if (signal?.aborted) both.abort();
 		const run = { signal: both.signal, timeoutSeconds };
 		const probe = await probeFile(renditionPath, run);
-		const [silences, sceneChanges] = await Promise.all([
+		// The first failure stops the other detector; both are awaited, so no ffmpeg outlives the
+		// call, and the first failure (not the other's "cancelled") is what the caller hears.
+		const failures: unknown[] = [];
+		const stopOnFailure = (error: unknown): never => {
+			failures.push(error);
+			both.abort();
+			throw error;
+		};
+		const [silenceRun, sceneRun] = await Promise.allSettled([
 			detectSilences(renditionPath, {
 				...run,
 				noiseDb,
 				minSeconds,
 				durationSeconds,
 				hasAudio: probe.audio !== null
-			}).catch((error: unknown) => {
-				both.abort();
-				throw error;
-			}),
+			}).catch(stopOnFailure),
 			detectSceneChanges(renditionPath, {
 				...run,
 				threshold: sceneThreshold,
 				hasVideo: probe.video !== null
-			}).catch((error: unknown) => {
-				both.abort();
-				throw error;
-			})
+			}).catch(stopOnFailure)
 		]);
+		if (silenceRun.status === 'rejected' || sceneRun.status === 'rejected') throw failures[0];
 		return {
-			silences: silences.map(({ start, end }) => ({ start, end })),
-			sceneChanges: sceneChanges.map((c) => c.time)
+			silences: silenceRun.value.map(({ start, end }) => ({ start, end })),
+			sceneChanges: sceneRun.value.map((c) => c.time)
 		};
 	} finally {
 		signal?.removeEventListener('abort', stopBoth);

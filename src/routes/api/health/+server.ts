@@ -3,6 +3,7 @@ import { sql } from 'drizzle-orm';
 import { db } from '$lib/server/db';
 import { checkStorage } from '$lib/server/storage';
 import { checkMail } from '$lib/server/mail';
+import { mediaToolReport, type MediaToolReport } from '$lib/server/media/ffmpeg';
 import type { RequestHandler } from './$types';
 
 /** What anyone may know: up or not. */
@@ -15,6 +16,9 @@ export interface HealthReport extends PublicHealth {
 	database: { ok: boolean; detail: string };
 	storage: { ok: boolean; detail: string };
 	mail: { ok: boolean; detail: string };
+	/** Which ffmpeg and ffprobe this process runs (path, where from, version line). */
+	ffmpeg: MediaToolReport;
+	ffprobe: MediaToolReport;
 }
 
 function checkDatabase(): { ok: boolean; detail: string } {
@@ -36,7 +40,16 @@ export const GET: RequestHandler = async ({ locals }) => {
 	const database = checkDatabase();
 	const ok = database.ok && storage.ok && mail.ok;
 	const status = ok ? 'ok' : 'degraded';
-	const body: PublicHealth | HealthReport =
-		locals.user?.role === 'admin' ? { status, database, storage, mail } : { status };
-	return json(body, { status: ok ? 200 : 503, headers: { 'Cache-Control': 'no-store' } });
+	const headers = { 'Cache-Control': 'no-store' };
+	if (locals.user?.role !== 'admin') {
+		return json({ status } satisfies PublicHealth, { status: ok ? 200 : 503, headers });
+	}
+	// The media tools are reported, not counted in the status: the web process serves without
+	// them (the worker runs ffmpeg), and a broken tool shows in each media job's error.
+	const [ffmpeg, ffprobe] = await Promise.all([
+		mediaToolReport('ffmpeg'),
+		mediaToolReport('ffprobe')
+	]);
+	const report: HealthReport = { status, database, storage, mail, ffmpeg, ffprobe };
+	return json(report, { status: ok ? 200 : 503, headers });
 };
