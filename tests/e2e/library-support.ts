@@ -72,7 +72,12 @@ export function seedExercise(segmentId: string, exercise: SeedExercise): string 
 	return id;
 }
 
-function snapshotOf(title: string, segmentId: string, cues: SeedCue[]) {
+function snapshotOf(
+	title: string,
+	segmentId: string,
+	cues: SeedCue[],
+	shape: { width: number; height: number } | null = null
+) {
 	return {
 		title,
 		description: `${title}, as the library shows it.`,
@@ -93,7 +98,13 @@ function snapshotOf(title: string, segmentId: string, cues: SeedCue[]) {
 		coachingCues: [{ text: 'Keep the heel on the bed' }],
 		safetyNotes: 'Tightness at the end of the bend is normal. Stop if pain is sharp.',
 		precautionTags: [],
-		segment: { id: segmentId, durationSeconds: 1, posterCount: 1, captionsLanguage: 'en-GB' },
+		segment: {
+			id: segmentId,
+			durationSeconds: 1,
+			posterCount: 1,
+			captionsLanguage: 'en-GB',
+			...(shape ?? {})
+		},
 		cues
 	};
 }
@@ -108,12 +119,15 @@ export async function seedPublicExercise(
 		title,
 		slug,
 		status = 'published',
-		cues = [{ id: '1', start: 0, end: 1, text: 'Public cue.' }]
+		cues = [{ id: '1', start: 0, end: 1, text: 'Public cue.' }],
+		shape = null
 	}: {
 		title: string;
 		slug: string;
 		status?: 'published' | 'unpublished' | 'retired';
 		cues?: SeedCue[];
+		/** The clip's picture size, as publishing records it. */
+		shape?: { width: number; height: number } | null;
 	}
 ): Promise<{ entryId: string; versionId: string; slug: string }> {
 	const db = database();
@@ -130,7 +144,13 @@ export async function seedPublicExercise(
 			`insert into library_version (id, library_exercise_id, version, title, body_region, position, movement_type,
 			 phase, equipment, snapshot, licence, attribution, poster_count, clip_duration_seconds, clip_size, published_at)
 			 values (?, ?, 1, ?, 'Knee', 'supine', 'active-assisted', 1, '["Towel"]', ?, 'cc-by-nc-4.0', 'E2E team', 1, 1, 12, ?)`
-		).run(versionId, entryId, title, JSON.stringify(snapshotOf(title, segmentId, cues)), now);
+		).run(
+			versionId,
+			entryId,
+			title,
+			JSON.stringify(snapshotOf(title, segmentId, cues, shape)),
+			now
+		);
 		if (status === 'published') {
 			const text = snapshotOf(title, segmentId, cues);
 			db.prepare(

@@ -449,7 +449,7 @@ describe('programmes', () => {
 		expect(item.typedUrl).toBe(item.url.replace(/^https:\/\//, ''));
 		expect(item.qrSvg).toMatch(/^<svg[^>]*viewBox/);
 		// People's dates and the patient's side in words, never a raw id.
-		expect(sheet.startDate).toBe('Tuesday 17 November 2026');
+		expect(sheet.startDate).toBe('Tuesday 17 Nov 2026');
 		expect(item.side).toBe('Either leg.');
 		expect(item.movement).toBe(
 			'Your hands, a strap or a helper helps; the leg being treated does part of the work.'
@@ -484,7 +484,7 @@ describe('programmes', () => {
 		const view = make('Left knee');
 		await publishProgramme(clinician, view.programme.id);
 		const sheet = await programmeSheet(view);
-		expect(sheet.endDate).toBe('Sunday 20 December 2026');
+		expect(sheet.endDate).toBe('Sunday 20 Dec 2026');
 		expect(sheet.items[0].side).toBe('Your left leg — the one being treated.');
 
 		const itemId = view.items[0].id;

@@ -42,8 +42,8 @@ export const coachingCueSchema = z.object({
 	text: z
 		.string()
 		.trim()
-		.min(1, 'A coaching cue needs its words.')
-		.max(LIMITS.cueText, `Keep each coaching cue under ${LIMITS.cueText} characters.`),
+		.min(1, 'A key point needs its words.')
+		.max(LIMITS.cueText, `Keep each key point under ${LIMITS.cueText} characters.`),
 	atSeconds: z
 		.number('A cue’s time must be minutes and seconds, for example 0:12.')
 		.min(0, 'A cue’s time cannot be before the start.')
@@ -72,7 +72,7 @@ export const exerciseInputSchema = z
 			.max(PHASE_NUMBERS.length, 'Choose the phase.'),
 		coachingCues: z
 			.array(coachingCueSchema)
-			.max(LIMITS.cues, `Keep to ${LIMITS.cues} coaching cues or fewer.`),
+			.max(LIMITS.cues, `Keep to ${LIMITS.cues} key points or fewer.`),
 		safetyNotes: text('the safety notes', LIMITS.safetyNotes),
 		precautionTags: z
 			.array(text('each precaution tag', LIMITS.tag).min(1))

@@ -12,42 +12,9 @@ import {
 	type PainTrend
 } from '../clinical/pain';
 
-const MONTHS = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec'];
-
-function parts(date: LocalDate): { year: number; month: string; day: number } {
-	const [year, month, day] = date.split('-').map(Number);
-	return { year, month: MONTHS[month - 1], day };
-}
-
-/** '2026-11-24' → '24 Nov 2026'. */
-export function formatDate(date: LocalDate): string {
-	const p = parts(date);
-	return `${p.day} ${p.month} ${p.year}`;
-}
-
-/** '24 Nov' — a date within the current context, year left out. */
-export function formatShortDate(date: LocalDate): string {
-	const p = parts(date);
-	return `${p.day} ${p.month}`;
-}
-
-/**
- * An inclusive run of days: '24–30 Nov 2026', '28 Nov – 4 Dec 2026', '29 Dec 2026 – 4 Jan 2027';
- * without the year ('24–30 Nov') when it goes without saying and the run stays in one year.
- */
-export function formatDateRange(
-	from: LocalDate,
-	to: LocalDate,
-	{ year = true }: { year?: boolean } = {}
-): string {
-	const a = parts(from);
-	const b = parts(to);
-	const end = year ? ` ${b.year}` : '';
-	if (from === to) return `${b.day} ${b.month}${end}`;
-	if (a.year !== b.year) return `${formatDate(from)} – ${formatDate(to)}`;
-	if (a.month !== b.month) return `${a.day} ${a.month} – ${b.day} ${b.month}${end}`;
-	return `${a.day}–${b.day} ${b.month}${end}`;
-}
+// Dates are written as on every other screen (format/dates).
+import { formatDate, formatDateRange } from '../format/dates';
+export { formatDate, formatDateRange, formatShortDate } from '../format/dates';
 
 /** A number with at most one decimal, trailing '.0' kept for averages: 5.5, 3.0. */
 export const oneDecimal = (x: number): string => x.toFixed(1);

@@ -22,7 +22,9 @@ describe('formatInstant', () => {
 
 	it('words each style', () => {
 		expect(formatInstant(winter, 'Europe/London')).toBe('1 Dec 2026, 14:05');
-		expect(formatInstant(winter, 'Europe/London', 'long-date')).toBe('1 December 2026');
+		expect(formatInstant(winter, 'Europe/London', 'date')).toBe('1 Dec 2026');
+		// The same words as a calendar date (format/dates), September included.
+		expect(formatInstant('2026-09-03T09:00:00Z', 'Europe/London', 'date')).toBe('3 Sep 2026');
 		expect(formatInstant(winter, 'Europe/London', 'date-time-zone')).toBe('1 Dec 2026, 14:05 GMT');
 		expect(formatInstant(summer, 'Europe/London', 'date-time-zone')).toBe('1 Jul 2026, 15:05 BST');
 	});

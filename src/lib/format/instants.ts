@@ -3,8 +3,11 @@
  * them with the viewer's zone rather than the process's, so the server's rendering and the
  * browser's agree, and a server running in UTC still shows a clinic its own wall-clock times.
  * Calendar dates without a time (a session's day, an operation date) are LocalDate strings and
- * never pass through here (lib/clinical/calendar, lib/followup/words).
+ * never pass through here: format/dates writes them, in the same words.
  */
+
+import { localDateOf } from '../clinical/calendar';
+import { formatDate } from './dates';
 
 /** Used when nobody has said otherwise (signed-out pages, new clinics and patients). */
 export const DEFAULT_TIME_ZONE = 'Europe/London';
@@ -16,40 +19,39 @@ export type InstantStyle =
 	| 'date-time-zone'
 	/** 1 Dec 2026 */
 	| 'date'
-	/** 1 December 2026 */
-	| 'long-date'
 	/** 14:05 */
 	| 'time';
 
-const OPTIONS: Record<InstantStyle, Intl.DateTimeFormatOptions> = {
-	'date-time': { dateStyle: 'medium', timeStyle: 'short' },
-	'date-time-zone': {
-		day: 'numeric',
-		month: 'short',
-		year: 'numeric',
-		hour: '2-digit',
-		minute: '2-digit',
-		hourCycle: 'h23',
-		timeZoneName: 'short'
-	},
-	date: { dateStyle: 'medium' },
-	'long-date': { dateStyle: 'long' },
-	time: { timeStyle: 'short' }
-};
+const timeFormatters = new Map<string, Intl.DateTimeFormat>();
 
-const formatters = new Map<string, Intl.DateTimeFormat>();
+function timeFormatter(timeZone: string, withZone: boolean): Intl.DateTimeFormat {
+	const key = `${timeZone}\n${withZone}`;
+	let formatter = timeFormatters.get(key);
+	if (!formatter) {
+		formatter = new Intl.DateTimeFormat('en-GB', {
+			hour: '2-digit',
+			minute: '2-digit',
+			hourCycle: 'h23',
+			timeZone,
+			...(withZone ? { timeZoneName: 'short' as const } : {})
+		});
+		timeFormatters.set(key, formatter);
+	}
+	return formatter;
+}
 
-/** `value` (a Date, an ISO string or epoch milliseconds) in `timeZone`, in British English. */
+/**
+ * `value` (a Date, an ISO string or epoch milliseconds) in `timeZone`: its date written as every
+ * date for people is (format/dates), its time on the 24-hour clock.
+ */
 export function formatInstant(
 	value: Date | string | number,
 	timeZone: string,
 	style: InstantStyle = 'date-time'
 ): string {
-	const key = `${timeZone}\n${style}`;
-	let formatter = formatters.get(key);
-	if (!formatter) {
-		formatter = new Intl.DateTimeFormat('en-GB', { ...OPTIONS[style], timeZone });
-		formatters.set(key, formatter);
-	}
-	return formatter.format(value instanceof Date ? value : new Date(value));
+	const instant = value instanceof Date ? value : new Date(value);
+	const time = () => timeFormatter(timeZone, style === 'date-time-zone').format(instant);
+	if (style === 'time') return time();
+	const date = formatDate(localDateOf(instant, timeZone));
+	return style === 'date' ? date : `${date}, ${time()}`;
 }

@@ -207,7 +207,7 @@ describe('publicTexts', () => {
 		expect(publicTexts(input()).map((t) => t.field)).toEqual([
 			'Title',
 			'Description',
-			'Coaching cue 1',
+			'Key point 1',
 			'Safety notes',
 			'Caption 1',
 			'Caption 2',

@@ -199,7 +199,7 @@ export function publicTexts(input: ChecklistInput): { field: string; text: strin
 	return [
 		{ field: 'Title', text: s.title },
 		{ field: 'Description', text: s.description },
-		...s.coachingCues.map((c, i) => ({ field: `Coaching cue ${i + 1}`, text: c.text })),
+		...s.coachingCues.map((c, i) => ({ field: `Key point ${i + 1}`, text: c.text })),
 		{ field: 'Safety notes', text: s.safetyNotes },
 		...captionTexts(s.cues),
 		{ field: 'Credit line', text: input.attribution }

@@ -8,7 +8,7 @@ import { LICENCES, type Licence } from './types';
 export interface SubmissionDraft {
 	title: string;
 	description: string;
-	/** One coaching cue per line. */
+	/** One key point (coaching cue) per line. */
 	coachingCues: string;
 	safetyNotes: string;
 	consent: boolean;
@@ -43,8 +43,8 @@ const schema = z.object({
 		.max(120, 'Keep the title under 120 characters.'),
 	description: z.string().trim().max(2000, 'Keep the description under 2,000 characters.'),
 	coachingCues: z
-		.array(z.string().max(300, 'Keep each coaching cue under 300 characters.'))
-		.max(MAX_COACHING_CUES, `At most ${MAX_COACHING_CUES} coaching cues.`),
+		.array(z.string().max(300, 'Keep each key point under 300 characters.'))
+		.max(MAX_COACHING_CUES, `At most ${MAX_COACHING_CUES} key points.`),
 	safetyNotes: z.string().trim().max(6000, 'Keep the safety notes under 6,000 characters.'),
 	consent: z.literal(true, {
 		error:

@@ -32,6 +32,9 @@ export interface ExerciseSnapshot {
 		durationSeconds: number | null;
 		posterCount: number;
 		captionsLanguage: string;
+		/** The clip's picture size, so players and stills take its shape (absent before it was kept). */
+		width?: number | null;
+		height?: number | null;
 	};
 	/** The segment's captions, clipped to it and starting at zero. */
 	cues: Cue[];
@@ -111,7 +114,7 @@ export const ENTRY_STATUS: Record<
 > = {
 	published: { label: 'Published', tone: 'good' },
 	unpublished: { label: 'Unpublished', tone: 'waiting' },
-	retired: { label: 'Retired', tone: 'stopped' }
+	retired: { label: 'Retired', tone: 'neutral' }
 };
 
 export const COLLECTION_STATUSES = ['draft', 'published', 'unpublished'] as const;
@@ -121,7 +124,7 @@ export const COLLECTION_STATUS: Record<
 	CollectionStatus,
 	{ label: string; tone: 'good' | 'waiting' | 'stopped' | 'neutral' }
 > = {
-	draft: { label: 'Draft', tone: 'neutral' },
+	draft: { label: 'Draft', tone: 'waiting' },
 	published: { label: 'Published', tone: 'good' },
 	unpublished: { label: 'Unpublished', tone: 'waiting' }
 };

@@ -34,8 +34,8 @@ describe('recording words', () => {
 	});
 
 	it('writes lengths and sizes as people read them', () => {
-		expect(formatDuration(65.4)).toBe('1:05');
-		expect(formatDuration(3723)).toBe('1:02:03');
+		expect(formatDuration(65.4)).toBe('1 min 5 s');
+		expect(formatDuration(3723)).toBe('1 h 2 min 3 s');
 		expect(formatDuration(null)).toBe('—');
 		expect(formatBytes(999)).toBe('999 bytes');
 		expect(formatBytes(400_123)).toBe('400 kB');

@@ -1,3 +1,4 @@
+import { formatLength } from '../format/lengths';
 import { ALLOWED_EXTENSIONS, declaredUploadProblem } from '../media/validate';
 
 /** The content type each accepted extension is stored under when the browser names none. */
@@ -62,15 +63,8 @@ export function titleFromFilename(filename: string): string {
 	return (base || 'Untitled recording').slice(0, MAX_RECORDING_TITLE);
 }
 
-/** "1:05" or "1:02:03" from seconds. */
-export function formatDuration(seconds: number | null | undefined): string {
-	if (seconds === null || seconds === undefined || !Number.isFinite(seconds)) return '—';
-	const s = Math.round(seconds);
-	const h = Math.floor(s / 3600);
-	const m = Math.floor((s % 3600) / 60);
-	const rest = String(s % 60).padStart(2, '0');
-	return h > 0 ? `${h}:${String(m).padStart(2, '0')}:${rest}` : `${m}:${rest}`;
-}
+/** A recording's length, written as every length is (format/lengths): "2 min 39 s". */
+export const formatDuration = formatLength;
 
 /** "12.3 MB" style sizes (decimal units, as file managers show). */
 export function formatBytes(bytes: number | null | undefined): string {

@@ -12,7 +12,7 @@ export const STAGE_LABEL: Record<string, string> = {
 	starting: 'Starting',
 	downloading: 'Fetching the original',
 	rendition: 'Making the web version',
-	posters: 'Making posters',
+	posters: 'Making still pictures',
 	sprite: 'Making the thumbnail strip',
 	waveform: 'Reading the sound',
 	storing: 'Saving',

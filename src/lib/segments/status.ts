@@ -17,7 +17,7 @@ export const CUT_STAGE_LABEL: Record<string, string> = {
 	'waiting to retry': 'Waiting to try again',
 	starting: 'Starting',
 	cutting: 'Cutting the clip',
-	posters: 'Making posters',
+	posters: 'Making still pictures',
 	storing: 'Saving',
 	done: 'Done',
 	cancelled: 'Cancelled'

@@ -1,7 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import {
 	clockTime,
-	longDate,
 	instantAt,
 	describeExerciseDays,
 	describeWeekdays,
@@ -171,13 +170,6 @@ describe("today's sessions", () => {
 			next: null
 		});
 		expect(summariseDay([])).toEqual({ done: 0, due: 0, next: null });
-	});
-});
-
-describe('dates in words', () => {
-	it('names the weekday and month (2 March 2026 is a Monday)', () => {
-		expect(longDate('2026-03-02')).toBe('Monday 2 March');
-		expect(longDate('2026-03-02', true)).toBe('Monday 2 March 2026');
 	});
 });
 

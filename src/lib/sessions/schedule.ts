@@ -222,21 +222,6 @@ export function summariseDay(statuses: ItemDayStatus[]): DaySummary {
 	};
 }
 
-/** A patient's date in words: "Monday 2 March 2026" (British English, as the demo clinic writes). */
-export function longDate(date: LocalDate, withYear = false): string {
-	const parts = new Intl.DateTimeFormat('en-GB', {
-		timeZone: 'UTC',
-		weekday: 'long',
-		day: 'numeric',
-		month: 'long',
-		year: 'numeric'
-	}).formatToParts(new Date(`${date}T12:00:00Z`));
-	const get = (type: string) => parts.find((p) => p.type === type)?.value ?? '';
-	const words = [get('weekday'), get('day'), get('month')];
-	if (withYear) words.push(get('year'));
-	return words.join(' ');
-}
-
 /** How late a suggested session may still be called "a good time" (common practice: evening). */
 export const LATEST_GOOD_MINUTE = 21 * 60;
 

@@ -9,4 +9,7 @@ export interface SegmentChoice {
 	captionsUrl: string;
 	/** True for the exercise's own segment when a newer cut has replaced it. */
 	superseded?: boolean;
+	/** The clip's picture size, so its still and player take its shape. */
+	width?: number | null;
+	height?: number | null;
 }

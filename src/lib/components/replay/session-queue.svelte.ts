@@ -63,8 +63,15 @@ export class BrowserSessionQueue {
 		this.#queue.subscribe((entries) => (this.entries = entries));
 	}
 
-	waiting = $derived(this.entries.filter((e) => e.state === 'waiting'));
-	refused = $derived(this.entries.filter((e) => e.state === 'refused'));
+	// Getters, not $derived: a queue outlives the component that first asked for it (Today, then
+	// a replay page), and a derived made inside that component's effect dies with it, so later
+	// readers would get a stale list and a derived_inert warning.
+	get waiting(): QueueEntry[] {
+		return this.entries.filter((e) => e.state === 'waiting');
+	}
+	get refused(): QueueEntry[] {
+		return this.entries.filter((e) => e.state === 'refused');
+	}
 
 	#onOnline = () => {
 		this.online = true;

@@ -40,6 +40,9 @@ export interface SegmentSummary {
 	captionsUrl: string;
 	ready: boolean;
 	superseded: boolean;
+	/** The clip's picture size, so its still and player take its shape. */
+	width: number | null;
+	height: number | null;
 }
 
 export type ExerciseRow = Exercise & { segment: SegmentSummary | null };
@@ -53,12 +56,17 @@ function summaries(segmentIds: string[]): Map<string, SegmentSummary> {
 	const map = new Map<string, SegmentSummary>();
 	if (segmentIds.length === 0) return map;
 	const rows = db()
-		.select({ segment: segments, recordingTitle: recordings.title })
+		.select({
+			segment: segments,
+			recordingTitle: recordings.title,
+			width: recordings.width,
+			height: recordings.height
+		})
 		.from(segments)
 		.innerJoin(recordings, eq(recordings.id, segments.recordingId))
 		.where(inArray(segments.id, [...new Set(segmentIds)]))
 		.all();
-	for (const { segment: s, recordingTitle } of rows) {
+	for (const { segment: s, recordingTitle, width, height } of rows) {
 		const urls = segmentUrls(s.id, s.posterCount);
 		map.set(s.id, {
 			id: s.id,
@@ -69,7 +77,9 @@ function summaries(segmentIds: string[]): Map<string, SegmentSummary> {
 			clipUrl: urls.clip,
 			captionsUrl: urls.captions,
 			ready: s.status === 'ready',
-			superseded: s.supersededAt !== null
+			superseded: s.supersededAt !== null,
+			width,
+			height
 		});
 	}
 	return map;
@@ -170,7 +180,9 @@ export function segmentChoices(
 			durationSeconds: s.durationSeconds,
 			posterUrl: urls.posters[0] ?? null,
 			clipUrl: urls.clip,
-			captionsUrl: urls.captions
+			captionsUrl: urls.captions,
+			width: s.width,
+			height: s.height
 		};
 	});
 	if (current && !choices.some((c) => c.id === current.id)) {
@@ -182,7 +194,9 @@ export function segmentChoices(
 			posterUrl: current.posterUrl,
 			clipUrl: current.clipUrl,
 			captionsUrl: current.captionsUrl,
-			superseded: true
+			superseded: true,
+			width: current.width,
+			height: current.height
 		});
 	}
 	return choices;

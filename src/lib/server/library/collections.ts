@@ -232,7 +232,7 @@ export function setCover(collectionId: string, entryId: string, poster: number):
 	const item = collectionItems(collectionId).find((i) => i.entryId === entryId);
 	if (!item) throw new LibraryError(400, 'The cover must come from an exercise in the collection.');
 	if (!Number.isInteger(poster) || poster < 0 || poster >= item.posterCount) {
-		throw new LibraryError(400, 'That exercise has no such poster.');
+		throw new LibraryError(400, 'That exercise has no such still picture.');
 	}
 	touch(collectionId, { coverLibraryExerciseId: entryId, coverPoster: poster });
 }

@@ -30,7 +30,7 @@ export const PUBLIC_MEDIA_CACHE = 'public, max-age=60';
 export function publicVersionOr(id: string): LibraryVersion | Response {
 	const found = findPublicVersion(id);
 	if (found?.kind === 'retired')
-		return apiError(410, 'This exercise was withdrawn from the library.');
+		return apiError(410, 'This exercise was retired from the library.');
 	if (!found) return apiError(404, 'Not found.');
 	return found.value;
 }

@@ -16,6 +16,7 @@ import type {
 } from '$lib/library/types';
 import { db } from '../db';
 import { segmentCaptions, type SegmentCaptions } from '../segments';
+import { clipShape } from '../sessions';
 import {
 	clinics,
 	exercises,
@@ -112,7 +113,8 @@ export function snapshotOf(
 			id: segment.id,
 			durationSeconds: segment.clipDurationSeconds,
 			posterCount: segment.posterCount,
-			captionsLanguage: captions.language
+			captionsLanguage: captions.language,
+			...clipShape(segment)
 		},
 		cues: captions.cues.map((c) => ({ ...c }))
 	};

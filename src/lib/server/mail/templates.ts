@@ -3,7 +3,7 @@
  * from any mail client. The wording is ours, plain, and says who sent the message and why.
  */
 import { formatInstant } from '$lib/format/instants';
-import { longDate } from '$lib/sessions/schedule';
+import { formatDay } from '$lib/format/dates';
 
 export interface MailContent {
 	subject: string;
@@ -122,7 +122,7 @@ export function weeklyDigestMail(input: {
 	];
 	const closing = [
 		...input.basis,
-		'These figures count what patients log; they replace no assessment. The treating clinician and the surgeon’s protocol decide what changes.'
+		'These figures count what patients log; they do not replace an assessment. The treating clinician and the surgeon’s protocol decide what changes.'
 	];
 
 	const textPatient = (p: DigestPatient) =>
@@ -230,7 +230,7 @@ export function programmePublishedMail(input: {
 		`Hello ${input.patientName},`,
 		input.changed
 			? `${input.clinicianName} has changed your home programme "${input.title}". Please follow the new version from now on.`
-			: `${input.clinicianName} has set up your home programme "${input.title}", starting on ${longDate(input.startDate, true)}.`,
+			: `${input.clinicianName} has set up your home programme "${input.title}", starting on ${formatDay(input.startDate, { year: true })}.`,
 		...input.exercises.map((e, i) => `${i + 1}. ${e.title}: ${e.dosage}`),
 		input.hasAccount
 			? 'Open it to replay each exercise with captions and to log your sessions.'

@@ -4,7 +4,7 @@ import { describeGuideForPatient, guidesOn } from '$lib/clinical/range-guides';
 import { describeDosage, describeProgression, type Progression } from '$lib/dosage';
 import { replayCode } from '$lib/programmes/replay-code';
 import { howToMove } from '$lib/sessions/how-to-move';
-import { longDate } from '$lib/sessions/schedule';
+import { formatDay } from '$lib/format/dates';
 import { POSITION_WORDS } from '$lib/sessions/words';
 import { config } from '../config';
 import { db } from '../db';
@@ -80,7 +80,7 @@ export async function programmeSheet(
 					describeGuideForPatient(
 						g,
 						view.patient.operationDate,
-						(d) => longDate(d, true),
+						(d) => formatDay(d, { year: true }),
 						e.movementType
 					)
 				),
@@ -96,13 +96,13 @@ export async function programmeSheet(
 	return {
 		title: view.programme.title,
 		status: view.programme.status,
-		startDate: longDate(view.programme.startDate, true),
-		endDate: view.programme.endDate ? longDate(view.programme.endDate, true) : null,
+		startDate: formatDay(view.programme.startDate, { year: true }),
+		endDate: view.programme.endDate ? formatDay(view.programme.endDate, { year: true }) : null,
 		note: view.programme.note,
 		patientName: view.patient.fullName,
 		slingUntil:
 			view.patient.slingUntil && onDate <= view.patient.slingUntil
-				? longDate(view.patient.slingUntil, true)
+				? formatDay(view.patient.slingUntil, { year: true })
 				: null,
 		items
 	};

@@ -3,6 +3,7 @@
  * logs, safety acknowledgements and the caption look. Every function takes the patient's own
  * record (found from the session, never from a URL), so another patient's ids match nothing.
  */
+import { formatDay } from '$lib/format/dates';
 import { howToMove, type HowToMove } from '$lib/sessions/how-to-move';
 import { and, desc, eq, gte, inArray, isNotNull, lte } from 'drizzle-orm';
 import { plainText } from '$lib/captions/text';
@@ -22,7 +23,6 @@ import type { TranscriptLine } from '$lib/sessions/replay';
 import {
 	describeExerciseDays,
 	itemDayStatus,
-	longDate,
 	itemSchedule,
 	minutesIntoDay,
 	pauseOn,
@@ -167,7 +167,7 @@ export function rangeGuideWords(
 	today: LocalDate
 ): string[] {
 	return guidesOn(item.rangeGuides, patient.operationDate, today).map((g) =>
-		describeGuideForPatient(g, patient.operationDate, (d) => longDate(d), exercise.movementType)
+		describeGuideForPatient(g, patient.operationDate, (d) => formatDay(d), exercise.movementType)
 	);
 }
 

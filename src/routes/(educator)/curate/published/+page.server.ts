@@ -51,7 +51,7 @@ export const actions: Actions = {
 		return change(
 			request,
 			retireEntry,
-			'Retired: its page now says it was withdrawn, and its files are deleted.'
+			'Retired: its page now says it was retired from the library, and its files are deleted.'
 		);
 	}
 };

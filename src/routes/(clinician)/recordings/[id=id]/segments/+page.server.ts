@@ -14,6 +14,8 @@ export const load: PageServerLoad = ({ params }) => {
 			title: r.title,
 			status: r.status,
 			durationSeconds: r.durationSeconds,
+			width: r.width,
+			height: r.height,
 			frameRate: r.frameRate,
 			hasAudio: r.hasAudio
 		},

@@ -36,7 +36,9 @@ export const load: PageServerLoad = ({ params, url }) => {
 			frameRate: recording.frameRate,
 			sprite: recording.sprite,
 			hasWaveform: recording.waveformKey !== null,
-			posterCount: recording.posterCount
+			posterCount: recording.posterCount,
+			width: recording.width,
+			height: recording.height
 		},
 		tracks: tracks.map((t) => ({ id: t.id, label: t.label, kind: t.kind, language: t.language })),
 		track: track

@@ -32,7 +32,7 @@ function changedFields(before: ExerciseSnapshot, after: ExerciseSnapshot): strin
 		['Phase', (s) => s.phase],
 		['Equipment', (s) => s.equipment],
 		['Dosage', (s) => s.dosage],
-		['Coaching cues', (s) => s.coachingCues],
+		['Key points', (s) => s.coachingCues],
 		['Safety notes', (s) => s.safetyNotes],
 		['Demonstration (segment)', (s) => s.segment.id],
 		['Captions', (s) => s.cues]

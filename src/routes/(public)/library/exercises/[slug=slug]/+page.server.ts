@@ -11,7 +11,7 @@ export const load: PageServerLoad = ({ params, locals, setHeaders }) => {
 	const found = findPublicExercise(params.slug);
 	if (!found) error(404, 'Not found.');
 	if (found.kind === 'retired') {
-		error(410, 'This exercise was withdrawn from the library and is no longer available.');
+		error(410, 'This exercise was retired from the library and is no longer available.');
 	}
 	cachePublicPage(locals.user !== null, setHeaders);
 	const { entry, version } = found.value;
@@ -42,7 +42,8 @@ export const load: PageServerLoad = ({ params, locals, setHeaders }) => {
 			clip: urls.clip,
 			captions: urls.captions,
 			poster: urls.posters[0] ?? null,
-			language: s.segment.captionsLanguage
+			language: s.segment.captionsLanguage,
+			shape: { width: s.segment.width ?? null, height: s.segment.height ?? null }
 		},
 		lines: s.cues.map((c) => ({ start: c.start, end: c.end, text: plainText(c.text) })),
 		collections: collectionsWith(entry.id),
