@@ -31,5 +31,31 @@ export default ts.config(
 			}
 		},
 		rules: { '@typescript-eslint/no-floating-promises': 'error' }
+	},
+	{
+		// The app runs ffmpeg only through src/lib/server/media/ffmpeg.ts, and never carries the
+		// demo renderer or other script code (src/scripts), so none of it reaches the build.
+		files: ['src/lib/**', 'src/routes/**', 'src/hooks.*.ts', 'src/auth.ts'],
+		ignores: ['src/lib/server/media/ffmpeg.ts'],
+		rules: {
+			'no-restricted-imports': [
+				'error',
+				{
+					paths: [
+						{ name: 'node:child_process', message: 'Run ffmpeg through $lib/server/media/ffmpeg.' },
+						{ name: 'child_process', message: 'Run ffmpeg through $lib/server/media/ffmpeg.' },
+						{ name: '@ffmpeg-installer/ffmpeg', message: 'Use ffmpegPath() from media/ffmpeg.' },
+						{ name: '@ffprobe-installer/ffprobe', message: 'Use ffprobePath() from media/ffmpeg.' },
+						{ name: '@napi-rs/canvas', message: 'Drawing belongs to the demo scripts.' }
+					],
+					patterns: [
+						{
+							regex: '^(\\.\\./)+scripts/',
+							message: 'Script code (src/scripts) stays out of the app.'
+						}
+					]
+				}
+			]
+		}
 	}
 );

@@ -62,7 +62,7 @@ const SPEECH_PORT = 4774;
 const SPEECH_KEY = 'bench-speech-key';
 const GOAL_ACTIONS = 40;
 const LANGUAGE = 'en-GB';
-/** A seeded demo patient (src/lib/server/demo/seed.ts). */
+/** A seeded demo patient (src/scripts/demo/seed.ts). */
 const PATIENT = 'Walter Brindle';
 const FILE_NAME = 'Home exercises.mp4';
 /** The e2e config's flags (tests/e2e/playwright.config.ts). */
@@ -182,7 +182,7 @@ async function drive(
 
 /** Signs in through the sign-in page; not counted (a clinician at work is signed in already). */
 async function signIn(page: Page): Promise<void> {
-	const { DEMO_PASSWORD } = await import('../lib/server/demo/seed');
+	const { DEMO_PASSWORD } = await import('./demo/seed');
 	await page.goto('/signin');
 	await page.locator('html[data-started]').waitFor({ state: 'attached' });
 	const form = page.locator('form[action="?/password"]');

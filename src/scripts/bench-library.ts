@@ -116,7 +116,7 @@ async function main(): Promise<void> {
 		const notes: string[] = [];
 
 		const { db, schema, closeDatabase } = await import('../lib/server/db');
-		const { insertSyntheticLibrary } = await import('../lib/server/library/synthetic');
+		const { insertSyntheticLibrary } = await import('./bench/synthetic-library');
 		const { searchLibrary } = await import('../lib/server/library/public');
 		const { parseLibraryQuery } = await import('../lib/library/search');
 		const clinicId = db()

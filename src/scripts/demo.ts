@@ -53,8 +53,8 @@ const mail = await startMailFake({
 	directory: resolve(dataDir, 'fakes/mail')
 });
 
-const { seedDemo, DEMO_PASSWORD } = await import('../lib/server/demo/seed');
-const { seedDemoRecordings } = await import('../lib/server/demo/recordings');
+const { seedDemo, DEMO_PASSWORD } = await import('./demo/seed');
+const { seedDemoRecordings } = await import('./demo/recordings');
 const { closeDatabase } = await import('../lib/server/db');
 const accounts = await seedDemo();
 console.log('Preparing the demonstration recordings (drawn once, then kept in .data/demo-clips)…');
@@ -106,25 +106,25 @@ console.log(
 console.log('Press Ctrl+C to stop.\n');
 
 // The demo recordings' segments, once the app has made their web versions (it runs the cuts too).
-const { confirmDemoSegments } = await import('../lib/server/demo/segments');
+const { confirmDemoSegments } = await import('./demo/segments');
 confirmDemoSegments('clinician@alder-street.example', (line) => console.log(line))
 	.then(async (n) => {
 		if (n > 0) console.log(`Segments confirmed for ${n} demonstration recording(s).`);
 		// Exercises on those segments, and the demo patient's programmes, once the cuts are done.
-		const { seedDemoExercises } = await import('../lib/server/demo/exercises');
+		const { seedDemoExercises } = await import('./demo/exercises');
 		const made = await seedDemoExercises('clinician@alder-street.example', (line) =>
 			console.log(line)
 		);
 		console.log(`Demo exercises ready: ${made.exercises}.`);
 		// Weeks of session logs and range-of-motion readings, then this week's digest e-mails.
-		const { seedDemoFollowup } = await import('../lib/server/demo/followup');
+		const { seedDemoFollowup } = await import('./demo/followup');
 		await seedDemoFollowup('clinician@alder-street.example', (line) => console.log(line));
 		const { sendWeeklyDigests } = await import('../lib/server/followup/digest');
 		const digest = await sendWeeklyDigests({ log: (line) => console.log(line) });
 		if (digest.sent.length > 0)
 			console.log(`Weekly digest sent to ${digest.sent.join(', ')} (see the inbox).`);
 		// The public library: a few of those exercises reviewed and published, one still waiting.
-		const { seedDemoLibrary } = await import('../lib/server/demo/library');
+		const { seedDemoLibrary } = await import('./demo/library');
 		const library = await seedDemoLibrary(
 			'clinician@alder-street.example',
 			'educator@alder-street.example',

@@ -5,7 +5,7 @@
  */
 import { rm } from 'node:fs/promises';
 import { relative, resolve } from 'node:path';
-import { ensureDemoClips } from '../lib/server/demo/clips';
+import { ensureDemoClips } from './demo/clips/encoding';
 
 const dir = resolve(process.env.DEMO_CLIPS_DIR ?? '.data/demo-clips');
 if (process.argv.includes('--force')) await rm(dir, { recursive: true, force: true });

@@ -6,7 +6,9 @@ import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { promisify } from 'node:util';
 import { shiftAndClip } from '../../src/lib/captions/segment';
-import { DEMO_CLIPS, ensureDemoClips, ffmpegPath } from '../../src/lib/server/demo/clips';
+import { ffmpegPath } from '../../src/lib/server/media/ffmpeg';
+import { ensureDemoClips } from '../../src/scripts/demo/clips/encoding';
+import { DEMO_CLIPS } from '../../src/scripts/demo/clips/scripts';
 import { E2E } from './ports';
 import { seedReadySegment } from './segments-support';
 import {
@@ -39,7 +41,7 @@ const PATIENT = {
 	first: 'Nora'
 };
 
-// The demo's own exercise (src/lib/server/demo/exercises.ts): title, cues, notes and dosage.
+// The demo's own exercise (src/scripts/demo/exercises.ts): title, cues, notes and dosage.
 const SAFETY = `Stop and call the clinic if:
 
 - the pain is **sharp** or getting worse,

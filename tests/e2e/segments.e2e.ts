@@ -2,12 +2,9 @@ import { expect, test } from '@playwright/test';
 import { mkdtemp, readFile, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import {
-	DEMO_CLIPS,
-	planDemoClip,
-	renderDemoClip,
-	type DemoClip
-} from '../../src/lib/server/demo/clips';
+import { renderDemoClip } from '../../src/scripts/demo/clips/encoding';
+import { DEMO_CLIPS, type DemoClip } from '../../src/scripts/demo/clips/scripts';
+import { planDemoClip } from '../../src/scripts/demo/clips/timeline';
 import {
 	ACCOUNTS,
 	expectNoAxeViolations,

@@ -44,7 +44,7 @@ const mail = await startMailFake({
 });
 const speech = await startSpeechFake({ port: E2E.speechPort, apiKey: env.SPEECH_TO_TEXT_API_KEY });
 
-const { seedDemo } = await import('../../src/lib/server/demo/seed');
+const { seedDemo } = await import('../../src/scripts/demo/seed');
 const { closeDatabase } = await import('../../src/lib/server/db');
 await seedDemo();
 closeDatabase();

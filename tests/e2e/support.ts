@@ -12,7 +12,7 @@ import AxeBuilder from '@axe-core/playwright';
 import Database from 'better-sqlite3';
 import { PutObjectCommand, S3Client } from '@aws-sdk/client-s3';
 import { E2E } from './ports';
-import { DEMO_PASSWORD } from '../../src/lib/server/demo/seed';
+import { DEMO_PASSWORD } from '../../src/scripts/demo/seed';
 
 export { DEMO_PASSWORD };
 
@@ -28,7 +28,7 @@ export function storageClient(): S3Client {
 	});
 }
 
-/** The seeded demo accounts the tests sign in as (all invented; see src/lib/server/demo/seed.ts). */
+/** The seeded demo accounts the tests sign in as (all invented; see src/scripts/demo/seed.ts). */
 export const ACCOUNTS = {
 	admin: 'admin@alder-street.example',
 	clinician: 'clinician@alder-street.example',

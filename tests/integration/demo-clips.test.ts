@@ -1,22 +1,16 @@
 import { spawn } from 'node:child_process';
 import { mkdtemp, rm } from 'node:fs/promises';
-import { createRequire } from 'node:module';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { ffmpegPath, ffprobePath } from '$lib/server/media/ffmpeg';
 import {
-	CAPTION_LIMITS,
-	DEMO_CLIPS,
 	ensureDemoClips,
-	ffmpegPath,
-	planDemoClip,
 	renderDemoClip,
-	type DemoClip,
 	type DemoRenderResult
-} from '$lib/server/demo/clips';
-
-const require = createRequire(import.meta.url);
-const ffprobePath = (require('@ffprobe-installer/ffprobe') as { path: string }).path;
+} from '../../src/scripts/demo/clips/encoding';
+import { DEMO_CLIPS, type DemoClip } from '../../src/scripts/demo/clips/scripts';
+import { CAPTION_LIMITS, planDemoClip } from '../../src/scripts/demo/clips/timeline';
 
 const FPS = 12;
 const FRAME = 1 / FPS;
@@ -69,7 +63,7 @@ interface Probe {
 }
 
 async function probe(path: string): Promise<Probe> {
-	const { stdout } = await run(ffprobePath, [
+	const { stdout } = await run(ffprobePath(), [
 		'-v',
 		'error',
 		'-show_format',

@@ -9,8 +9,8 @@ import { describe, expect, it } from 'vitest';
 process.env.DATABASE_PATH = join(mkdtempSync(join(tmpdir(), 'kinelume-demo-ex-')), 'd.db');
 
 const { db, schema } = await import('../../src/lib/server/db');
-const { seedDemo } = await import('../../src/lib/server/demo/seed');
-const { seedDemoExercises } = await import('../../src/lib/server/demo/exercises');
+const { seedDemo } = await import('../../src/scripts/demo/seed');
+const { seedDemoExercises } = await import('../../src/scripts/demo/exercises');
 
 const CLINICIAN = 'clinician@alder-street.example';
 

@@ -9,12 +9,13 @@ import { describe, expect, it } from 'vitest';
 process.env.DATABASE_PATH = join(mkdtempSync(join(tmpdir(), 'kinelume-demo-lib-')), 'd.db');
 
 const { db, schema } = await import('$lib/server/db');
-const { seedDemo } = await import('$lib/server/demo/seed');
-const { seedDemoExercises } = await import('$lib/server/demo/exercises');
+const { seedDemo } = await import('../../src/scripts/demo/seed');
+const { seedDemoExercises } = await import('../../src/scripts/demo/exercises');
 const { seedDemoLibrary, DEMO_COLLECTION, DEMO_PUBLISHED } = await import(
-	'$lib/server/demo/library'
+	'../../src/scripts/demo/library'
 );
-const { DEMO_CLIPS, planDemoClip } = await import('$lib/server/demo/clips');
+const { DEMO_CLIPS } = await import('../../src/scripts/demo/clips/scripts');
+const { planDemoClip } = await import('../../src/scripts/demo/clips/timeline');
 const { shiftAndClip } = await import('$lib/captions/segment');
 const { putObject } = await import('$lib/server/storage');
 const { recordingKeys } = await import('$lib/server/storage/keys');

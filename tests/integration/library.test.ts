@@ -13,7 +13,7 @@ const submissions = await import('$lib/server/library/submissions');
 const publishing = await import('$lib/server/library/publishing');
 const library = await import('$lib/server/library/public');
 const collections = await import('$lib/server/library/collections');
-const { insertPublishedEntry } = await import('$lib/server/library/synthetic');
+const { insertPublishedEntry } = await import('../../src/scripts/bench/synthetic-library');
 const { parseLibraryQuery } = await import('$lib/library/search');
 const support = await import('./library-support');
 

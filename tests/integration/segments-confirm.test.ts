@@ -11,7 +11,9 @@ const { db, schema } = await import('$lib/server/db');
 const { eq, and, isNull } = await import('drizzle-orm');
 const { validateChapters } = await import('$lib/captions/segment');
 const { parseVtt } = await import('$lib/captions/vtt');
-const { DEMO_CLIPS, planDemoClip, renderDemoClip } = await import('$lib/server/demo/clips');
+const { DEMO_CLIPS } = await import('../../src/scripts/demo/clips/scripts');
+const { planDemoClip } = await import('../../src/scripts/demo/clips/timeline');
+const { renderDemoClip } = await import('../../src/scripts/demo/clips/encoding');
 const { makeRendition } = await import('$lib/server/media/outputs');
 const { probeFile } = await import('$lib/server/media/probe');
 const captions = await import('$lib/server/captions');
@@ -28,7 +30,7 @@ const { downloadToFile } = await import('$lib/server/storage/multipart');
 
 type Cue = import('$lib/captions/types').Cue;
 type Recording = import('$lib/server/db/schema').Recording;
-type DemoClip = import('$lib/server/demo/clips').DemoClip;
+type DemoClip = import('../../src/scripts/demo/clips/scripts').DemoClip;
 
 /*
  * Real SQLite, the storage fake and ffmpeg, on a two-exercise variant of the first demo script

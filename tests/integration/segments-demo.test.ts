@@ -3,8 +3,10 @@ import { mkdtemp, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Suggestion } from '$lib/captions/suggest';
-import { DEMO_CLIPS, ensureDemoClips, planDemoClip } from '$lib/server/demo/clips';
-import { demoSegmentPlan, UNCONFIRMED_DEMO_CLIP } from '$lib/server/demo/segments';
+import { ensureDemoClips } from '../../src/scripts/demo/clips/encoding';
+import { DEMO_CLIPS } from '../../src/scripts/demo/clips/scripts';
+import { planDemoClip } from '../../src/scripts/demo/clips/timeline';
+import { demoSegmentPlan, UNCONFIRMED_DEMO_CLIP } from '../../src/scripts/demo/segments';
 import { makeRendition } from '$lib/server/media/outputs';
 import { suggestForRecording } from '$lib/server/segments/suggest';
 

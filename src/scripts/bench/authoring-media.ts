@@ -10,11 +10,12 @@ import { execFile } from 'node:child_process';
 import { mkdir } from 'node:fs/promises';
 import { join } from 'node:path';
 import { promisify } from 'node:util';
-import ffmpegInstaller from '@ffmpeg-installer/ffmpeg';
-import ffprobeInstaller from '@ffprobe-installer/ffprobe';
+import { runFfmpeg, runFfprobe } from '../../lib/server/media/ffmpeg';
 import { EXERCISES, WELCOME, type NarratedSection } from './authoring-script';
 
 const run = promisify(execFile);
+/** Through the app's runner; the input is made before any stack runs, so no machine slot. */
+const encode = (args: string[]) => runFfmpeg(args, { slot: false });
 
 /** Quiet before the first word. */
 const LEAD_SECONDS = 0.6;
@@ -62,13 +63,12 @@ async function checkEspeak(): Promise<void> {
 }
 
 async function secondsOf(file: string): Promise<number> {
-	const { stdout } = await run(ffprobeInstaller.path, [
-		'-v',
-		'error',
+	const { stdout } = await runFfprobe([
 		'-show_entries',
 		'format=duration',
 		'-of',
 		'default=noprint_wrappers=1:nokey=1',
+		'-i',
 		file
 	]);
 	const seconds = Number(stdout.trim());
@@ -137,10 +137,7 @@ export async function makeNarratedRecording(
 	const audioGraph =
 		pieces.map((_, i) => `[${i}:a]aresample=48000,aformat=channel_layouts=mono[a${i}]`).join(';') +
 		`;${pieces.map((_, i) => `[a${i}]`).join('')}concat=n=${pieces.length}:v=0:a=1[out]`;
-	await run(ffmpegInstaller.path, [
-		'-hide_banner',
-		'-loglevel',
-		'error',
+	await encode([
 		'-y',
 		...audioInputs,
 		'-filter_complex',
@@ -166,10 +163,7 @@ export async function makeNarratedRecording(
 		sections.map((_, i) => `[${i}:v]${marks(i).join(',')},format=yuv420p[v${i}]`).join(';') +
 		`;${sections.map((_, i) => `[v${i}]`).join('')}concat=n=${sections.length}:v=1:a=0[v]`;
 	const path = join(dir, fileName);
-	await run(ffmpegInstaller.path, [
-		'-hide_banner',
-		'-loglevel',
-		'error',
+	await encode([
 		'-y',
 		...videoInputs,
 		'-i',

@@ -241,7 +241,7 @@ async function waitForHealth(appUrl: string): Promise<void> {
 
 /** Seeds the demo scenario; returns the demo clinician and their clinic. */
 export async function seedClinician(): Promise<{ clinicId: string; userId: string }> {
-	const { seedDemo } = await import('../../lib/server/demo/seed');
+	const { seedDemo } = await import('../demo/seed');
 	const { db, schema } = await import('../../lib/server/db');
 	const { eq } = await import('drizzle-orm');
 	await seedDemo();
@@ -260,7 +260,7 @@ export async function seedClinician(): Promise<{ clinicId: string; userId: strin
 
 /** Signs in through the real password form action and returns the cookies it set. */
 export async function signIn(run: BenchRun): Promise<string> {
-	const { DEMO_PASSWORD } = await import('../../lib/server/demo/seed');
+	const { DEMO_PASSWORD } = await import('../demo/seed');
 	const res = await fetch(`${run.appUrl}/signin?/password`, {
 		method: 'POST',
 		redirect: 'manual',

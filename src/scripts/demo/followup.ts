@@ -1,4 +1,4 @@
-import { dosageOf } from '$lib/dosage';
+import { dosageOf } from '../../lib/dosage';
 import { and, eq, inArray } from 'drizzle-orm';
 import {
 	addDays,
@@ -6,13 +6,13 @@ import {
 	daysBetween,
 	localDateOf,
 	startOfLocalDay
-} from '$lib/clinical/calendar';
-import { sessionsOfferedOn } from '$lib/clinical/adherence';
-import { hashPassword } from '../auth/passwords';
-import { loadPrincipal, type Principal } from '../auth/principal';
-import { db, schema } from '../db';
-import type { Patient } from '../db/schema/patients';
-import { createProgramme, publishProgramme, saveProgramme } from '../programmes';
+} from '../../lib/clinical/calendar';
+import { sessionsOfferedOn } from '../../lib/clinical/adherence';
+import { hashPassword } from '../../lib/server/auth/passwords';
+import { loadPrincipal, type Principal } from '../../lib/server/auth/principal';
+import { db, schema } from '../../lib/server/db';
+import type { Patient } from '../../lib/server/db/schema/patients';
+import { createProgramme, publishProgramme, saveProgramme } from '../../lib/server/programmes';
 import { DEMO_PASSWORD } from './seed';
 
 /**

@@ -1,11 +1,16 @@
-import { dosageOf } from '$lib/dosage';
+import { dosageOf } from '../../lib/dosage';
 import { and, eq, isNull } from 'drizzle-orm';
-import { addDays } from '$lib/clinical/calendar';
-import type { ExerciseInput } from '$lib/exercises/schema';
-import { loadPrincipal } from '../auth/principal';
-import { db, schema } from '../db';
-import { createExercise, updateExercise } from '../exercises';
-import { createProgramme, patientToday, publishProgramme, saveProgramme } from '../programmes';
+import { addDays } from '../../lib/clinical/calendar';
+import type { ExerciseInput } from '../../lib/exercises/schema';
+import { loadPrincipal } from '../../lib/server/auth/principal';
+import { db, schema } from '../../lib/server/db';
+import { createExercise, updateExercise } from '../../lib/server/exercises';
+import {
+	createProgramme,
+	patientToday,
+	publishProgramme,
+	saveProgramme
+} from '../../lib/server/programmes';
 
 /**
  * The demo clinic's exercises, one per demonstration segment of the knee-replacement clips (the

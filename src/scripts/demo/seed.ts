@@ -1,8 +1,8 @@
 import { and, eq } from 'drizzle-orm';
-import { db, schema } from '../db';
-import type { StaffRole } from '../db/schema/clinics';
-import { hashPassword } from '../auth/passwords';
-import { sendInvitation } from '../invitations';
+import { db, schema } from '../../lib/server/db';
+import type { StaffRole } from '../../lib/server/db/schema/clinics';
+import { hashPassword } from '../../lib/server/auth/passwords';
+import { sendInvitation } from '../../lib/server/invitations';
 
 /**
  * The demo scenario (DESIGN.md §6): an invented community clinic running knee-replacement

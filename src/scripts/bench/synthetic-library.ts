@@ -3,11 +3,11 @@
  * search tests and the library benchmark, which need many published exercises fast. Never used
  * by the app itself.
  */
-import type { ExerciseSnapshot } from '$lib/library/types';
-import { db } from '../db';
-import { libraryExercises, libraryVersions } from '../db/schema';
-import { forgetCatalogue } from './catalogue';
-import { rebuildSearchIndex, reindexEntry } from './search-index';
+import type { ExerciseSnapshot } from '../../lib/library/types';
+import { db } from '../../lib/server/db';
+import { libraryExercises, libraryVersions } from '../../lib/server/db/schema';
+import { forgetCatalogue } from '../../lib/server/library/catalogue';
+import { rebuildSearchIndex, reindexEntry } from '../../lib/server/library/search-index';
 
 /** Inserts one public exercise (published unless told) with a single version; returns its ids. */
 export function insertPublishedEntry(

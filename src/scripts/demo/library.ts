@@ -1,15 +1,19 @@
 import { and, eq } from 'drizzle-orm';
-import { db, schema } from '../db';
+import { db, schema } from '../../lib/server/db';
 import {
 	addToCollection,
 	createCollection,
 	publishCollection,
 	setCover
-} from '../library/collections';
-import { decideSubmission } from '../library/publishing';
-import { findPublicExercise } from '../library/public';
-import { checklistOf, submitExercise, type SubmissionInput } from '../library/submissions';
-import { JUDGEMENT_ITEMS } from '$lib/library/checklist';
+} from '../../lib/server/library/collections';
+import { decideSubmission } from '../../lib/server/library/publishing';
+import { findPublicExercise } from '../../lib/server/library/public';
+import {
+	checklistOf,
+	submitExercise,
+	type SubmissionInput
+} from '../../lib/server/library/submissions';
+import { JUDGEMENT_ITEMS } from '../../lib/library/checklist';
 
 /**
  * The demo library: three of the demo clinic's exercises submitted by its clinician and

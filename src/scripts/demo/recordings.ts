@@ -1,9 +1,9 @@
 import { open, stat } from 'node:fs/promises';
 import { and, eq } from 'drizzle-orm';
-import { db, schema } from '../db';
-import { createTrack, saveVersion } from '../captions';
-import { completeUpload, createUpload, presignParts } from '../recordings/uploads';
-import { ensureDemoClips } from './clips';
+import { db, schema } from '../../lib/server/db';
+import { createTrack, saveVersion } from '../../lib/server/captions';
+import { completeUpload, createUpload, presignParts } from '../../lib/server/recordings/uploads';
+import { ensureDemoClips } from './clips/encoding';
 
 /**
  * Brings the generated demo clips into the demo clinic exactly as a clinician's browser would:

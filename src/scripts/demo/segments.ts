@@ -1,10 +1,11 @@
 import { and, eq, isNull } from 'drizzle-orm';
-import type { Suggestion } from '$lib/captions/suggest';
-import type { PlannedSegment } from '$lib/segments/plan';
-import { db, schema } from '../db';
-import { nudgeWorker } from '../jobs';
-import { confirmSegments, suggestionsFor } from '../segments';
-import { DEMO_CLIPS, planDemoClip, type DemoClip } from './clips';
+import type { Suggestion } from '../../lib/captions/suggest';
+import type { PlannedSegment } from '../../lib/segments/plan';
+import { db, schema } from '../../lib/server/db';
+import { nudgeWorker } from '../../lib/server/jobs';
+import { confirmSegments, suggestionsFor } from '../../lib/server/segments';
+import { DEMO_CLIPS, type DemoClip } from './clips/scripts';
+import { planDemoClip } from './clips/timeline';
 
 /**
  * The demo clip left without segments, so a clinician trying the demo can make them on the
