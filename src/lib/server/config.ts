@@ -70,7 +70,8 @@ const schema = z.object({
 	JOB_STALE_SECONDS: z.coerce.number().min(1).max(3600).default(60),
 	JOB_RETRY_BASE_SECONDS: z.coerce.number().min(0).max(3600).default(10),
 	MEDIA_WORK_DIR: z.string().default(''),
-	// ffmpeg and ffprobe executables; empty means the binaries inside the npm installer packages.
+	// ffmpeg and ffprobe executables; empty means Debian's (/usr/bin) when installed, else the
+	// binaries inside the npm installer packages (media/tools.ts).
 	FFMPEG_PATH: z.string().default(''),
 	FFPROBE_PATH: z.string().default(''),
 	// ffmpeg runs at once on this machine, counted across every process sharing the database
