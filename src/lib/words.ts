@@ -52,7 +52,7 @@ export const TERMS: Term[] = [
 	{
 		idea: 'the dosage an exercise starts a programme with',
 		word: 'Starting dosage',
-		not: ['Default dosage', 'Exercise default', 'Typical starting dosage']
+		not: ['Default dosage', 'Exercise default', 'Typical starting dosage', "exercise's default"]
 	},
 	{
 		idea: 'why a patient is in rehabilitation',

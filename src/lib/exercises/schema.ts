@@ -101,7 +101,7 @@ export const exerciseInputSchema = z
 			ctx.addIssue({
 				code: 'custom',
 				path: ['dosage', issue.field],
-				message: `The default dosage is outside the exercise's own range: ${issue.message}`
+				message: `The starting dosage is outside the exercise's own range: ${issue.message}`
 			});
 		}
 		if (e.status === 'ready' && !e.segmentId) {
