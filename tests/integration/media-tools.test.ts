@@ -97,3 +97,31 @@ describe('/api/health', () => {
 		expect(['setting', 'system', 'bundled']).toContain((admin.ffmpeg as { source: string }).source);
 	});
 });
+
+describe('runFfmpeg with an input', () => {
+	const frame = Buffer.alloc(16 * 16 * 4, 128);
+	/** `count` grey 16 × 16 RGBA frames; throws instead of drawing frame `failAt`. */
+	async function* frames(count: number, failAt = -1) {
+		for (let i = 0; i < count; i++) {
+			if (i === failAt) throw new Error('the drawing failed');
+			yield frame;
+		}
+	}
+	// framemd5 prints one line per frame it read, after its # header lines.
+	const args = ['-f', 'rawvideo', '-pix_fmt', 'rgba', '-s', '16x16', '-r', '10', '-i', 'pipe:0'];
+	const md5 = [...args, '-f', 'framemd5', '-'];
+
+	it('feeds every frame to ffmpeg through stdin', async () => {
+		const { runFfmpeg } = await freshRunner();
+		const { stdout } = await runFfmpeg(md5, { input: frames(5), slot: false });
+		const lines = stdout.split('\n').filter((line) => line !== '' && !line.startsWith('#'));
+		expect(lines).toHaveLength(5);
+	});
+
+	it('stops the run with the input’s own error when the input throws', async () => {
+		const { runFfmpeg } = await freshRunner();
+		await expect(runFfmpeg(md5, { input: frames(5, 2), slot: false })).rejects.toThrow(
+			'the drawing failed'
+		);
+	});
+});
