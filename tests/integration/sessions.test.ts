@@ -11,90 +11,13 @@ const sessions = await import('$lib/server/sessions');
 const { calendarFile } = await import('$lib/server/sessions/calendar');
 const { sessionLogSchema } = await import('$lib/sessions/log');
 const { DEFAULT_CAPTION_STYLE } = await import('$lib/sessions/caption-style');
+const factories = await import('./factories');
+const { makeClinic, makeExercise, makeProgramme } = factories;
 
 type Patient = typeof schema.patients.$inferSelect;
 
-function makeClinic(name: string) {
-	return db().insert(schema.clinics).values({ name }).returning().get();
-}
-
 function makePatient(clinicId: string, name: string, timeZone = 'Europe/London'): Patient {
-	return db()
-		.insert(schema.patients)
-		.values({
-			clinicId,
-			fullName: name,
-			email: `${name.toLowerCase().replace(/\W+/g, '.')}@sessions-test.example`,
-			timeZone
-		})
-		.returning()
-		.get();
-}
-
-function makeExercise(clinicId: string, title: string, safetyNotes = '') {
-	return db()
-		.insert(schema.exercises)
-		.values({
-			clinicId,
-			title,
-			bodyRegion: 'Knee',
-			position: 'supine',
-			movementType: 'active',
-			safetyNotes,
-			sets: 1,
-			reps: 8,
-			sessionsPerDay: 3,
-			daysPerWeek: 7,
-			status: 'ready'
-		})
-		.returning()
-		.get();
-}
-
-/** A programme of one item per exercise given; returns the programme and its items. */
-function makeProgramme(
-	patient: Patient,
-	exerciseIds: string[],
-	{
-		status = 'published' as 'draft' | 'published' | 'ended',
-		startDate = '2026-03-02',
-		endDate = null as string | null,
-		sessionsPerDay = 3,
-		daysPerWeek = 7
-	} = {}
-) {
-	const programme = db()
-		.insert(schema.programmes)
-		.values({
-			clinicId: patient.clinicId,
-			patientId: patient.id,
-			title: 'Knee programme',
-			status,
-			startDate,
-			endDate,
-			publishedAt: status === 'draft' ? null : new Date()
-		})
-		.returning()
-		.get();
-	const items = exerciseIds.map((exerciseId, position) =>
-		db()
-			.insert(schema.programmeItems)
-			.values({
-				programmeId: programme.id,
-				exerciseId,
-				position,
-				sets: 2,
-				reps: 8,
-				holdSeconds: 0,
-				restSeconds: 30,
-				sessionsPerDay,
-				daysPerWeek,
-				progression: { kind: 'reps', addPerWeek: 2, ceiling: 15 }
-			})
-			.returning()
-			.get()
-	);
-	return { programme, items };
+	return factories.makePatient(clinicId, name, { timeZone, emailDomain: 'sessions-test.example' });
 }
 
 function log(itemId: string, overrides: Record<string, unknown> = {}) {
