@@ -16,6 +16,7 @@ import { sessionIsAlive } from '$lib/server/auth/sessions';
 import { config } from '$lib/server/config';
 import { db } from '$lib/server/db';
 import { startBackgroundWork, stopBackgroundWork, workerInApp } from '$lib/server/jobs';
+import { withStorageOrigin } from '$lib/server/storage/media-urls';
 import { storageOrigin } from '$lib/server/storage/multipart';
 import { authHandle } from './auth';
 
@@ -147,14 +148,10 @@ const securityHeaders: Handle = async ({ event, resolve }) => {
 	// Responses made by Auth.js (redirects) come with immutable headers; copy them to add ours.
 	if (isImmutable(response)) response = new Response(response.body, response);
 	response.headers.set('X-Content-Type-Options', 'nosniff');
-	// Recordings go from the browser straight to storage, so pages may connect to its origin.
+	// Recordings go from the browser straight to storage, and media and pictures come back from
+	// it (the media endpoints redirect there), so pages may reach its origin for those alone.
 	const csp = response.headers.get('Content-Security-Policy');
-	if (csp?.includes("connect-src 'self'")) {
-		response.headers.set(
-			'Content-Security-Policy',
-			csp.replace("connect-src 'self'", `connect-src 'self' ${storageOrigin()}`)
-		);
-	}
+	if (csp) response.headers.set('Content-Security-Policy', withStorageOrigin(csp, storageOrigin()));
 	response.headers.set('Referrer-Policy', 'strict-origin-when-cross-origin');
 	response.headers.set('X-Frame-Options', 'DENY');
 	response.headers.set('Permissions-Policy', 'camera=(), microphone=(), geolocation=()');

@@ -1,8 +1,10 @@
+import { createReadStream } from 'node:fs';
 import { mkdir } from 'node:fs/promises';
 import { createServer, type IncomingMessage, type ServerResponse } from 'node:http';
 import { createRequire } from 'node:module';
 import type { AddressInfo } from 'node:net';
 import { handleMultipart } from './multipart';
+import { objectOf, readRange } from './ranges';
 import { verifySignature } from './sigv4';
 
 // s3rver ships no types; these cover only what the fake uses.
@@ -13,8 +15,24 @@ interface S3rverOptions {
 	configureBuckets?: { name: string; configs?: string[] }[];
 }
 
+interface S3rverObject {
+	content: NodeJS.ReadableStream & { destroy(): void };
+	range?: { start: number; end: number };
+}
+
+interface S3rverStore {
+	getMetadata(bucket: string, key: string): Promise<Record<string, string>>;
+	getObject(
+		bucket: string,
+		key: string,
+		options?: { start?: number; end?: number }
+	): Promise<S3rverObject | null>;
+	getResourcePath(bucket: string, key: string, resource: string): string;
+}
+
 interface S3rverInstance {
 	logger: { close(): void };
+	store: S3rverStore;
 	configureBuckets(): Promise<void>;
 	callback(): (req: IncomingMessage, res: ServerResponse) => void;
 }
@@ -82,6 +100,26 @@ function releaseKey(accessKeyId: string) {
 	if (accessKeyId !== 'S3RVER') account.revokeAccessKey(accessKeyId);
 }
 
+/**
+ * s3rver's store reads a range ending at byte 0 (`bytes=0-0`, a player probing a file) as "to
+ * the end"; this answers it with the first byte.
+ */
+function fixFirstByteRange(store: S3rverStore) {
+	const getObject = store.getObject.bind(store);
+	store.getObject = async (bucket, key, options) => {
+		const object = await getObject(bucket, key, options);
+		if (options?.end === 0 && object?.content && object.range) {
+			object.content.destroy();
+			object.content = createReadStream(store.getResourcePath(bucket, key, 'object'), {
+				start: 0,
+				end: 0
+			});
+			object.range = { start: 0, end: 0 };
+		}
+		return object;
+	};
+}
+
 function escapeXml(value: string): string {
 	return value.replace(/[<>&'"]/g, (c) => `&#${c.charCodeAt(0)};`);
 }
@@ -127,6 +165,7 @@ export async function startStorageFake(opts: StorageFakeOptions): Promise<Storag
 	});
 	registerKey(opts.accessKeyId, opts.secretAccessKey);
 
+	fixFirstByteRange(s3rver.store);
 	const handle = s3rver.callback();
 	const credentials = { accessKeyId: opts.accessKeyId, secretAccessKey: opts.secretAccessKey };
 
@@ -206,13 +245,45 @@ export async function startStorageFake(opts: StorageFakeOptions): Promise<Storag
 			sendError(req, res, verdict.status, verdict.code, verdict.message);
 			return;
 		}
-		handleMultipart(req, res, opts.directory, (r, w) => allowOrigin(r.headers.origin, w)).then(
-			(handled) => {
-				if (!handled) handle(req, res);
-			},
-			(error: unknown) => sendError(req, res, 500, 'InternalError', String(error))
-		);
+		handleMultipart(req, res, opts.directory, (r, w) => allowOrigin(r.headers.origin, w))
+			.then(async (handled) => {
+				if (handled) return;
+				// After the signature check: the SDK signs the Range header as sent.
+				if (await answerUnsatisfiableRange(req, res)) return;
+				handle(req, res);
+			})
+			.catch((error: unknown) => sendError(req, res, 500, 'InternalError', String(error)));
 	});
+
+	/**
+	 * Puts the Range header of an object read in the one form s3rver reads right (`bytes=A-B`),
+	 * drops one S3 would ignore, and answers 416 itself for one past the end. True when answered.
+	 */
+	async function answerUnsatisfiableRange(
+		req: IncomingMessage,
+		res: ServerResponse
+	): Promise<boolean> {
+		const range = req.headers.range;
+		if (range === undefined || (req.method !== 'GET' && req.method !== 'HEAD')) return false;
+		const object = objectOf(req.url ?? '/');
+		if (!object) return false;
+		const metadata = await s3rver.store.getMetadata(object.bucket, object.key).catch(() => null);
+		// A missing object: s3rver answers NoSuchKey.
+		if (!metadata) return false;
+		const size = Number(metadata['content-length']);
+		const decision = readRange(range, size);
+		if (decision.kind === 'whole') {
+			delete req.headers.range;
+			return false;
+		}
+		if (decision.kind === 'part') {
+			req.headers.range = `bytes=${decision.start}-${decision.end}`;
+			return false;
+		}
+		res.setHeader('Content-Range', `bytes */${size}`);
+		sendError(req, res, 416, 'InvalidRange', 'The requested range is not satisfiable');
+		return true;
+	}
 
 	try {
 		await s3rver.configureBuckets();

@@ -1,3 +1,4 @@
+import { config } from '$lib/server/config';
 import { inboxEnabled } from '$lib/server/mail/inbox';
 import type { LayoutServerLoad } from './$types';
 
@@ -13,6 +14,8 @@ export const load: LayoutServerLoad = ({ locals }) => {
 					timeZone: user.timeZone
 				}
 			: null,
-		inboxEnabled: user?.role === 'admin' && inboxEnabled()
+		inboxEnabled: user?.role === 'admin' && inboxEnabled(),
+		// How long media's storage addresses work: players renew theirs (lib/media/renew-expired).
+		mediaUrlLifetimeSeconds: config().MEDIA_URL_LIFETIME_SECONDS
 	};
 };

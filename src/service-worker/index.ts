@@ -238,9 +238,10 @@ async function fetchPage(cache: Cache, pathname: string, key: string): Promise<b
 }
 
 /**
- * Saves the whole file at `url` (at most `limit` bytes), revalidating a copy already saved by its
- * ETag. Returns the saved size, or null when nothing may be kept: too large, or refused now
- * (signed out, no longer in the programme). An unreachable server keeps the copy as it is.
+ * Saves the whole file at `url` (at most `limit` bytes) under that address (the app's, whatever
+ * storage address it redirected to), revalidating a copy already saved by its ETag. Returns the
+ * saved size, or null when nothing may be kept: too large, or refused now (signed out, no longer
+ * in the programme). An unreachable server keeps the copy as it is.
  */
 async function saveFile(cache: Cache, url: string, limit: number): Promise<number | null> {
 	const old = await cache.match(url);
@@ -250,7 +251,10 @@ async function saveFile(cache: Cache, url: string, limit: number): Promise<numbe
 	if (etag) headers.set('If-None-Match', etag);
 	let response: Response;
 	try {
-		response = await fetch(url, { headers });
+		// Media answers with a redirect to storage; the bytes come from there under CORS. The
+		// browser's HTTP cache may hold the same address from the player's own (no-CORS) reads,
+		// stored without CORS headers, which a CORS read must not be answered from.
+		response = await fetch(url, { headers, cache: 'no-store' });
 	} catch {
 		return oldBytes;
 	}

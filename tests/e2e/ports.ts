@@ -8,6 +8,9 @@ export const E2E = {
 	smtpPort: 2625,
 	mailApiPort: 2626,
 	speechPort: 4670,
+	// Storage addresses for media work this long here (300 s by default), so that the tests meet
+	// players left open past it (media-expiry.e2e.ts).
+	mediaUrlLifetimeSeconds: 6,
 	dataDir: resolve(import.meta.dirname, '../.run/e2e'),
 	get databasePath() {
 		return resolve(this.dataDir, 'kinelume.db');

@@ -21,6 +21,7 @@ const env = {
 	SPEECH_TO_TEXT_API_KEY: 'e2e-speech-key',
 	SPEECH_TO_TEXT_MODEL: 'stand-in',
 	AUTH_SECRET: 'e2e-only-secret-that-is-long-enough-0123456789',
+	MEDIA_URL_LIFETIME_SECONDS: String(E2E.mediaUrlLifetimeSeconds),
 	// The app runs the job worker itself here, as in the demo (production runs `npm run worker`).
 	WORKER_IN_APP: 'true'
 };

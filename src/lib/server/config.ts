@@ -28,6 +28,10 @@ const schema = z.object({
 	S3_ACCESS_KEY_ID: z.string().min(1).default('S3RVER'),
 	S3_SECRET_ACCESS_KEY: z.string().min(1).default('S3RVER'),
 	S3_FORCE_PATH_STYLE: bool.default(true),
+	// How long a storage address handed to a browser for media works, in seconds. Every media
+	// request is authorised by the app and answered with a redirect to such an address
+	// (storage/media-urls.ts); a player left open longer asks the app again.
+	MEDIA_URL_LIFETIME_SECONDS: z.coerce.number().int().min(2).max(3600).default(300),
 	SMTP_HOST: z.string().min(1).default('127.0.0.1'),
 	SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(2525),
 	SMTP_SECURE: bool.default(false),

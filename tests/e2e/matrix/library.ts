@@ -8,7 +8,7 @@ import {
 	seedSubmission
 } from '../library-support';
 import type { MatrixRole } from '../support';
-import { everyone, onlyPage, type MatrixPart, type Row } from './types';
+import { everyone, MEDIA_OK, onlyPage, type MatrixPart, type Row } from './types';
 
 /**
  * The library: public pages and files for everyone (only what is published; an unpublished
@@ -27,12 +27,16 @@ const educatorApi = (educator: number): Record<MatrixRole, number> => ({
 	admin: 403
 });
 
-const versionRows = (route: string, file: (versionId: string) => string): Row[] => [
+const versionRows = (
+	route: string,
+	file: (versionId: string) => string,
+	ok: number = 200
+): Row[] => [
 	{
 		route,
 		note: 'a published exercise',
 		path: (f) => file(f.extra.publishedVersionId),
-		expect: everyone(200)
+		expect: everyone(ok)
 	},
 	{
 		route,
@@ -54,18 +58,22 @@ const versionRows = (route: string, file: (versionId: string) => string): Row[] 
 	}
 ];
 
-const submissionRows = (route: string, file: (submissionId: string) => string): Row[] => [
+const submissionRows = (
+	route: string,
+	file: (submissionId: string) => string,
+	ok: number = 200
+): Row[] => [
 	{
 		route,
 		note: 'a submission under review',
 		path: (f) => file(f.extra.submissionId),
-		expect: educatorApi(200)
+		expect: educatorApi(ok)
 	},
 	{
 		route,
 		note: 'a caption revision under review (its files are the revised version’s copies)',
 		path: (f) => file(f.extra.captionRevisionId),
-		expect: educatorApi(200)
+		expect: educatorApi(ok)
 	},
 	{
 		route,
@@ -185,11 +193,13 @@ export const libraryPart: MatrixPart = {
 		{ route: '/(public)/robots.txt', path: () => '/robots.txt', expect: everyone(200) },
 		...versionRows(
 			'/api/library/versions/[id=id]/clip.mp4',
-			(id) => `/api/library/versions/${id}/clip.mp4`
+			(id) => `/api/library/versions/${id}/clip.mp4`,
+			MEDIA_OK
 		),
 		...versionRows(
 			'/api/library/versions/[id=id]/poster-[n].jpg',
-			(id) => `/api/library/versions/${id}/poster-0.jpg`
+			(id) => `/api/library/versions/${id}/poster-0.jpg`,
+			MEDIA_OK
 		),
 		{
 			route: '/api/library/versions/[id=id]/poster-[n].jpg',
@@ -203,11 +213,13 @@ export const libraryPart: MatrixPart = {
 		),
 		...submissionRows(
 			'/api/library/submissions/[id=id]/clip.mp4',
-			(id) => `/api/library/submissions/${id}/clip.mp4`
+			(id) => `/api/library/submissions/${id}/clip.mp4`,
+			MEDIA_OK
 		),
 		...submissionRows(
 			'/api/library/submissions/[id=id]/poster-[n].jpg',
-			(id) => `/api/library/submissions/${id}/poster-0.jpg`
+			(id) => `/api/library/submissions/${id}/poster-0.jpg`,
+			MEDIA_OK
 		),
 		...submissionRows(
 			'/api/library/submissions/[id=id]/captions.vtt',
@@ -217,13 +229,13 @@ export const libraryPart: MatrixPart = {
 			route: '/api/segments/[id=id]/clip.mp4',
 			note: 'the segment behind a submission under review stays the clinic’s',
 			path: (f) => `/api/segments/${f.extra.librarySegmentId}/clip.mp4`,
-			expect: { public: 401, patient: 404, clinician: 200, educator: 403, admin: 403 }
+			expect: { public: 401, patient: 404, clinician: MEDIA_OK, educator: 403, admin: 403 }
 		},
 		{
 			route: '/api/segments/[id=id]/poster-[n].jpg',
 			note: 'the posters behind a submission under review stay the clinic’s',
 			path: (f) => `/api/segments/${f.extra.librarySegmentId}/poster-0.jpg`,
-			expect: { public: 401, patient: 404, clinician: 200, educator: 403, admin: 403 }
+			expect: { public: 401, patient: 404, clinician: MEDIA_OK, educator: 403, admin: 403 }
 		},
 		{
 			route: '/api/segments/[id=id]/captions.vtt',

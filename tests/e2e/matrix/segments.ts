@@ -1,6 +1,6 @@
 import { ACCOUNTS, database, seedCaptionTrack, seedReadyRecording } from '../support';
 import { seedReadySegment } from '../segments-support';
-import { clinicianApi, onlyPage, type MatrixPart, type Row } from './types';
+import { clinicianApi, MEDIA_OK, onlyPage, type MatrixPart, type Row } from './types';
 
 /**
  * Segments: the clinician's segments page and its endpoints, and the segment files that patients
@@ -137,7 +137,11 @@ export const segmentsPart: MatrixPart = {
 			path: (f) => `/api/recordings/${f.otherClinicRecordingId}/chapters.vtt`,
 			expect: clinicianApi(404)
 		},
-		...segmentRows('/api/segments/[id=id]/clip.mp4', (id) => `/api/segments/${id}/clip.mp4`),
+		...segmentRows(
+			'/api/segments/[id=id]/clip.mp4',
+			(id) => `/api/segments/${id}/clip.mp4`,
+			MEDIA_OK
+		),
 		{
 			route: '/api/segments/[id=id]/clip.mp4',
 			note: 'a segment still being cut',
@@ -152,7 +156,8 @@ export const segmentsPart: MatrixPart = {
 		},
 		...segmentRows(
 			'/api/segments/[id=id]/poster-[n].jpg',
-			(id) => `/api/segments/${id}/poster-0.jpg`
+			(id) => `/api/segments/${id}/poster-0.jpg`,
+			MEDIA_OK
 		),
 		{
 			route: '/api/segments/[id=id]/poster-[n].jpg',

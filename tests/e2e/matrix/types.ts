@@ -31,6 +31,12 @@ export const everyone = (status: number): Record<MatrixRole, number> => ({
 	educator: status,
 	admin: status
 });
+/**
+ * A media file (rendition, clip, poster) allowed to its reader: a 307 to a short-lived storage
+ * address (the matrix does not follow redirects; media-redirect.test.ts follows them).
+ */
+export const MEDIA_OK = 307;
+
 export const clinicianApi = (clinician: number): Record<MatrixRole, number> => ({
 	public: 401,
 	patient: 403,

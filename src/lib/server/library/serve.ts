@@ -17,13 +17,16 @@ import {
 	type LibraryVersion,
 	type SegmentRow
 } from '../db/schema';
-import { serveObject } from '../recordings/media';
+import { redirectToObject } from '../recordings/media';
 import { eq } from 'drizzle-orm';
 import { submissionAsset, versionAsset } from './media';
 import { findPublicVersion } from './public';
 import { findSubmission } from './submissions';
 
-/** Public files may sit in shared caches briefly; an unpublished exercise drops out within it. */
+/**
+ * Public answers may sit in shared caches briefly; an unpublished exercise drops out within it.
+ * (The bytes themselves come from storage, cached for a year: see redirectToObject.)
+ */
 export const PUBLIC_MEDIA_CACHE = 'public, max-age=60';
 
 /** The version whose files the public may fetch, or the answer to give instead (404 or 410). */
@@ -42,7 +45,10 @@ function withCache(response: Response, cacheControl: string): Response {
 	return response;
 }
 
-/** A public copy (clip.mp4 or poster-N.jpg) of a published version, with byte ranges. */
+/**
+ * A public copy (clip.mp4 or poster-N.jpg) of a published version: a redirect to storage that
+ * any cache may share, without `Vary: Cookie` (the answer is the same for everyone).
+ */
 export async function servePublicAsset(
 	request: Request,
 	id: string,
@@ -52,7 +58,8 @@ export async function servePublicAsset(
 	if (version instanceof Response) return version;
 	const stored = versionAsset(version, asset);
 	if (!stored) return apiError(404, 'Not found.');
-	return withCache(await serveObject(request, stored.key, stored.type), PUBLIC_MEDIA_CACHE);
+	const response = await redirectToObject(request, stored.key, stored.type, 'public');
+	return request.method === 'HEAD' ? withCache(response, PUBLIC_MEDIA_CACHE) : response;
 }
 
 function captionsTag(kind: string, id: string): string {
@@ -119,7 +126,7 @@ export async function serveSubmissionAsset(
 		? versionAsset(revised, asset)
 		: submissionAsset(submission, found.segment, asset);
 	if (!stored) return apiError(404, 'Not found.');
-	return serveObject(request, stored.key, stored.type);
+	return redirectToObject(request, stored.key, stored.type);
 }
 
 /** A submission's captions as submitted (its snapshot), for the educator reviewing it. */

@@ -4,6 +4,8 @@ import { contentRange, ifRangeAllows, parseRange, rangeLength } from '../../medi
 import type { Recording } from '../db/schema';
 import { bucketName, headObject, storage, type ObjectInfo } from '../storage';
 import { recordingKeys } from '../storage/keys';
+import { config } from '../config';
+import { presignMediaUrl, signingWindow, type MediaAudience } from '../storage/media-urls';
 
 // A player asks for many ranges of one file; remembering its size and tag saves a HEAD per range.
 // Every GET carries If-Match with the remembered tag, so a replaced object is noticed, not served.
@@ -70,6 +72,49 @@ export function assetKey(
 		return { key: keys.poster(Number(poster[1])), type: 'image/jpeg' };
 	}
 	return null;
+}
+
+/** Public redirects may sit in shared caches this long at most: an unpublished exercise drops out within it. */
+const PUBLIC_REDIRECT_MAX_AGE = 60;
+
+function matchesTag(ifNoneMatch: string | null, etag: string | null): boolean {
+	if (!etag || !ifNoneMatch) return false;
+	return ifNoneMatch.split(',').some((t) => t.trim() === etag || t.trim() === '*');
+}
+
+/**
+ * Answers a media request whose caller was already authorised: a redirect (307) to a
+ * short-lived presigned storage address, so the bytes and their byte ranges go from storage to
+ * the browser. Nothing is cached on the way for private media (`private, no-store`: the next
+ * request is checked again); a public library copy's redirect may be shared by caches for a
+ * minute at most (its bytes, at storage, for a year). HEAD and a matching If-None-Match (the
+ * patient's offline copy revalidating) are answered here, with no bytes; a missing object is a 404.
+ */
+export async function redirectToObject(
+	request: Request,
+	key: string,
+	contentType: string,
+	audience: MediaAudience = 'private'
+): Promise<Response> {
+	if (request.method === 'HEAD') return serveObject(request, key, contentType);
+	const info = await objectInfo(key);
+	if (!info) return notFound();
+	const now = Date.now();
+	const { expiresAt } = signingWindow(now, config().MEDIA_URL_LIFETIME_SECONDS);
+	const headers = new Headers({
+		'Cache-Control':
+			audience === 'public'
+				? `public, max-age=${Math.max(0, Math.min(PUBLIC_REDIRECT_MAX_AGE, Math.floor((expiresAt - now) / 1000) - 1))}`
+				: 'private, no-store'
+	});
+	const etag = info.etag ?? null;
+	if (etag) headers.set('ETag', etag);
+	if (matchesTag(request.headers.get('If-None-Match'), etag)) {
+		return new Response(null, { status: 304, headers });
+	}
+	const { url } = await presignMediaUrl(key, { contentType, audience, now });
+	headers.set('Location', url);
+	return new Response(null, { status: 307, headers });
 }
 
 function notFound(): Response {

@@ -1,12 +1,12 @@
 import { apiError } from '$lib/server/api';
-import { serveObject } from '$lib/server/recordings/media';
+import { redirectToObject } from '$lib/server/recordings/media';
 import { callerSegment } from '$lib/server/segments/access';
 import { recordingKeys } from '$lib/server/storage/keys';
 import type { RequestHandler } from './$types';
 
 /**
- * A segment's own clip, streamed with byte ranges (RFC 9110) like the recording's rendition.
- * Clinicians of its clinic, and patients with a published programme that uses it.
+ * A segment's own clip: clinicians of its clinic, and patients with a published programme that
+ * uses it, are redirected to a short-lived storage address that serves its byte ranges.
  */
 export const GET: RequestHandler = ({ params, request }) => {
 	const found = callerSegment(params.id);
@@ -14,7 +14,7 @@ export const GET: RequestHandler = ({ params, request }) => {
 	const { segment } = found;
 	if (segment.status !== 'ready') return apiError(404, 'This segment has not been cut yet.');
 	const key = recordingKeys(segment.clinicId, segment.recordingId).segment(segment.id);
-	return serveObject(request, key, 'video/mp4');
+	return redirectToObject(request, key, 'video/mp4');
 };
 
 export const HEAD = GET;

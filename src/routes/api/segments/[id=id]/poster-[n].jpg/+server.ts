@@ -1,5 +1,5 @@
 import { apiError } from '$lib/server/api';
-import { serveObject } from '$lib/server/recordings/media';
+import { redirectToObject } from '$lib/server/recordings/media';
 import { callerSegment } from '$lib/server/segments/access';
 import { recordingKeys } from '$lib/server/storage/keys';
 import type { RequestHandler } from './$types';
@@ -14,7 +14,7 @@ export const GET: RequestHandler = ({ params, request }) => {
 		return apiError(404, 'Not found.');
 	}
 	const key = recordingKeys(segment.clinicId, segment.recordingId).segmentPoster(segment.id, index);
-	return serveObject(request, key, 'image/jpeg');
+	return redirectToObject(request, key, 'image/jpeg');
 };
 
 export const HEAD = GET;

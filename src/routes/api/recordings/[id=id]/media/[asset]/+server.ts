@@ -1,11 +1,13 @@
 import { apiCaller, apiError } from '$lib/server/api';
 import { findRecording } from '$lib/server/recordings';
-import { assetKey, serveObject } from '$lib/server/recordings/media';
+import { assetKey, redirectToObject, serveObject } from '$lib/server/recordings/media';
 import type { RequestHandler } from './$types';
 
 /**
- * A recording's rendition, posters, sprite or waveform, streamed with byte ranges for seeking.
- * Only clinicians of the recording's clinic; anyone else's id reads as not found.
+ * A recording's rendition, posters, sprite or waveform. Only clinicians of the recording's
+ * clinic; anyone else's id reads as not found. The rendition and pictures are redirects to a
+ * short-lived storage address; the waveform, read by the page's script, is streamed from here
+ * (a few kilobytes, and same-origin needs no cross-origin rules at storage).
  */
 export const GET: RequestHandler = ({ params, request }) => {
 	const caller = apiCaller('clinician');
@@ -14,7 +16,8 @@ export const GET: RequestHandler = ({ params, request }) => {
 	if (!recording) return apiError(404, 'Not found.');
 	const asset = assetKey(recording, params.asset);
 	if (!asset) return apiError(404, 'Not found.');
-	return serveObject(request, asset.key, asset.type);
+	if (params.asset === 'waveform.json') return serveObject(request, asset.key, asset.type);
+	return redirectToObject(request, asset.key, asset.type);
 };
 
 export const HEAD = GET;
