@@ -22,6 +22,7 @@ import { replayCodesPart } from './matrix/replay-codes';
 import {
 	clinicianApi,
 	everyone,
+	MEDIA_OK,
 	onlyPage,
 	type Fixture,
 	type MatrixPart,
@@ -148,13 +149,13 @@ const BASE_ROWS: Row[] = [
 		route: '/api/recordings/[id=id]/media/[asset]',
 		note: "own clinic's rendition",
 		path: (f) => `/api/recordings/${f.recordingId}/media/rendition.mp4`,
-		expect: clinicianApi(200)
+		expect: clinicianApi(MEDIA_OK)
 	},
 	{
 		route: '/api/recordings/[id=id]/media/[asset]',
 		note: "own clinic's poster",
 		path: (f) => `/api/recordings/${f.recordingId}/media/poster-0.jpg`,
-		expect: clinicianApi(200)
+		expect: clinicianApi(MEDIA_OK)
 	},
 	{
 		route: '/api/recordings/[id=id]/media/[asset]',
