@@ -3,7 +3,8 @@
  * values are the ones the database stores (src/lib/server/db/schema/programmes.ts); the labels
  * are what people read.
  */
-import { PHASES, PHASE_LABELS, type Phase } from '$lib/clinical/phases';
+// Relative imports: drizzle-kit loads this through the schema, without SvelteKit's aliases.
+import { PHASES, PHASE_LABELS, type Phase } from '../clinical/phases';
 
 export const POSITIONS = ['supine', 'prone', 'side-lying', 'seated', 'standing'] as const;
 export type Position = (typeof POSITIONS)[number];

@@ -15,14 +15,13 @@ import {
 } from '$lib/clinical/precautions';
 import { parseUntil, untilText } from '$lib/clinical/until';
 import {
+	PATIENT_SIDES,
 	PRECAUTIONS,
 	PRECAUTIONS_WITH_DEGREES,
 	PROTOCOL_IDS_LIST,
 	SEXES,
 	type PrecautionId
 } from './vocabulary';
-
-export const PATIENT_SIDES = ['left', 'right', 'both', 'not applicable'] as const;
 
 export interface PatientDetailsDraft {
 	fullName: string;

@@ -1,8 +1,12 @@
 /** Words for a patient's record, shared by the invitation form and the details page. */
-import { PROTOCOL_IDS, PROTOCOLS } from '$lib/clinical/phases';
+// Relative imports: drizzle-kit loads this through the schema, without SvelteKit's aliases.
+import { PROTOCOL_IDS, PROTOCOLS } from '../clinical/phases';
 
-import type { PrecautionId } from '$lib/clinical/precautions';
-export { PRECAUTIONS, type PrecautionId } from '$lib/clinical/precautions';
+import type { PrecautionId } from '../clinical/precautions';
+export { PRECAUTIONS, type PrecautionId } from '../clinical/precautions';
+
+/** The side a patient's condition affects, as stored on their record. */
+export const PATIENT_SIDES = ['left', 'right', 'both', 'not applicable'] as const;
 
 /** Precautions that limit a range and take the clinician's degrees. */
 export const PRECAUTIONS_WITH_DEGREES: readonly PrecautionId[] = [
@@ -10,7 +14,7 @@ export const PRECAUTIONS_WITH_DEGREES: readonly PrecautionId[] = [
 ];
 
 /** Sex as the normal-value tables report it; optional on a patient's record. */
-export { SEXES } from '$lib/clinical/rom';
+export { SEXES } from '../clinical/rom';
 export const SEX_CHOICES: { value: string; label: string }[] = [
 	{ value: '', label: 'Not recorded' },
 	{ value: 'female', label: 'Female' },

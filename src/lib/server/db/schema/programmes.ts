@@ -12,15 +12,17 @@ import type { DosageBounds, Progression } from '../../../dosage/types';
 import type { Weekday } from '../../../clinical/calendar';
 import type { RangeGuide } from '../../../clinical/range-guides';
 import { ARM_POSITIONS, ROM_INSTRUMENTS } from '../../../clinical/rom';
+import {
+	EXERCISE_SIDES,
+	EXERCISE_STATUSES,
+	MOVEMENT_TYPES,
+	POSITIONS
+} from '../../../exercises/vocabulary';
 import { users } from './auth';
 import { clinics } from './clinics';
 import { patients } from './patients';
 import { segments } from './segments';
 
-export const POSITIONS = ['supine', 'prone', 'side-lying', 'seated', 'standing'] as const;
-export const MOVEMENT_TYPES = ['passive', 'active-assisted', 'active', 'resisted'] as const;
-export const EXERCISE_SIDES = ['left', 'right', 'both', 'either', 'not applicable'] as const;
-export const EXERCISE_STATUSES = ['draft', 'ready', 'retired'] as const;
 export const PROGRAMME_STATUSES = ['draft', 'published', 'ended'] as const;
 export const ROM_MODES = ['active', 'passive'] as const;
 
