@@ -134,6 +134,12 @@ const BASE_ROWS: Row[] = [
 		expect: everyone(405)
 	},
 	{
+		route: '/api/recordings',
+		note: "the clinic's recordings list, polled by /recordings",
+		path: () => '/api/recordings?sort=length&dir=asc&status=processing&page=1',
+		expect: clinicianApi(200)
+	},
+	{
 		route: '/api/recordings/[id=id]',
 		note: "own clinic's recording",
 		path: (f) => `/api/recordings/${f.recordingId}`,
@@ -256,6 +262,12 @@ const BASE_ROWS: Row[] = [
 	{ route: '/(patient)/today', path: () => '/today', expect: onlyPage('patient') },
 	{ route: '/(educator)/curate', path: () => '/curate', expect: onlyPage('educator') },
 	{ route: '/api/health', path: () => '/api/health', expect: everyone(200) },
+	{
+		route: '/api/ping',
+		note: 'an upload waiting for the network asks it; empty, for anyone',
+		path: () => '/api/ping',
+		expect: everyone(204)
+	},
 	{
 		route: '/api/patients/[id=id]',
 		note: 'the signed-in patient themself',

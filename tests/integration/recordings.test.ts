@@ -26,6 +26,9 @@ const { ListObjectsCommand } = await import('@aws-sdk/client-s3');
 const MiB = 1024 * 1024;
 let dir: string;
 const owner = { id: crypto.randomUUID(), clinicId: crypto.randomUUID() };
+/** Another clinician of the same clinic, and one of another clinic. */
+const colleague = { id: crypto.randomUUID(), clinicId: owner.clinicId };
+const otherClinic = { id: crypto.randomUUID(), clinicId: crypto.randomUUID() };
 
 function sha256(data: Uint8Array): string {
 	return createHash('sha256').update(data).digest('hex');
@@ -109,6 +112,12 @@ beforeAll(async () => {
 		.insert(schema.users)
 		.values({ id: owner.id, email: `${owner.id}@example.test`, name: 'Test clinician' })
 		.run();
+	db().insert(schema.clinics).values({ id: otherClinic.clinicId, name: 'Other clinic' }).run();
+	for (const who of [colleague, otherClinic])
+		db()
+			.insert(schema.users)
+			.values({ id: who.id, email: `${who.id}@example.test`, name: 'Another clinician' })
+			.run();
 	await makeClip(join(dir, 'clip.mp4'), { seconds: 4 });
 	await makeClip(join(dir, 'long.mp4'), { seconds: 30, size: '1280x720' });
 }, 120_000);
@@ -125,15 +134,21 @@ describe('multipart upload through presigned URLs', () => {
 			contentType: 'video/mp4',
 			sizeBytes: bytes.length
 		});
-		expect(session.partSize).toBe(8 * MiB);
-		expect(session.partCount).toBe(3);
+		expect(session.partSize).toBe(5 * MiB);
+		expect(session.partCount).toBe(4);
+		expect(session.resumed).toBe(false);
 
-		await sendThroughPresignedParts(session, bytes, [2, 3]);
+		await sendThroughPresignedParts(session, bytes, [2, 3, 4]);
 		const half = await uploads.uploadState(owner, session.id);
 		expect(half.parts.map((p) => p.partNumber)).toEqual([1]);
 		await sendThroughPresignedParts(session, bytes, [1]);
 		const full = await uploads.uploadState(owner, session.id);
-		expect(full.parts.map((p) => p.size)).toEqual([8 * MiB, 8 * MiB, bytes.length - 16 * MiB]);
+		expect(full.parts.map((p) => p.size)).toEqual([
+			5 * MiB,
+			5 * MiB,
+			5 * MiB,
+			bytes.length - 15 * MiB
+		]);
 
 		const upload = uploads.findUpload(owner, session.id);
 		await multipart.completeMultipartUpload(upload.objectKey, upload.s3UploadId, full.parts);
@@ -151,15 +166,72 @@ describe('multipart upload through presigned URLs', () => {
 		db().delete(schema.uploads).where(eq(schema.uploads.id, session.id)).run();
 	});
 
-	it('chooses parts of at least 8 MiB and never more than 10 000 of them', () => {
-		expect(multipart.choosePartSize(1)).toBe(8 * MiB);
+	it('chooses parts of at least 5 MiB (S3’s minimum) and never more than 10 000 of them', () => {
+		expect(multipart.choosePartSize(1)).toBe(5 * MiB);
 		const size = 2 * 1024 ** 3;
 		const part = multipart.choosePartSize(size);
-		expect(part).toBeGreaterThanOrEqual(8 * MiB);
+		expect(part).toBeGreaterThanOrEqual(5 * MiB);
 		expect(multipart.partCount(size, part)).toBeLessThanOrEqual(10_000);
 		expect(
 			multipart.partCount(200_000 * MiB, multipart.choosePartSize(200_000 * MiB))
 		).toBeLessThanOrEqual(10_000);
+	});
+
+	it('finds the same file’s unfinished upload again — its owner only — and says how much is stored', async () => {
+		const print = 'ab'.repeat(32);
+		const declared = {
+			filename: 'Knee bends.mp4',
+			contentType: 'video/mp4',
+			sizeBytes: 11 * MiB,
+			fingerprint: print
+		};
+		const bytes = new Uint8Array(randomBytes(declared.sizeBytes));
+		const first = await uploads.createUpload(owner, declared);
+		await sendThroughPresignedParts(first, bytes, [2, 3]);
+
+		// The same file chosen again (another browser: only name, size and fingerprint in common).
+		const again = await uploads.createUpload(owner, { ...declared, contentType: '' });
+		expect(again.resumed).toBe(true);
+		expect(again.id).toBe(first.id);
+		expect(again.parts.map((p) => [p.partNumber, p.size])).toEqual([[1, 5 * MiB]]);
+
+		// Anything else is another file: a new upload each time.
+		const others = await Promise.all([
+			uploads.createUpload(owner, { ...declared, fingerprint: 'cd'.repeat(32) }),
+			uploads.createUpload(owner, { ...declared, filename: 'Knee bends (2).mp4' }),
+			uploads.createUpload(owner, { ...declared, sizeBytes: declared.sizeBytes + 1 }),
+			uploads.createUpload(owner, { ...declared, fingerprint: null }),
+			uploads.createUpload(colleague, declared),
+			uploads.createUpload(otherClinic, declared)
+		]);
+		for (const other of others) {
+			expect(other.resumed).toBe(false);
+			expect(other.id).not.toBe(first.id);
+		}
+		// A fingerprint that is not one is not looked up (the endpoint refuses it with a 400).
+		expect((await uploads.createUpload(owner, { ...declared, fingerprint: 'x' })).resumed).toBe(
+			false
+		);
+
+		const listed = await uploads.listOpenUploads(owner);
+		const mine = listed.find((u) => u.id === first.id);
+		expect(mine).toMatchObject({ storedBytes: 5 * MiB, storedParts: 1, sizeBytes: 11 * MiB });
+		// Only the caller's own: not a colleague's, not another clinic's.
+		const colleagues = await uploads.listOpenUploads(colleague);
+		expect(colleagues.map((u) => u.id)).toEqual([others[4].id]);
+		expect(listed.map((u) => u.id)).not.toContain(others[4].id);
+		expect(listed.map((u) => u.id)).not.toContain(others[5].id);
+
+		// Storage forgot it (aborted elsewhere): dropped from the list, and not found again.
+		const upload = uploads.findUpload(owner, first.id);
+		await multipart.abortMultipartUpload(upload.objectKey, upload.s3UploadId);
+		expect((await uploads.listOpenUploads(owner)).map((u) => u.id)).not.toContain(first.id);
+		const fresh = await uploads.createUpload(owner, declared);
+		expect(fresh.resumed).toBe(false);
+
+		for (const who of [owner, colleague, otherClinic])
+			for (const u of await uploads.listOpenUploads(who)) await uploads.abortUpload(who, u.id);
+		expect(db().select().from(schema.uploads).all()).toEqual([]);
 	});
 
 	it('aborts an upload and frees its parts', async () => {

@@ -1,14 +1,37 @@
 /**
  * One file going from the browser straight to storage in parts: the server hands out short-lived
- * presigned part URLs, the browser PUTs slices of the File to them (three at a time), and the
- * server completes and checks the upload. Resumable: the upload id is remembered against the
- * file's name, size and date, so choosing the same file after a reload asks storage which parts
- * it already holds and sends only the rest.
+ * presigned part URLs, the browser PUTs slices of the File to them, and the server completes and
+ * checks the upload.
+ *
+ * - **One part in flight** (5 MiB parts, S3's minimum): storage keeps only whole
+ *   parts, so whatever an interruption cuts off is sent again; with one part at a time that is
+ *   at most one part. The next parts' URLs are signed ahead (four per request), so the link idles
+ *   only for storage's answer between two parts.
+ * - **Waiting for the network**: when the browser says it is offline, or a request gets no answer
+ *   and a small request to the app gets none either, the upload waits — no try is counted — and
+ *   carries on by itself on the `online` event or when a check every 2–15 s gets an answer
+ *   (`navigator.onLine` can say "online" on a network that reaches nothing).
+ * - **Retries** with the network up: back-off from 1 s doubling to at most 30 s, no cap on tries.
+ * - **Resume anywhere**: the server recognises the same file — this person, name, size and a
+ *   SHA-256 of its first and last MiB — and answers the unfinished upload with the parts storage
+ *   holds, so choosing the file again after a reload, or in another browser, sends only the rest.
  */
+import {
+	fileFingerprint,
+	isRetryableStatus,
+	keepSamples,
+	measureSpeed,
+	partRange,
+	planParts,
+	probeDelay,
+	retryDelay,
+	type SpeedSample
+} from '$lib/recordings/upload-plan';
 
 export type UploadPhase =
 	| 'starting'
 	| 'uploading'
+	| 'waiting'
 	| 'paused'
 	| 'checking'
 	| 'done'
@@ -17,60 +40,42 @@ export type UploadPhase =
 
 interface Session {
 	id: string;
+	filename: string;
 	sizeBytes: number;
 	partSize: number;
 	partCount: number;
+	recordingId: string;
+}
+
+interface OpenedSession extends Session {
+	parts: { partNumber: number; size: number }[];
+	resumed: boolean;
 }
 
 interface ApiErrorBody {
 	error?: { message?: string };
 }
 
-const STORE_KEY = 'kinelume.resumable-uploads';
-const PARALLEL_PARTS = 3;
-const MAX_TRIES = 6;
-const SPEED_WINDOW_MS = 8000;
+/** Part URLs asked for at once (each lives ten minutes; one is used per try). */
+const URLS_PER_REQUEST = 4;
+/** A signed URL older than this is not used (they expire after 10 minutes). */
+const URL_FRESH_MS = 8 * 60_000;
+/** A part that moves no byte for this long is given up and tried again. */
+const STALL_MS = 30_000;
+/** The small request that tells whether the app can be reached at all. */
+const PROBE_URL = '/api/ping';
+const PROBE_TIMEOUT_MS = 8000;
+/** How often speed and "time left" are looked at again. */
+const TICK_MS = 1000;
 
-/** Identifies a file across reloads without reading it: name, size and last change. */
-export function fingerprint(file: File): string {
-	return `${file.name}|${file.size}|${file.lastModified}`;
-}
+const OFFLINE_MESSAGE =
+	'No connection. The upload is waiting and carries on by itself when the connection is back; keep this page open.';
 
-function remembered(): Record<string, string> {
-	try {
-		const raw = localStorage.getItem(STORE_KEY);
-		const parsed: unknown = raw ? JSON.parse(raw) : {};
-		return parsed && typeof parsed === 'object' ? (parsed as Record<string, string>) : {};
-	} catch {
-		return {};
-	}
-}
-
-function remember(file: File, uploadId: string | null) {
-	const all = remembered();
-	if (uploadId) all[fingerprint(file)] = uploadId;
-	else delete all[fingerprint(file)];
-	try {
-		localStorage.setItem(STORE_KEY, JSON.stringify(all));
-	} catch {
-		// Private browsing can refuse storage: the upload still works, it just cannot resume.
-	}
-}
-
-/** Forgets a remembered upload by its id (after it was discarded from another place). */
-export function forgetUpload(uploadId: string) {
-	const all = remembered();
-	for (const [key, id] of Object.entries(all)) if (id === uploadId) delete all[key];
-	try {
-		localStorage.setItem(STORE_KEY, JSON.stringify(all));
-	} catch {
-		// Nothing to forget where nothing could be stored.
-	}
-}
-
+/** A request that failed: who answered (or did not: status 0) and a sentence of our own. */
 class HttpError extends Error {
 	constructor(
 		readonly status: number,
+		readonly from: 'server' | 'storage',
 		message: string
 	) {
 		super(message);
@@ -78,62 +83,175 @@ class HttpError extends Error {
 }
 
 async function api<T>(path: string, init?: RequestInit): Promise<T> {
-	const response = await fetch(path, {
-		...init,
-		headers: { 'Content-Type': 'application/json', Accept: 'application/json' }
-	});
+	let response: Response;
+	try {
+		response = await fetch(path, {
+			...init,
+			cache: 'no-store',
+			headers: { 'Content-Type': 'application/json', Accept: 'application/json' }
+		});
+	} catch {
+		if (init?.signal?.aborted) throw init.signal.reason;
+		// The browser's own words ("Failed to fetch", "NetworkError …") are never shown.
+		throw new HttpError(0, 'server', 'Kinelume’s server could not be reached.');
+	}
 	if (!response.ok) {
 		const body = (await response.json().catch(() => ({}))) as ApiErrorBody;
 		throw new HttpError(
 			response.status,
+			'server',
 			body.error?.message ?? `The server answered ${response.status}. Please try again.`
 		);
 	}
-	return response.status === 204 ? (undefined as T) : ((await response.json()) as T);
+	if (response.status === 204) return undefined as T;
+	try {
+		return (await response.json()) as T;
+	} catch {
+		// A login page of a hotel's network, say: not an answer from Kinelume.
+		throw new HttpError(0, 'server', 'Kinelume’s server could not be reached.');
+	}
 }
 
 function wait(ms: number, signal: AbortSignal): Promise<void> {
 	return new Promise((resolve, reject) => {
-		const timer = setTimeout(resolve, ms);
-		signal.addEventListener(
-			'abort',
-			() => {
-				clearTimeout(timer);
-				reject(signal.reason);
-			},
-			{ once: true }
-		);
+		if (signal.aborted) return reject(signal.reason);
+		const done = () => {
+			clearTimeout(timer);
+			signal.removeEventListener('abort', stop);
+		};
+		const timer = setTimeout(() => {
+			done();
+			resolve();
+		}, ms);
+		const stop = () => {
+			done();
+			reject(signal.reason);
+		};
+		signal.addEventListener('abort', stop, { once: true });
 	});
+}
+
+/** Resolves after `ms`, or sooner when the browser says it is online again. */
+function onlineOr(ms: number, signal: AbortSignal): Promise<void> {
+	return new Promise((resolve, reject) => {
+		if (signal.aborted) return reject(signal.reason);
+		const finish = (error?: unknown) => {
+			clearTimeout(timer);
+			window.removeEventListener('online', online);
+			signal.removeEventListener('abort', stop);
+			if (error === undefined) resolve();
+			else reject(error);
+		};
+		const online = () => finish();
+		const stop = () => finish(signal.reason ?? new Error('stopped'));
+		const timer = setTimeout(() => finish(), ms);
+		window.addEventListener('online', online);
+		signal.addEventListener('abort', stop, { once: true });
+	});
+}
+
+/** Whether the app answers at all (any status): the network is up. */
+async function reachable(signal: AbortSignal): Promise<boolean> {
+	if (navigator.onLine === false) return false;
+	const controller = new AbortController();
+	const stop = () => controller.abort();
+	const timer = setTimeout(stop, PROBE_TIMEOUT_MS);
+	signal.addEventListener('abort', stop, { once: true });
+	try {
+		await fetch(PROBE_URL, { cache: 'no-store', signal: controller.signal });
+		return true;
+	} catch {
+		return false;
+	} finally {
+		clearTimeout(timer);
+		signal.removeEventListener('abort', stop);
+	}
 }
 
 function putPart(url: string, body: Blob, signal: AbortSignal, onProgress: (sent: number) => void) {
 	return new Promise<void>((resolve, reject) => {
+		if (signal.aborted) return reject(signal.reason);
 		const xhr = new XMLHttpRequest();
-		xhr.open('PUT', url);
-		xhr.upload.onprogress = (e) => onProgress(e.loaded);
-		xhr.onload = () => {
-			if (xhr.status >= 200 && xhr.status < 300) resolve();
-			else reject(new HttpError(xhr.status, `Storage refused a part (${xhr.status}).`));
+		let settled = false;
+		let stall: ReturnType<typeof setTimeout> | undefined;
+		const settle = (error?: unknown) => {
+			if (settled) return;
+			settled = true;
+			clearTimeout(stall);
+			signal.removeEventListener('abort', abort);
+			if (error === undefined) resolve();
+			else reject(error);
 		};
-		xhr.onerror = () => reject(new HttpError(0, 'The connection dropped.'));
-		xhr.ontimeout = () => reject(new HttpError(0, 'Storage did not answer in time.'));
-		const abort = () => xhr.abort();
+		const watch = () => {
+			clearTimeout(stall);
+			stall = setTimeout(() => {
+				settle(new HttpError(0, 'storage', 'Storage stopped answering.'));
+				xhr.abort();
+			}, STALL_MS);
+		};
+		const abort = () => {
+			settle(signal.reason ?? new Error('stopped'));
+			xhr.abort();
+		};
+		xhr.open('PUT', url);
+		xhr.upload.onprogress = (e) => {
+			watch();
+			onProgress(e.loaded);
+		};
+		xhr.onload = () => {
+			if (xhr.status >= 200 && xhr.status < 300) settle();
+			else settle(new HttpError(xhr.status, 'storage', `Storage refused a part (${xhr.status}).`));
+		};
+		xhr.onerror = () => settle(new HttpError(0, 'storage', 'The connection to storage broke off.'));
+		xhr.onabort = () =>
+			settle(signal.reason ?? new HttpError(0, 'storage', 'The part was stopped.'));
 		signal.addEventListener('abort', abort, { once: true });
-		xhr.onloadend = () => signal.removeEventListener('abort', abort);
+		watch();
 		xhr.send(body);
 	});
+}
+
+/** What a retry's note says, in our words (never the browser's). */
+function retryNote(error: HttpError, doing: string, seconds: number, nextTry: number): string {
+	const what =
+		error.from === 'storage'
+			? error.status === 0
+				? 'The connection to storage broke off'
+				: 'Storage did not take the part'
+			: error.status === 0
+				? 'Kinelume’s server did not answer'
+				: 'Kinelume’s server had a problem';
+	return `${what} while ${doing}. Trying again in ${seconds} s (try ${nextTry}).`;
+}
+
+/** An upload a tab is working on (not finished): that page must not offer to discard it. */
+export interface RunningUpload {
+	uploadId: string | null;
+	filename: string;
+	sizeBytes: number;
+}
+
+export interface UploadTaskEvents {
+	/** The upload has its session (new or found again): the page can list uploads without it. */
+	onsession?: (task: UploadTask) => void;
+	/** The file became a recording, or was refused. */
+	onfinished?: (task: UploadTask) => void;
 }
 
 export class UploadTask {
 	readonly file: File;
 	phase = $state<UploadPhase>('starting');
-	/** Bytes storage holds, counting parts in flight as far as they have gone. */
+	/** Bytes storage holds, counting the part in flight as far as it has gone. */
 	sentBytes = $state(0);
+	/** Measured speed while bytes move; 0 when they do not (nothing is shown then). */
 	bytesPerSecond = $state(0);
 	message = $state<string | null>(null);
 	recordingId = $state<string | null>(null);
-	/** Parts already stored before this page sent anything (a resumed upload). */
+	/** The server's id of this upload, once it has one. */
+	uploadId = $state<string | null>(null);
+	/** Parts (and their bytes) already stored before this page sent anything: a resumed upload. */
 	resumedParts = $state(0);
+	resumedBytes = $state(0);
 	/** Parts this page sent. */
 	partsSent = $state(0);
 
@@ -143,10 +261,10 @@ export class UploadTask {
 	percent = $derived(
 		this.totalBytes > 0 ? Math.min(100, (this.sentBytes / this.totalBytes) * 100) : 0
 	);
+	/** Bytes are moving now: only then are speed and time left shown. */
+	moving = $derived(this.phase === 'uploading' && this.bytesPerSecond > 0);
 	secondsLeft = $derived(
-		this.bytesPerSecond > 0 && this.phase === 'uploading'
-			? (this.totalBytes - this.sentBytes) / this.bytesPerSecond
-			: null
+		this.moving ? (this.totalBytes - this.sentBytes) / this.bytesPerSecond : null
 	);
 
 	#session: Session | null = null;
@@ -155,49 +273,73 @@ export class UploadTask {
 	#done = new Map<number, number>();
 	// eslint-disable-next-line svelte/prefer-svelte-reactivity
 	#inFlight = new Map<number, number>();
+	// eslint-disable-next-line svelte/prefer-svelte-reactivity
+	#urls = new Map<number, { url: string; at: number }>();
 	#controller: AbortController | null = null;
-	#samples: { at: number; bytes: number }[] = [];
-	#onFinished: ((task: UploadTask) => void) | undefined;
+	/** The try under way; going offline aborts it (the task's controller stays). */
+	#attempt: AbortController | null = null;
+	#samples: SpeedSample[] = [];
+	#events: UploadTaskEvents;
 
-	constructor(file: File, onFinished?: (task: UploadTask) => void) {
+	constructor(file: File, events: UploadTaskEvents = {}) {
 		this.file = file;
-		this.#onFinished = onFinished;
+		this.#events = events;
 	}
 
+	/** Running: starting, sending, waiting for the network or being checked. */
 	get active(): boolean {
-		return this.phase === 'starting' || this.phase === 'uploading' || this.phase === 'checking';
+		return (
+			this.phase === 'starting' ||
+			this.phase === 'uploading' ||
+			this.phase === 'waiting' ||
+			this.phase === 'checking'
+		);
 	}
 
 	/** Starts, or continues after a pause or an error. */
 	async start(): Promise<void> {
-		if (this.active && this.#controller) return;
+		if (this.#controller) return;
 		const controller = new AbortController();
 		this.#controller = controller;
+		const signal = controller.signal;
 		this.message = null;
+		this.#resetSpeed();
+		const offline = () => this.#attempt?.abort(new Error('offline'));
+		window.addEventListener('offline', offline);
+		const ticker = setInterval(() => this.#tick(), TICK_MS);
 		try {
 			if (!this.#session) {
 				this.phase = 'starting';
-				this.#session = await this.#openSession();
+				await this.#openSession(signal);
 			}
 			this.phase = 'uploading';
-			await this.#sendMissingParts(controller.signal);
-			await this.#complete(controller.signal);
+			await this.#sendMissingParts(signal);
+			await this.#complete(signal);
 		} catch (error) {
-			if (controller.signal.aborted) return;
+			if (signal.aborted) return;
 			this.#fail(error);
 		} finally {
+			clearInterval(ticker);
+			window.removeEventListener('offline', offline);
 			if (this.#controller === controller) this.#controller = null;
+			// Unless "Continue" already started the next run, nothing is in flight any more.
+			if (this.#controller === null) {
+				this.#inFlight.clear();
+				this.#recount();
+				this.#resetSpeed();
+			}
 		}
 	}
 
 	pause(): void {
-		if (this.phase !== 'uploading' && this.phase !== 'starting') return;
+		if (this.phase !== 'uploading' && this.phase !== 'starting' && this.phase !== 'waiting') return;
 		this.#controller?.abort(new Error('paused'));
 		this.#controller = null;
 		this.#inFlight.clear();
 		this.#recount();
 		this.phase = 'paused';
-		this.bytesPerSecond = 0;
+		this.message = null;
+		this.#resetSpeed();
 	}
 
 	/** Gives the upload up: storage drops its parts. */
@@ -205,149 +347,280 @@ export class UploadTask {
 		this.#controller?.abort(new Error('cancelled'));
 		this.#controller = null;
 		const session = this.#session;
-		remember(this.file, null);
 		this.#session = null;
 		if (session) await api(`/api/uploads/${session.id}`, { method: 'DELETE' }).catch(() => {});
 	}
 
-	async #openSession(): Promise<Session> {
-		const known = remembered()[fingerprint(this.file)];
-		if (known) {
-			try {
-				const state = await api<Session & { parts: { partNumber: number; size: number }[] }>(
-					`/api/uploads/${known}`
-				);
-				if (state.sizeBytes === this.file.size) {
-					for (const p of state.parts) {
-						if (p.size === this.#partLength(state, p.partNumber))
-							this.#done.set(p.partNumber, p.size);
-					}
-					this.resumedParts = this.#done.size;
-					this.#recount();
-					return state;
-				}
-			} catch (error) {
-				if (!(error instanceof HttpError && error.status === 404)) throw error;
+	/**
+	 * Runs one step (a request) until it succeeds: waiting for the network whenever it is down
+	 * (no try counted), trying again after a back-off when the network is up and the failure is
+	 * one that may pass; any other failure is thrown.
+	 */
+	async #retrying<T>(
+		signal: AbortSignal,
+		doing: string,
+		step: (signal: AbortSignal) => Promise<T>
+	): Promise<T> {
+		let attempt = 1;
+		for (;;) {
+			signal.throwIfAborted();
+			if (navigator.onLine === false) {
+				await this.#waitForNetwork(signal);
+				attempt = 1;
 			}
-			remember(this.file, null);
+			const tryController = new AbortController();
+			const stop = () => tryController.abort(signal.reason);
+			signal.addEventListener('abort', stop, { once: true });
+			this.#attempt = tryController;
+			try {
+				return await step(tryController.signal);
+			} catch (error) {
+				if (signal.aborted) throw signal.reason;
+				const wentOffline = tryController.signal.aborted;
+				const noAnswer = wentOffline || (error instanceof HttpError && error.status === 0);
+				if (noAnswer && (wentOffline || !(await reachable(signal)))) {
+					await this.#waitForNetwork(signal);
+					attempt = 1;
+					continue;
+				}
+				if (!(error instanceof HttpError) || !isRetryableStatus(error.status, error.from))
+					throw error;
+				const delay = retryDelay(attempt);
+				this.message = retryNote(error, doing, Math.max(1, Math.round(delay / 1000)), attempt + 1);
+				this.#resetSpeed();
+				await wait(delay, signal);
+				this.message = null;
+				attempt++;
+			} finally {
+				signal.removeEventListener('abort', stop);
+				if (this.#attempt === tryController) this.#attempt = null;
+			}
 		}
-		const session = await api<Session>('/api/uploads', {
-			method: 'POST',
-			body: JSON.stringify({
-				filename: this.file.name,
-				contentType: this.file.type,
-				sizeBytes: this.file.size
-			})
-		});
-		remember(this.file, session.id);
-		return session;
 	}
 
-	#partLength(session: Session, partNumber: number): number {
-		const start = (partNumber - 1) * session.partSize;
-		return Math.max(0, Math.min(session.partSize, session.sizeBytes - start));
+	/** Waits until the browser is online and the app answers; says so meanwhile. */
+	async #waitForNetwork(signal: AbortSignal): Promise<void> {
+		const before = this.phase === 'waiting' ? 'uploading' : this.phase;
+		this.phase = 'waiting';
+		this.message = OFFLINE_MESSAGE;
+		this.#inFlight.clear();
+		this.#recount();
+		this.#resetSpeed();
+		for (let check = 0; ; check++) {
+			await onlineOr(probeDelay(check), signal);
+			if (await reachable(signal)) break;
+		}
+		this.phase = before;
+		this.message = null;
+		this.#resetSpeed();
+	}
+
+	async #openSession(signal: AbortSignal): Promise<void> {
+		// Two small reads of the file; a file that cannot be read fails later, in its own words.
+		const fingerprint = await fileFingerprint(this.file).catch(() => null);
+		const opened = await this.#retrying(signal, 'starting the upload', (s) =>
+			api<OpenedSession>('/api/uploads', {
+				method: 'POST',
+				signal: s,
+				body: JSON.stringify({
+					filename: this.file.name,
+					contentType: this.file.type,
+					sizeBytes: this.file.size,
+					fingerprint
+				})
+			})
+		);
+		const { kept } = planParts(opened, opened.parts);
+		this.#done = kept;
+		this.#urls.clear();
+		this.resumedParts = kept.size;
+		this.resumedBytes = [...kept.values()].reduce((sum, n) => sum + n, 0);
+		this.#session = {
+			id: opened.id,
+			filename: opened.filename,
+			sizeBytes: opened.sizeBytes,
+			partSize: opened.partSize,
+			partCount: opened.partCount,
+			recordingId: opened.recordingId
+		};
+		this.uploadId = opened.id;
+		this.#recount();
+		this.#resetSpeed();
+		this.#events.onsession?.(this);
+	}
+
+	#missing(): number[] {
+		const stored = [...this.#done].map(([partNumber, size]) => ({ partNumber, size }));
+		return planParts(this.#session!, stored).missing;
 	}
 
 	async #sendMissingParts(signal: AbortSignal): Promise<void> {
-		const session = this.#session!;
-		const queue: number[] = [];
-		for (let n = 1; n <= session.partCount; n++) if (!this.#done.has(n)) queue.push(n);
-		const worker = async () => {
-			for (let n = queue.shift(); n !== undefined; n = queue.shift()) {
-				await this.#sendPart(session, n, signal);
-			}
-		};
-		await Promise.all(Array.from({ length: PARALLEL_PARTS }, worker));
+		for (const partNumber of this.#missing()) await this.#sendPart(partNumber, signal);
 	}
 
-	async #sendPart(session: Session, partNumber: number, signal: AbortSignal): Promise<void> {
-		const start = (partNumber - 1) * session.partSize;
-		const slice = this.file.slice(start, start + this.#partLength(session, partNumber));
-		for (let attempt = 1; ; attempt++) {
-			signal.throwIfAborted();
+	/** A fresh signed URL for a part, asking for the next few parts' URLs at once. */
+	async #partUrl(partNumber: number, signal: AbortSignal): Promise<string> {
+		const now = performance.now();
+		const cached = this.#urls.get(partNumber);
+		if (cached && now - cached.at < URL_FRESH_MS) return cached.url;
+		const wanted = this.#missing()
+			.filter((n) => n >= partNumber)
+			.filter((n) => n === partNumber || !this.#urls.has(n))
+			.slice(0, URLS_PER_REQUEST);
+		const { parts } = await api<{ parts: { partNumber: number; url: string }[] }>(
+			`/api/uploads/${this.#session!.id}/parts`,
+			{ method: 'POST', body: JSON.stringify({ partNumbers: wanted }), signal }
+		);
+		for (const p of parts) this.#urls.set(p.partNumber, { url: p.url, at: now });
+		const url = this.#urls.get(partNumber)?.url;
+		if (!url) throw new HttpError(500, 'server', 'The server signed no address for a part.');
+		return url;
+	}
+
+	async #sendPart(partNumber: number, signal: AbortSignal): Promise<void> {
+		const session = this.#session!;
+		const { start, end } = partRange(session.sizeBytes, session.partSize, partNumber);
+		const slice = this.file.slice(start, end);
+		await this.#retrying(signal, `sending part ${partNumber}`, async (attemptSignal) => {
+			const url = await this.#partUrl(partNumber, attemptSignal);
+			// Each URL is used for one try: a retry may come after it expired.
+			this.#urls.delete(partNumber);
 			try {
-				// One URL per try: each lives ten minutes at most, and a retry may come later.
-				const { parts } = await api<{ parts: { partNumber: number; url: string }[] }>(
-					`/api/uploads/${session.id}/parts`,
-					{ method: 'POST', body: JSON.stringify({ partNumbers: [partNumber] }), signal }
-				);
-				await putPart(parts[0].url, slice, signal, (sent) => {
+				await putPart(url, slice, attemptSignal, (sent) => {
 					this.#inFlight.set(partNumber, sent);
 					this.#recount();
 				});
-				this.#inFlight.delete(partNumber);
-				this.#done.set(partNumber, slice.size);
-				this.partsSent++;
-				this.#recount();
-				return;
 			} catch (error) {
 				this.#inFlight.delete(partNumber);
 				this.#recount();
-				if (signal.aborted) throw signal.reason;
-				const retryable =
-					!(error instanceof HttpError) ||
-					error.status === 0 ||
-					error.status >= 500 ||
-					error.status === 403 ||
-					error.status === 408 ||
-					error.status === 429;
-				if (!retryable || attempt >= MAX_TRIES) throw error;
-				this.message = `The connection faltered; trying part ${partNumber} again (try ${attempt + 1} of ${MAX_TRIES}).`;
-				await wait(
-					Math.min(30_000, 1000 * 2 ** (attempt - 1)) * (0.75 + Math.random() * 0.5),
-					signal
-				);
-				this.message = null;
+				throw error;
 			}
-		}
+			this.#inFlight.delete(partNumber);
+			this.#done.set(partNumber, slice.size);
+			this.partsSent++;
+			this.#recount();
+		});
 	}
 
 	async #complete(signal: AbortSignal): Promise<void> {
 		const session = this.#session!;
-		this.phase = 'checking';
-		this.bytesPerSecond = 0;
-		try {
-			const result = await api<{ recordingId: string }>(`/api/uploads/${session.id}/complete`, {
-				method: 'POST',
-				signal
-			});
-			remember(this.file, null);
-			this.recordingId = result.recordingId;
-			this.phase = 'done';
-			this.#onFinished?.(this);
-		} catch (error) {
-			if (error instanceof HttpError && (error.status === 422 || error.status === 404)) {
-				remember(this.file, null);
-				this.#session = null;
-				this.phase = 'refused';
-				this.message = error.message;
-				this.#onFinished?.(this);
+		for (let round = 1; ; round++) {
+			this.phase = 'checking';
+			this.#resetSpeed();
+			try {
+				const result = await this.#retrying(signal, 'checking the video', (s) =>
+					api<{ recordingId: string }>(`/api/uploads/${session.id}/complete`, {
+						method: 'POST',
+						signal: s
+					})
+				);
+				this.#finished(result.recordingId);
 				return;
+			} catch (error) {
+				if (!(error instanceof HttpError) || error.from !== 'server') throw error;
+				if (error.status === 422) return this.#refused(error.message);
+				if (error.status !== 404 && error.status !== 409) throw error;
 			}
+			// 404 or 409: an earlier request may have finished (or still be checking) with its
+			// answer lost on the way, or parts may be missing. Look before doing anything.
+			const where = await this.#whereItStands(signal);
+			if (where === 'done') return this.#finished(session.recordingId);
+			if (where === 'gone')
+				return this.#refused('This upload no longer exists. Please choose the file again.');
+			if (where === 'missing') {
+				this.phase = 'uploading';
+				await this.#sendMissingParts(signal);
+				continue;
+			}
+			this.message = 'The video is still being checked; looking again shortly.';
+			await wait(retryDelay(round), signal);
+			this.message = null;
+		}
+	}
+
+	async #whereItStands(signal: AbortSignal): Promise<'done' | 'gone' | 'checking' | 'missing'> {
+		const session = this.#session!;
+		const recordingExists = () =>
+			this.#retrying(signal, 'checking the video', (s) =>
+				api(`/api/recordings/${session.recordingId}`, { signal: s }).then(
+					() => true,
+					(error: unknown) => {
+						if (error instanceof HttpError && error.status === 404) return false;
+						throw error;
+					}
+				)
+			);
+		if (await recordingExists()) return 'done';
+		try {
+			const state = await this.#retrying(signal, 'checking the video', (s) =>
+				api<OpenedSession>(`/api/uploads/${session.id}`, { signal: s })
+			);
+			const { kept, missing } = planParts(session, state.parts);
+			this.#done = kept;
+			this.#recount();
+			return missing.length > 0 ? 'missing' : 'checking';
+		} catch (error) {
+			if (error instanceof HttpError && error.status === 409) return 'checking';
+			if (error instanceof HttpError && error.status === 404)
+				return (await recordingExists()) ? 'done' : 'gone';
 			throw error;
 		}
 	}
 
+	#finished(recordingId: string) {
+		this.recordingId = recordingId;
+		this.phase = 'done';
+		this.message = null;
+		this.sentBytes = this.totalBytes;
+		this.#events.onfinished?.(this);
+	}
+
+	#refused(message: string) {
+		this.#session = null;
+		this.uploadId = null;
+		this.phase = 'refused';
+		this.message = message;
+		this.#events.onfinished?.(this);
+	}
+
 	#fail(error: unknown) {
 		this.phase = 'failed';
-		this.bytesPerSecond = 0;
+		this.#resetSpeed();
+		if (error instanceof HttpError && error.from === 'server' && error.status === 404) {
+			// Discarded from elsewhere, or expired: Continue starts it again (or finds another).
+			this.#session = null;
+			this.uploadId = null;
+			this.#done.clear();
+			this.#recount();
+			this.message =
+				'This upload was discarded or has expired, so storage no longer holds its parts. Choose “Continue” to send the file again.';
+			return;
+		}
 		this.message =
-			error instanceof Error
+			error instanceof HttpError
 				? `${error.message} Your progress is kept: choose “Continue” to carry on.`
-				: 'The upload stopped. Choose “Continue” to carry on.';
+				: 'The upload stopped. Your progress is kept: choose “Continue” to carry on.';
+	}
+
+	#resetSpeed() {
+		this.#samples = [];
+		this.bytesPerSecond = 0;
+	}
+
+	#tick() {
+		this.bytesPerSecond =
+			this.phase === 'uploading' ? (measureSpeed(this.#samples, performance.now()) ?? 0) : 0;
 	}
 
 	#recount() {
 		let bytes = 0;
 		for (const size of this.#done.values()) bytes += size;
 		for (const sent of this.#inFlight.values()) bytes += sent;
+		if (bytes === this.sentBytes) return;
 		this.sentBytes = bytes;
 		const now = performance.now();
 		this.#samples.push({ at: now, bytes });
-		while (this.#samples.length > 2 && now - this.#samples[0].at > SPEED_WINDOW_MS)
-			this.#samples.shift();
-		const first = this.#samples[0];
-		const seconds = (now - first.at) / 1000;
-		if (seconds > 0.5) this.bytesPerSecond = Math.max(0, (bytes - first.bytes) / seconds);
+		this.#samples = keepSamples(this.#samples, now);
+		this.#tick();
 	}
 }

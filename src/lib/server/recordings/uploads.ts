@@ -1,7 +1,7 @@
 import { mkdtemp, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { and, eq, lt } from 'drizzle-orm';
+import { and, desc, eq, lt } from 'drizzle-orm';
 import { refusalReason, type ProbeResult } from '../../media/validate';
 import { titleFromFilename, uploadType } from '../../recordings/formats';
 import { config } from '../config';
@@ -11,6 +11,7 @@ import { enqueue } from '../jobs/queue';
 import { MediaError, probeFile } from '../media/probe';
 import { deleteObject, headObject } from '../storage';
 import { recordingKeys } from '../storage/keys';
+import { FINGERPRINT_PATTERN } from '../../recordings/upload-plan';
 import {
 	abortMultipartUpload,
 	choosePartSize,
@@ -46,6 +47,22 @@ export interface UploadSession {
 	sizeBytes: number;
 	partSize: number;
 	partCount: number;
+	/** The recording the upload becomes once accepted (so a browser whose answer was lost can look). */
+	recordingId: string;
+}
+
+/** A session with the parts storage already holds; `resumed` when it was found, not started. */
+export interface OpenedUpload extends UploadSession {
+	parts: StoredPart[];
+	resumed: boolean;
+}
+
+/** An unfinished upload for the "Unfinished uploads" panel: how much of it storage holds. */
+export interface OpenUploadView extends UploadSession {
+	/** Bytes in the parts storage holds; null when storage could not be asked just now. */
+	storedBytes: number | null;
+	storedParts: number | null;
+	lastActivityAt: string;
 }
 
 function session(u: Upload): UploadSession {
@@ -54,17 +71,36 @@ function session(u: Upload): UploadSession {
 		filename: u.filename,
 		sizeBytes: u.sizeBytes,
 		partSize: u.partSize,
-		partCount: partCount(u.sizeBytes, u.partSize)
+		partCount: partCount(u.sizeBytes, u.partSize),
+		recordingId: u.recordingId
 	};
 }
 
-/** Starts a multipart upload for a declared file, refusing what could never be a recording. */
-export async function createUpload(
-	owner: Owner,
-	declared: { filename: string; contentType: string; sizeBytes: number }
-): Promise<UploadSession> {
+export interface DeclaredFile {
+	filename: string;
+	contentType: string;
+	sizeBytes: number;
+	/** SHA-256 (hex) of the file's first and last MiB, or null when the browser could not compute it. */
+	fingerprint?: string | null;
+}
+
+/**
+ * Starts a multipart upload for a declared file, refusing what could never be a recording; or,
+ * when the same person already has an unfinished upload of a file with this name, size and
+ * fingerprint (chosen in any browser), carries that one on: its session and the parts storage
+ * holds. An upload storage has already forgotten is dropped and a new one started.
+ */
+export async function createUpload(owner: Owner, declared: DeclaredFile): Promise<OpenedUpload> {
 	const type = uploadType(declared.filename, declared.contentType, declared.sizeBytes);
 	if ('refusal' in type) throw new UploadError(422, type.refusal);
+	const fingerprint =
+		declared.fingerprint && FINGERPRINT_PATTERN.test(declared.fingerprint)
+			? declared.fingerprint
+			: null;
+	if (fingerprint) {
+		const found = await findSameFile(owner, declared.filename, declared.sizeBytes, fingerprint);
+		if (found) return found;
+	}
 	const recordingId = crypto.randomUUID();
 	const objectKey = recordingKeys(owner.clinicId, recordingId).original;
 	const s3UploadId = await createMultipartUpload(objectKey, type.contentType);
@@ -79,11 +115,46 @@ export async function createUpload(
 			filename: declared.filename,
 			contentType: type.contentType,
 			sizeBytes: declared.sizeBytes,
-			partSize: choosePartSize(declared.sizeBytes)
+			partSize: choosePartSize(declared.sizeBytes),
+			fingerprint
 		})
 		.returning()
 		.get();
-	return session(row);
+	return { ...session(row), parts: [], resumed: false };
+}
+
+/** The caller's own unfinished upload of this file (newest first), with its stored parts. */
+async function findSameFile(
+	owner: Owner,
+	filename: string,
+	sizeBytes: number,
+	fingerprint: string
+): Promise<OpenedUpload | null> {
+	const candidates = db()
+		.select()
+		.from(uploads)
+		.where(
+			and(
+				eq(uploads.clinicId, owner.clinicId),
+				eq(uploads.userId, owner.id),
+				eq(uploads.sizeBytes, sizeBytes),
+				eq(uploads.filename, filename),
+				eq(uploads.fingerprint, fingerprint)
+			)
+		)
+		.orderBy(desc(uploads.lastActivityAt))
+		.all();
+	for (const upload of candidates) {
+		if (completing.has(upload.id)) continue;
+		const parts = await listParts(upload.objectKey, upload.s3UploadId);
+		if (parts === null) {
+			db().delete(uploads).where(eq(uploads.id, upload.id)).run();
+			continue;
+		}
+		touch(upload.id);
+		return { ...session(upload), parts, resumed: true };
+	}
+	return null;
 }
 
 /** An upload of the caller's clinic, or a 404 (another clinic's ids are not confirmed). */
@@ -98,26 +169,69 @@ export function findUpload(owner: Owner, uploadId: string): Upload {
 	return row;
 }
 
+/** Uploads this process is completing and checking now (a second request must not do it again). */
+const completing = new Set<string>();
+
 function touch(uploadId: string) {
 	db().update(uploads).set({ lastActivityAt: new Date() }).where(eq(uploads.id, uploadId)).run();
 }
 
-/** The caller's unfinished uploads, so the page can offer to resume them. */
-export function listOpenUploads(owner: Owner): UploadSession[] {
-	return db()
+/** How many unfinished uploads the panel lists (the most recently active). */
+const OPEN_UPLOADS_SHOWN = 20;
+
+/**
+ * The caller's own unfinished uploads, most recently active first, each with how much storage
+ * holds of it (ListParts), so the page can say what choosing the file again would save. One
+ * storage has forgotten (expired) is dropped; when storage cannot be asked, the amount is null.
+ */
+export async function listOpenUploads(owner: Owner): Promise<OpenUploadView[]> {
+	const rows = db()
 		.select()
 		.from(uploads)
 		.where(and(eq(uploads.clinicId, owner.clinicId), eq(uploads.userId, owner.id)))
-		.all()
-		.map(session);
+		.orderBy(desc(uploads.lastActivityAt))
+		.limit(OPEN_UPLOADS_SHOWN)
+		.all();
+	const views = await Promise.all(
+		// One being checked is no longer unfinished (and storage no longer lists it as open).
+		rows
+			.filter((upload) => !completing.has(upload.id))
+			.map(async (upload): Promise<OpenUploadView | null> => {
+				let parts: StoredPart[] | null;
+				try {
+					parts = await listParts(upload.objectKey, upload.s3UploadId);
+				} catch {
+					return {
+						...session(upload),
+						storedBytes: null,
+						storedParts: null,
+						lastActivityAt: upload.lastActivityAt.toISOString()
+					};
+				}
+				if (parts === null) {
+					db().delete(uploads).where(eq(uploads.id, upload.id)).run();
+					return null;
+				}
+				return {
+					...session(upload),
+					storedBytes: parts.reduce((sum, p) => sum + p.size, 0),
+					storedParts: parts.length,
+					lastActivityAt: upload.lastActivityAt.toISOString()
+				};
+			})
+	);
+	return views.filter((v): v is OpenUploadView => v !== null);
 }
 
-/** The session and the parts storage already holds, for resuming after a reload. */
+/** The session and the parts storage already holds, for resuming or checking before completing. */
 export async function uploadState(
 	owner: Owner,
 	uploadId: string
-): Promise<UploadSession & { parts: { partNumber: number; size: number; etag: string }[] }> {
+): Promise<UploadSession & { parts: StoredPart[] }> {
 	const upload = findUpload(owner, uploadId);
+	if (completing.has(upload.id)) {
+		throw new UploadError(409, 'This upload is being checked. Please wait a moment.');
+	}
 	const parts = await listParts(upload.objectKey, upload.s3UploadId);
 	if (parts === null) {
 		db().delete(uploads).where(eq(uploads.id, upload.id)).run();
@@ -223,8 +337,6 @@ export async function completeUpload(owner: Owner, uploadId: string): Promise<Re
 		completing.delete(upload.id);
 	}
 }
-
-const completing = new Set<string>();
 
 async function completeChecked(upload: Upload): Promise<Recording> {
 	const parts = await listParts(upload.objectKey, upload.s3UploadId);

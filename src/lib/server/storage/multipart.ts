@@ -13,9 +13,13 @@ import { getSignedUrl } from '@aws-sdk/s3-request-presigner';
 import { config } from '../config';
 import { bucketName, getObjectStream, storage } from './index';
 
-/** S3's own limits on multipart uploads. */
-export const MAX_PARTS = 10_000;
-export const MIN_PART_SIZE = 8 * 1024 * 1024;
+export {
+	choosePartSize,
+	MAX_PARTS,
+	MIN_PART_SIZE,
+	partBytes,
+	partCount
+} from '../../recordings/upload-plan';
 /** Presigned part URLs live no longer than this (seconds). */
 export const PART_URL_SECONDS = 600;
 
@@ -23,22 +27,6 @@ export interface StoredPart {
 	partNumber: number;
 	etag: string;
 	size: number;
-}
-
-/** The smallest whole-MiB part size of at least 8 MiB that fits `size` bytes in 10 000 parts. */
-export function choosePartSize(size: number): number {
-	const mib = 1024 * 1024;
-	const needed = Math.ceil(size / MAX_PARTS / mib) * mib;
-	return Math.max(MIN_PART_SIZE, needed);
-}
-
-export function partCount(size: number, partSize: number): number {
-	return Math.max(1, Math.ceil(size / partSize));
-}
-
-/** How many bytes part `partNumber` (1-based) of an upload of `size` bytes holds: the last one the rest. */
-export function partBytes(size: number, partSize: number, partNumber: number): number {
-	return Math.max(0, Math.min(partSize, size - (partNumber - 1) * partSize));
 }
 
 export function isNoSuchUpload(error: unknown): boolean {

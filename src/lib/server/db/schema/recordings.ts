@@ -29,10 +29,20 @@ export const uploads = sqliteTable(
 		contentType: text('content_type').notNull(),
 		sizeBytes: integer('size_bytes').notNull(),
 		partSize: integer('part_size').notNull(),
+		/**
+		 * SHA-256 (hex) of the file's first and last MiB, computed by the browser: with the user,
+		 * file name and size it finds this upload again when the same file is chosen in any browser.
+		 * Null for uploads started without one (no Web Crypto), which cannot be found that way.
+		 */
+		fingerprint: text('fingerprint'),
 		createdAt: timestampNow('created_at'),
 		lastActivityAt: timestampNow('last_activity_at')
 	},
-	(u) => [index('upload_clinic').on(u.clinicId), index('upload_activity').on(u.lastActivityAt)]
+	(u) => [
+		index('upload_clinic').on(u.clinicId),
+		index('upload_activity').on(u.lastActivityAt),
+		index('upload_owner_file').on(u.clinicId, u.userId, u.sizeBytes)
+	]
 );
 
 /** Thumbnail strip layout, enough for a timeline to pick the tile for a time. */
