@@ -328,7 +328,9 @@ test('an educator unpublishes and retires: the page answers 404, then 410, and s
 
 	await line.getByRole('checkbox').check();
 	await line.getByRole('button', { name: `Retire ${TITLE}` }).click();
-	await expect(educator.getByText('Retired: its page now says it was retired from the library')).toBeVisible();
+	await expect(
+		educator.getByText('Retired: its page now says it was retired from the library')
+	).toBeVisible();
 	expect(await status(`/library/exercises/${row.slug}`)).toBe(410);
 	expect(await status(`/api/library/versions/${row.versionId}/poster-0.jpg`)).toBe(410);
 	await open(visitor, `/library/exercises/${row.slug}`);
@@ -362,9 +364,7 @@ test('an educator builds a collection in order, with a cover, and publishes it',
 		educator.getByRole('heading', { name: `Morning routine ${RUN}`, level: 1 })
 	).toBeVisible();
 	await expect(educator.getByText('Draft', { exact: true })).toBeVisible();
-	await educator
-		.getByLabel('Introduction', { exact: true })
-		.fill('Do these **slowly**.');
+	await educator.getByLabel('Introduction', { exact: true }).fill('Do these **slowly**.');
 	await educator.getByRole('button', { name: 'Save' }).click();
 	await expect(educator.getByText('Saved.')).toBeVisible();
 

@@ -17,13 +17,9 @@ const work = mkdtempSync(join(fakesDirectory, 'segment-detection-'));
 const ffmpegRuns = join(work, 'ffmpeg-runs');
 const forbiddenRuns = join(work, 'forbidden-runs');
 const wrapper = join(work, 'ffmpeg');
-writeFileSync(
-	wrapper,
-	`#!/bin/sh\necho "$*" >> '${ffmpegRuns}'\nexec '${FFMPEG}' "$@"\n`,
-	{
-		mode: 0o755
-	}
-);
+writeFileSync(wrapper, `#!/bin/sh\necho "$*" >> '${ffmpegRuns}'\nexec '${FFMPEG}' "$@"\n`, {
+	mode: 0o755
+});
 const forbidden = join(work, 'forbidden');
 writeFileSync(forbidden, `#!/bin/sh\necho "$0 $*" >> '${forbiddenRuns}'\nexit 1\n`, {
 	mode: 0o755
@@ -35,7 +31,7 @@ process.env.FFMPEG_PATH = wrapper;
 
 const { db, schema } = await import('$lib/server/db');
 const { and, eq } = await import('drizzle-orm');
-const { startWorker } = await import('$lib/server/jobs/worker');
+const { startWorker } = await import('$lib/server/jobs/sqlite');
 const { HANDLERS } = await import('$lib/server/jobs');
 const { putObject } = await import('$lib/server/storage');
 const { recordingKeys } = await import('$lib/server/storage/keys');
