@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { signingWindow, withStorageOrigin } from './media-urls';
+import { presignMediaUrl, signingWindow, withStorageOrigin } from './media-urls';
 
 describe('signingWindow', () => {
 	it('gives every request of one half-lifetime the same signing instant', () => {
@@ -30,6 +30,37 @@ describe('withStorageOrigin', () => {
 			"default-src 'self'; connect-src 'self'; img-src 'self' data: blob:; media-src 'self' blob:; script-src 'self'; frame-ancestors 'none'";
 		expect(withStorageOrigin(csp, 'https://media.example')).toBe(
 			"default-src 'self'; connect-src 'self' https://media.example; img-src 'self' https://media.example data: blob:; media-src 'self' https://media.example blob:; script-src 'self'; frame-ancestors 'none'"
+		);
+	});
+});
+
+describe('presignMediaUrl', () => {
+	const start = Date.UTC(2026, 11, 5, 9, 0, 0);
+	const sign = (now: number, audience: 'private' | 'public' = 'private') =>
+		presignMediaUrl('clinics/c/recordings/r/rendition.mp4', {
+			contentType: 'video/mp4',
+			audience,
+			now,
+			lifetimeSeconds: 300
+		});
+
+	it('gives one address per window, which storage keeps for the rest of the lifetime', async () => {
+		const first = await sign(start + 1_000);
+		expect(await sign(start + 140_000)).toEqual(first);
+		const next = await sign(start + 150_000);
+		expect(next.url).not.toBe(first.url);
+		const url = new URL(first.url);
+		expect(url.searchParams.get('X-Amz-Date')).toBe('20261205T090000Z');
+		expect(url.searchParams.get('X-Amz-Expires')).toBe('300');
+		expect(url.searchParams.get('response-content-type')).toBe('video/mp4');
+		expect(url.searchParams.get('response-cache-control')).toBe('private, max-age=300');
+		expect(first.expiresAt).toBe(start + 300_000);
+	});
+
+	it('asks storage to let any cache keep public copies for a year', async () => {
+		const url = new URL((await sign(start, 'public')).url);
+		expect(url.searchParams.get('response-cache-control')).toBe(
+			'public, max-age=31536000, immutable'
 		);
 	});
 });

@@ -45,6 +45,11 @@ export function signingWindow(
 	return { signedAt, expiresAt: signedAt + lifetimeSeconds * 1000 };
 }
 
+// Addresses signed in the current window, by what was signed: signing again would give the same
+// address, so a player's many requests cost one signature per file and window.
+const SIGNED_MAX = 2000;
+const signed = new Map<string, MediaUrl>();
+
 /**
  * The storage address of `key` for a browser, with the type and caching storage must answer
  * with (S3's response-content-type and response-cache-control, which are part of the signature).
@@ -59,6 +64,9 @@ export async function presignMediaUrl(
 	}: { contentType: string; audience: MediaAudience; now?: number; lifetimeSeconds?: number }
 ): Promise<MediaUrl> {
 	const { signedAt, expiresAt } = signingWindow(now, lifetimeSeconds);
+	const id = `${audience}\n${contentType}\n${lifetimeSeconds}\n${signedAt}\n${key}`;
+	const known = signed.get(id);
+	if (known) return known;
 	const url = await getSignedUrl(
 		storage(),
 		new GetObjectCommand({
@@ -71,5 +79,12 @@ export async function presignMediaUrl(
 		}),
 		{ expiresIn: lifetimeSeconds, signingDate: new Date(signedAt) }
 	);
-	return { url, expiresAt };
+	const made = { url, expiresAt };
+	if (signed.size >= SIGNED_MAX) {
+		// Entries of earlier windows go first; failing that, the oldest.
+		for (const [old, value] of signed) if (value.expiresAt < expiresAt) signed.delete(old);
+		if (signed.size >= SIGNED_MAX) signed.delete(signed.keys().next().value!);
+	}
+	signed.set(id, made);
+	return made;
 }
