@@ -1,4 +1,5 @@
 import { spawn } from 'node:child_process';
+import fluent, { type FfmpegCommand } from 'fluent-ffmpeg';
 import { accessSync, constants } from 'node:fs';
 import { createRequire } from 'node:module';
 import { setPriority } from 'node:os';
@@ -224,6 +225,28 @@ export function runFfmpeg(args: string[], options: RunOptions = {}): Promise<Run
 	// One of the machine's FFMPEG_MAX_CONCURRENT slots first (slots.ts); the time limit counts
 	// from the start of the run, not the wait.
 	return withMediaSlot(run, { signal: options.signal });
+}
+
+/**
+ * A command written with fluent-ffmpeg's builder: named steps (`seekInput`, `videoFilters`,
+ * `outputOptions`…) instead of a hand-kept argument list. It is only the builder: the command is
+ * run by `runCommand`, i.e. by `runFfmpeg` with every constraint above (whitelist, slots,
+ * priority, timeout, cancellation), never by fluent-ffmpeg's own runner (DEVELOPERS.md, ffmpeg).
+ */
+export function ffmpegCommand(input: string): FfmpegCommand {
+	return fluent(input);
+}
+
+/** The arguments a built command stands for, in ffmpeg's order (inputs, filters, outputs). */
+export function commandArguments(command: FfmpegCommand): string[] {
+	// fluent-ffmpeg lists them with `_getArguments`, the call its own runner makes; the package is
+	// pinned (and no longer changes upstream), so this inner name stays as it is.
+	return (command as unknown as { _getArguments(): string[] })._getArguments();
+}
+
+/** Runs a command built with `ffmpegCommand` through `runFfmpeg`. */
+export function runCommand(command: FfmpegCommand, options: RunOptions = {}): Promise<RunResult> {
+	return runFfmpeg(commandArguments(command), options);
 }
 
 /**

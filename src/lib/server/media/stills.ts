@@ -1,4 +1,4 @@
-import { MediaError, runFfmpeg } from './ffmpeg';
+import { ffmpegCommand, MediaError, runCommand } from './ffmpeg';
 
 export interface StillOptions {
 	/** A video filter for the picture, e.g. a scale that fits a width. */
@@ -20,28 +20,16 @@ export async function grabStill(
 	options: StillOptions
 ): Promise<void> {
 	try {
-		await runFfmpeg(
-			[
-				'-y',
+		await runCommand(
+			ffmpegCommand(input)
 				// Seeking before the input jumps to the keyframe and decodes forward: fast and exact.
-				'-ss',
-				seconds.toFixed(3),
-				'-i',
-				input,
-				'-map',
-				'0:v:0',
-				'-frames:v',
-				'1',
-				'-vf',
-				options.filter,
-				'-q:v',
-				String(options.quality ?? 3),
-				'-f',
-				'image2',
-				'-update',
-				'1',
-				output
-			],
+				.seekInput(seconds.toFixed(3))
+				.videoFilters(options.filter)
+				.outputOptions(['-map', '0:v:0', '-frames:v', '1', '-q:v', String(options.quality ?? 3)])
+				// One picture, written over any earlier one.
+				.outputOptions(['-update', '1'])
+				.format('image2')
+				.output(output),
 			{ signal: options.signal, timeoutSeconds: options.timeoutSeconds }
 		);
 	} catch (error) {
