@@ -16,6 +16,7 @@ import { sessionIsAlive } from '$lib/server/auth/sessions';
 import { config } from '$lib/server/config';
 import { db } from '$lib/server/db';
 import { startBackgroundWork, stopBackgroundWork, workerInApp } from '$lib/server/jobs';
+import { backgroundPlan } from '$lib/server/jobs/engine';
 import { withStorageOrigin } from '$lib/server/storage/media-urls';
 import { storageOrigin } from '$lib/server/storage/multipart';
 import { authHandle } from './auth';
@@ -25,8 +26,10 @@ export function init() {
 	config();
 	db();
 	// In production the worker is `npm run worker`; the demo and the e2e stack set WORKER_IN_APP.
-	if (workerInApp(dev)) {
-		startBackgroundWork();
+	// With BullMQ the app also hands jobs out and writes their outcomes (jobs/engine.ts).
+	const plan = backgroundPlan('app', config().QUEUE_ENGINE, workerInApp(dev));
+	if (plan.worker || plan.dispatcher || plan.upkeep) {
+		startBackgroundWork(plan);
 		// adapter-node emits this on SIGTERM/SIGINT: running jobs go back to the queue at once
 		// instead of waiting for their heartbeat to go stale.
 		process.once('sveltekit:shutdown', () => void stopBackgroundWork());

@@ -20,7 +20,7 @@ const captions = await import('$lib/server/captions');
 const segments = await import('$lib/server/segments');
 const { cutSegmentHandler, SEGMENT_POSTER_COUNT } = await import('$lib/server/segments/job');
 const queue = await import('$lib/server/jobs/queue');
-const { startWorker } = await import('$lib/server/jobs/worker');
+const { startWorker } = await import('$lib/server/jobs/sqlite');
 const { HANDLERS } = await import('$lib/server/jobs');
 const { headObject, putObject, getObjectStream, deleteObject } = await import(
 	'$lib/server/storage'

@@ -24,6 +24,20 @@ describe('readConfig', () => {
 		expect(readConfig({ WORKER_IN_APP: '' }).WORKER_IN_APP).toBeUndefined();
 	});
 
+	it('queues in SQLite unless told to use BullMQ, which needs a Redis address', () => {
+		expect(readConfig({}).QUEUE_ENGINE).toBe('sqlite');
+		expect(() => readConfig({ QUEUE_ENGINE: 'bullmq' })).toThrow(
+			/REDIS_URL is invalid .*when QUEUE_ENGINE is bullmq/
+		);
+		expect(
+			readConfig({ QUEUE_ENGINE: 'bullmq', REDIS_URL: 'redis://10.0.0.5:6379' }).REDIS_URL
+		).toBe('redis://10.0.0.5:6379');
+		expect(() => readConfig({ QUEUE_ENGINE: 'bullmq', REDIS_URL: 'http://10.0.0.5' })).toThrow(
+			/REDIS_URL/
+		);
+		expect(() => readConfig({ QUEUE_ENGINE: 'rabbit' })).toThrow(/QUEUE_ENGINE/);
+	});
+
 	it('keeps the development inbox off unless set, and never lets it on in production', () => {
 		expect(readConfig({}).DEV_INBOX_URL).toBe('');
 		expect(readConfig({ DEV_INBOX_URL: 'http://127.0.0.1:2526' }).DEV_INBOX_URL).toBe(

@@ -67,6 +67,11 @@ const schema = z.object({
 		.max(24 * 30)
 		.default(24),
 	MEDIA_JOB_CONCURRENCY: z.coerce.number().int().min(1).max(16).default(1),
+	// The job queue's engine (jobs/engine.ts): `sqlite`, the job table in the database file, for
+	// one machine; `bullmq`, BullMQ on the Redis server at REDIS_URL, for workers on several
+	// machines that share only Redis and the storage with the app.
+	QUEUE_ENGINE: z.enum(['sqlite', 'bullmq']).default('sqlite'),
+	REDIS_URL: z.union([z.url({ protocol: /^rediss?$/ }), z.literal('')]).default(''),
 	// Whether the app process also runs the job worker. Unset: only under `vite dev`; a production
 	// server leaves the work to `npm run worker` (hooks.server.ts).
 	WORKER_IN_APP: unsetWhenEmpty(bool.optional()),
@@ -127,6 +132,12 @@ export function readConfig(env: Record<string, string | undefined> = process.env
 					path: ['DEV_INBOX_URL'],
 					message:
 						'must be empty when NODE_ENV is production: the development inbox shows sign-in links'
+				});
+			if (c.QUEUE_ENGINE === 'bullmq' && c.REDIS_URL === '')
+				ctx.addIssue({
+					code: 'custom',
+					path: ['REDIS_URL'],
+					message: 'must name the Redis server (redis://host:6379) when QUEUE_ENGINE is bullmq'
 				});
 			if (c.SPEECH_TO_TEXT_URL !== '' && c.SPEECH_TO_TEXT_MODEL === '')
 				ctx.addIssue({

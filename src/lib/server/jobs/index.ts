@@ -5,46 +5,55 @@ import { processRecordingHandler } from '../recordings/process';
 import { startUploadSweep } from '../recordings/uploads';
 import { detectSignalsHandler } from '../segments/detection';
 import { cutSegmentHandler } from '../segments/job';
-import { startWorker, type Worker, type WorkerOptions } from './worker';
-
-let running:
-	| { worker: Worker; stopSweep: () => void; stopDigest: () => void; stopOutbox: () => void }
-	| undefined;
+import { bullmqEngine } from './bullmq';
+import type { BackgroundPlan, Handlers, QueueEngine, Worker, WorkerOptions } from './engine';
+import { sqliteEngine } from './sqlite';
 
 /** Every kind of job this codebase knows how to run. */
-export const HANDLERS: WorkerOptions['handlers'] = {
+export const HANDLERS: Handlers = {
 	'process-recording': processRecordingHandler,
 	'cut-segment': cutSegmentHandler,
 	'detect-signals': detectSignalsHandler
 };
 
-/**
- * Starts this process's media worker, the abandoned-upload sweep, the hourly check for the
- * weekly digest and the mail outbox's retries, once. `npm run worker` calls it; the app's `init` hook only when workerInApp().
- */
-export function startBackgroundWork(options: Partial<WorkerOptions> = {}): Worker {
-	if (running) return running.worker;
-	const worker = startWorker({ handlers: HANDLERS, ...options });
-	const stopSweep = startUploadSweep();
-	const stopDigest = startDigestSchedule();
-	const stopOutbox = startOutboxSchedule();
-	running = { worker, stopSweep, stopDigest, stopOutbox };
-	return worker;
+/** The queue engine QUEUE_ENGINE names (engine.ts). */
+export function queueEngine(): QueueEngine {
+	const { QUEUE_ENGINE, REDIS_URL } = config();
+	return QUEUE_ENGINE === 'bullmq' ? bullmqEngine(REDIS_URL) : sqliteEngine;
 }
 
-/** Wakes this process's worker, if it runs one, so a new job starts without waiting for a poll. */
+let running: { workers: Worker[]; stops: (() => void)[] } | undefined;
+
+/** Starts this process's share of the background work (`backgroundPlan`), once. */
+export function startBackgroundWork(
+	plan: BackgroundPlan,
+	options: Partial<WorkerOptions> = {}
+): void {
+	if (running) return;
+	const engine = queueEngine();
+	const settings = { handlers: HANDLERS, ...options };
+	const dispatcher = plan.dispatcher ? engine.startDispatcher(settings) : null;
+	const workers = [
+		...(dispatcher ? [dispatcher] : []),
+		...(plan.worker ? [engine.startWorker(settings)] : [])
+	];
+	const stops = plan.upkeep
+		? [startUploadSweep(), startDigestSchedule(), startOutboxSchedule()]
+		: [];
+	running = { workers, stops };
+}
+
+/** Wakes this process's worker or dispatcher, if it runs one, so a new job starts without waiting for a poll. */
 export function nudgeWorker(): void {
-	running?.worker.nudge();
+	for (const worker of running?.workers ?? []) worker.nudge();
 }
 
 export async function stopBackgroundWork(): Promise<void> {
 	if (!running) return;
-	const { worker, stopSweep, stopDigest, stopOutbox } = running;
+	const { workers, stops } = running;
 	running = undefined;
-	stopSweep();
-	stopDigest();
-	stopOutbox();
-	await worker.stop();
+	for (const stop of stops) stop();
+	await Promise.all(workers.map((worker) => worker.stop()));
 }
 
 /**

@@ -41,8 +41,25 @@ function processGone(holder: string): boolean {
 	}
 }
 
+/**
+ * Held slots counted in this process instead of the database, for a worker that opens none (a
+ * BullMQ worker on its own machine): there the machine's limit holds when it runs one worker.
+ */
+let inProcess: Set<string> | undefined;
+
+/** Counts this process's ffmpeg runs here from now on, without the database. */
+export function countSlotsInProcess(): void {
+	inProcess ??= new Set();
+}
+
 /** Takes a slot if fewer than `limit` are held; its id, or null when all are taken. */
 function tryTake(limit: number): string | null {
+	if (inProcess) {
+		if (inProcess.size >= limit) return null;
+		const id = crypto.randomUUID();
+		inProcess.add(id);
+		return id;
+	}
 	return db().transaction(
 		(tx) => {
 			const now = new Date();
@@ -98,6 +115,10 @@ export async function withMediaSlot<T>(
 		await pause(pollMs * (0.75 + Math.random() / 2), signal);
 	}
 	const slot = id;
+	if (inProcess) {
+		const held = inProcess;
+		return work().finally(() => held.delete(slot));
+	}
 	const renew = setInterval(() => {
 		try {
 			db()

@@ -5,8 +5,8 @@ import { join } from 'node:path';
 import { eq } from 'drizzle-orm';
 import { config } from '../config';
 import { db } from '../db';
-import { recordings, type Job } from '../db/schema';
-import type { JobContext, JobHandler } from '../jobs/worker';
+import { recordings, type Job, type Recording } from '../db/schema';
+import type { JobContext, JobHandler } from '../jobs/engine';
 import { makePosters, makeRendition, makeSprite, makeWaveform } from '../media/outputs';
 import { deletePrefix, putObject } from '../storage';
 import { recordingKeys } from '../storage/keys';
@@ -46,15 +46,35 @@ async function upload(key: string, path: string, contentType: string) {
 	return size;
 }
 
+/** What a worker needs to process a recording: where its files are and what the upload found. */
+interface ProcessInput {
+	recordingId: string;
+	clinicId: string;
+	durationSeconds: number;
+	frameRate: number | null;
+	hasAudio: boolean;
+}
+
+type ProcessResult = {
+	columns: Pick<Recording, 'renditionSize' | 'posterCount' | 'sprite' | 'waveformKey'>;
+	/** The key prefix everything was stored under. */
+	prefix: string;
+};
+
+function prepareProcessing(job: Job): ProcessInput | null {
+	const recording = db().select().from(recordings).where(eq(recordings.id, job.recordingId)).get();
+	if (!recording) return null;
+	const { id: recordingId, clinicId, durationSeconds, frameRate, hasAudio } = recording;
+	return { recordingId, clinicId, durationSeconds, frameRate, hasAudio };
+}
+
 /**
  * Turns a stored original into what the web and the studio need: rendition, three posters, a
  * thumbnail strip and waveform peaks, each uploaded under the recording's keys. Works in a
- * scratch folder so any process with the database and storage can run it.
+ * scratch folder with the storage only, so a worker on any machine can run it.
  */
-async function processRecording(job: Job, context: JobContext): Promise<void> {
-	const recording = db().select().from(recordings).where(eq(recordings.id, job.recordingId)).get();
-	if (!recording) return;
-	const keys = recordingKeys(recording.clinicId, recording.id);
+async function processRecording(input: ProcessInput, context: JobContext): Promise<ProcessResult> {
+	const keys = recordingKeys(input.clinicId, input.recordingId);
 	const report = stageReporter(context);
 	const { signal } = context;
 	const checkpoint = () => signal.throwIfAborted();
@@ -69,10 +89,10 @@ async function processRecording(job: Job, context: JobContext): Promise<void> {
 
 		report('rendition');
 		const rendition = join(dir, 'rendition.mp4');
-		const durationSeconds = recording.durationSeconds;
+		const { durationSeconds } = input;
 		await makeRendition(original, rendition, {
 			durationSeconds,
-			frameRate: recording.frameRate ?? undefined,
+			frameRate: input.frameRate ?? undefined,
 			signal,
 			onProgress: (fraction: number) => report('rendition', fraction)
 		});
@@ -100,7 +120,7 @@ async function processRecording(job: Job, context: JobContext): Promise<void> {
 
 		report('waveform');
 		let waveformPath: string | null = null;
-		if (recording.hasAudio) {
+		if (input.hasAudio) {
 			const peaks = await makeWaveform(rendition, { hasAudio: true, signal });
 			waveformPath = join(dir, 'waveform.json');
 			await writeFile(waveformPath, JSON.stringify(peaks));
@@ -116,36 +136,42 @@ async function processRecording(job: Job, context: JobContext): Promise<void> {
 		if (waveformPath) await upload(keys.waveform, waveformPath, 'application/json');
 		checkpoint();
 		report('storing', 1);
-
-		const readyAt = new Date();
-		const updated = db().transaction((tx) => {
-			const marked = tx
-				.update(recordings)
-				.set({
-					status: 'ready',
-					renditionSize,
-					posterCount: posters.length,
-					sprite,
-					waveformKey: waveformPath ? keys.waveform : null,
-					failureReason: null,
-					readyAt
-				})
-				.where(eq(recordings.id, recording.id))
-				.run();
-			// The segment detectors' pass over the new rendition, queued with it, so the segments
-			// page finds their result waiting (segments/detection.ts).
-			if (marked.changes > 0) queueDetection({ id: recording.id, readyAt }, tx);
-			return marked;
-		});
-		// Deleted while we worked: its objects went before ours arrived, so remove ours too.
-		if (updated.changes === 0) await deletePrefix(keys.prefix);
+		return {
+			columns: {
+				renditionSize,
+				posterCount: posters.length,
+				sprite,
+				waveformKey: waveformPath ? keys.waveform : null
+			},
+			prefix: keys.prefix
+		};
 	} finally {
 		await rm(dir, { recursive: true, force: true });
 	}
 }
 
-export const processRecordingHandler: JobHandler = {
+/** Marks the recording ready with what processing made, and queues its segment detection. */
+async function applyProcessing(job: Job, result: ProcessResult): Promise<void> {
+	const readyAt = new Date();
+	const updated = db().transaction((tx) => {
+		const marked = tx
+			.update(recordings)
+			.set({ status: 'ready', ...result.columns, failureReason: null, readyAt })
+			.where(eq(recordings.id, job.recordingId))
+			.run();
+		// The segment detectors' pass over the new rendition, queued with it, so the segments
+		// page finds their result waiting (segments/detection.ts).
+		if (marked.changes > 0) queueDetection({ id: job.recordingId, readyAt }, tx);
+		return marked;
+	});
+	// Deleted while we worked: its objects went before ours arrived, so remove ours too.
+	if (updated.changes === 0) await deletePrefix(result.prefix);
+}
+
+export const processRecordingHandler: JobHandler<ProcessInput, ProcessResult> = {
+	prepare: prepareProcessing,
 	run: processRecording,
+	apply: applyProcessing,
 	failed(job, reason) {
 		markFailed(job.recordingId, `Processing failed after ${job.attempts} attempts: ${reason}`);
 	},

@@ -16,7 +16,7 @@ import { config } from '../config';
 import { db } from '../db';
 import { jobs, recordings, recordingSignals, type Job, type Recording } from '../db/schema';
 import * as queue from '../jobs/queue';
-import type { JobContext, JobHandler } from '../jobs/worker';
+import type { JobContext, JobHandler } from '../jobs/engine';
 import { recordingKeys } from '../storage/keys';
 import { downloadToFile } from '../storage/multipart';
 import { detectMediaSignals, signalSettings, type MediaSignals } from './suggest';
@@ -108,54 +108,84 @@ export function forgetSignals(recordingId?: string): void {
 		.run();
 }
 
+/** What a worker needs to measure a rendition: where it is, how long, and which one it is. */
+interface DetectionInput {
+	recordingId: string;
+	clinicId: string;
+	durationSeconds: number;
+	renditionReadyAt: number;
+}
+
 /**
- * The job: downloads the rendition to a scratch folder, runs both detectors and stores what they
- * found. A job whose rendition has since been replaced (or whose recording is gone or no longer
- * ready) has nothing to do: the newer rendition has its own job.
+ * A job whose rendition has since been replaced (or whose recording is gone or no longer ready)
+ * has nothing to do: the newer rendition has its own job.
  */
-async function detectSignals(job: Job, context: JobContext): Promise<void> {
+function prepareDetection(job: Job): DetectionInput | null {
 	const recording = db().select().from(recordings).where(eq(recordings.id, job.recordingId)).get();
 	if (!recording || recording.status !== 'ready' || job.uniqueKey !== detectionKey(recording)) {
-		return;
+		return null;
 	}
+	return {
+		recordingId: recording.id,
+		clinicId: recording.clinicId,
+		durationSeconds: recording.durationSeconds,
+		renditionReadyAt: recording.readyAt?.getTime() ?? 0
+	};
+}
+
+/** The job: downloads the rendition to a scratch folder and runs both detectors over it. */
+async function detectSignals(
+	input: DetectionInput,
+	context: JobContext
+): Promise<MediaSignals & { renditionReadyAt: number }> {
 	const { signal } = context;
 	const dir = await mkdtemp(join(config().MEDIA_WORK_DIR || tmpdir(), 'kinelume-detect-'));
 	try {
 		context.report('downloading', 0);
 		const rendition = join(dir, 'rendition.mp4');
-		const keys = recordingKeys(recording.clinicId, recording.id);
+		const keys = recordingKeys(input.clinicId, input.recordingId);
 		if (!(await downloadToFile(keys.rendition, rendition, signal))) {
 			throw new Error('The web version of this recording is missing from storage.');
 		}
 		signal.throwIfAborted();
 		context.report('detecting', 0.2);
-		const found = await detectMediaSignals(rendition, recording.durationSeconds, { signal });
+		const found = await detectMediaSignals(rendition, input.durationSeconds, { signal });
 		signal.throwIfAborted();
-		const values = {
-			renditionReadyAt: recording.readyAt ?? new Date(0),
-			settings: SIGNAL_SETTINGS,
-			silences: found.silences,
-			sceneChanges: found.sceneChanges,
-			detectedAt: new Date()
-		};
-		db()
-			.insert(recordingSignals)
-			.values({ recordingId: recording.id, ...values })
-			.onConflictDoUpdate({
-				target: recordingSignals.recordingId,
-				set: values,
-				// Never over what a newer rendition's job stored meanwhile.
-				setWhere: lte(recordingSignals.renditionReadyAt, values.renditionReadyAt)
-			})
-			.run();
 		context.report('done', 1);
+		return { ...found, renditionReadyAt: input.renditionReadyAt };
 	} finally {
 		await rm(dir, { recursive: true, force: true });
 	}
 }
 
-export const detectSignalsHandler: JobHandler = {
+/** Stores what the detectors found for the rendition they measured. */
+function storeSignals(job: Job, found: MediaSignals & { renditionReadyAt: number }): void {
+	const values = {
+		renditionReadyAt: new Date(found.renditionReadyAt),
+		settings: SIGNAL_SETTINGS,
+		silences: found.silences,
+		sceneChanges: found.sceneChanges,
+		detectedAt: new Date()
+	};
+	db()
+		.insert(recordingSignals)
+		.values({ recordingId: job.recordingId, ...values })
+		.onConflictDoUpdate({
+			target: recordingSignals.recordingId,
+			set: values,
+			// Never over what a newer rendition's job stored meanwhile.
+			setWhere: lte(recordingSignals.renditionReadyAt, values.renditionReadyAt)
+		})
+		.run();
+}
+
+export const detectSignalsHandler: JobHandler<
+	DetectionInput,
+	MediaSignals & { renditionReadyAt: number }
+> = {
+	prepare: prepareDetection,
 	run: detectSignals,
+	apply: storeSignals,
 	failed(job, reason) {
 		// The suggestions then come from the captions alone and say so; nothing else to mark.
 		console.error(`[segments] detection for recording ${job.recordingId} failed: ${reason}`);

@@ -6,7 +6,7 @@ import { eq } from 'drizzle-orm';
 import { config } from '../config';
 import { db } from '../db';
 import { recordings, segments, type Job } from '../db/schema';
-import type { JobContext, JobHandler } from '../jobs/worker';
+import type { JobContext, JobHandler } from '../jobs/engine';
 import { cutSegment } from '../media/cut';
 import { makePosters } from '../media/outputs';
 import { deleteObject, headObject, presignRead, putObject } from '../storage';
@@ -42,24 +42,52 @@ async function upload(key: string, path: string, contentType: string): Promise<n
 	return size;
 }
 
-/**
- * Cuts one confirmed segment from its recording's rendition: the clip (re-encoded, its length
- * verified to a frame by cutSegment), posters from the clip, both uploaded, and only then the
- * segment marked ready. An attempt that dies anywhere before that last write leaves the segment
- * `cutting` and the job to be tried again; objects an earlier attempt stored are overwritten.
- */
-async function cutSegmentJob(job: Job, context: JobContext): Promise<void> {
+/** What a worker needs to cut a segment: where its recording's files are and the cut's ends. */
+interface CutInput {
+	segmentId: string;
+	recordingId: string;
+	clinicId: string;
+	startSeconds: number;
+	endSeconds: number;
+}
+
+interface CutResult {
+	clipDurationSeconds: number;
+	clipSize: number;
+	posterCount: number;
+	/** What was stored, removed again if the segment went meanwhile. */
+	keys: string[];
+}
+
+function prepareCut(job: Job): CutInput | null {
 	if (!job.segmentId) throw new Error('A cut-segment job needs a segment.');
 	const segment = db().select().from(segments).where(eq(segments.id, job.segmentId)).get();
 	// Deleted with its recording meanwhile, or already made by an attempt that died after the end.
-	if (!segment || segment.status === 'ready') return;
+	if (!segment || segment.status === 'ready') return null;
 	const recording = db()
-		.select()
+		.select({ clinicId: recordings.clinicId })
 		.from(recordings)
 		.where(eq(recordings.id, segment.recordingId))
 		.get();
-	if (!recording) return;
-	const keys = recordingKeys(recording.clinicId, recording.id);
+	if (!recording) return null;
+	const { startSeconds, endSeconds, recordingId } = segment;
+	return {
+		segmentId: segment.id,
+		recordingId,
+		clinicId: recording.clinicId,
+		startSeconds,
+		endSeconds
+	};
+}
+
+/**
+ * Cuts one confirmed segment from its recording's rendition: the clip (re-encoded, its length
+ * verified to a frame by cutSegment) and posters from the clip, both uploaded. Only then does
+ * `applyCut` mark the segment ready: an attempt that dies anywhere before leaves the segment
+ * `cutting` and the job to be tried again; objects an earlier attempt stored are overwritten.
+ */
+async function cutSegmentJob(input: CutInput, context: JobContext): Promise<CutResult> {
+	const keys = recordingKeys(input.clinicId, input.recordingId);
 	const report = stageReporter(context);
 	const { signal } = context;
 	const dir = await mkdtemp(join(config().MEDIA_WORK_DIR || tmpdir(), 'kinelume-cut-'));
@@ -74,8 +102,8 @@ async function cutSegmentJob(job: Job, context: JobContext): Promise<void> {
 		const rendition = await presignRead(keys.rendition, MEDIA_JOB_TIMEOUT_SECONDS + 60);
 		const clip = join(dir, 'segment.mp4');
 		const { durationSeconds } = await cutSegment(rendition, clip, {
-			start: segment.startSeconds,
-			end: segment.endSeconds,
+			start: input.startSeconds,
+			end: input.endSeconds,
 			signal,
 			onProgress: (fraction) => report('cutting', fraction)
 		});
@@ -90,30 +118,37 @@ async function cutSegmentJob(job: Job, context: JobContext): Promise<void> {
 		signal.throwIfAborted();
 
 		report('storing');
-		const clipSize = await upload(keys.segment(segment.id), clip, 'video/mp4');
+		const clipSize = await upload(keys.segment(input.segmentId), clip, 'video/mp4');
+		const stored = [keys.segment(input.segmentId)];
 		for (const [index, path] of posters.entries()) {
-			await upload(keys.segmentPoster(segment.id, index), path, 'image/jpeg');
+			const key = keys.segmentPoster(input.segmentId, index);
+			await upload(key, path, 'image/jpeg');
+			stored.push(key);
 		}
 		signal.throwIfAborted();
 		report('storing', 1);
-
-		const marked = markSegmentReady(segment.id, {
+		return {
 			clipDurationSeconds: durationSeconds,
 			clipSize,
-			posterCount: posters.length
-		});
-		// Deleted with its recording while we worked: its objects went before ours arrived.
-		if (!marked) {
-			await deleteObject(keys.segment(segment.id));
-			for (const index of posters.keys()) await deleteObject(keys.segmentPoster(segment.id, index));
-		}
+			posterCount: posters.length,
+			keys: stored
+		};
 	} finally {
 		await rm(dir, { recursive: true, force: true });
 	}
 }
 
-export const cutSegmentHandler: JobHandler = {
+async function applyCut(job: Job, result: CutResult): Promise<void> {
+	const { keys, ...made } = result;
+	const marked = job.segmentId !== null && markSegmentReady(job.segmentId, made);
+	// Deleted with its recording while we worked: its objects went before ours arrived.
+	if (!marked) for (const key of keys) await deleteObject(key);
+}
+
+export const cutSegmentHandler: JobHandler<CutInput, CutResult> = {
+	prepare: prepareCut,
 	run: cutSegmentJob,
+	apply: applyCut,
 	failed(job, reason) {
 		if (job.segmentId) {
 			markSegmentFailed(

@@ -1,45 +1,17 @@
 import { hostname } from 'node:os';
 import { config } from '../config';
-import type { Job, JobKind } from '../db/schema';
+import type { Job } from '../db/schema';
+import {
+	attempt,
+	describeError,
+	prepare,
+	settle,
+	type JobContext,
+	type QueueEngine,
+	type Worker,
+	type WorkerOptions
+} from './engine';
 import * as queue from './queue';
-
-export interface JobContext {
-	/** Aborted when the job is cancelled or its worker stops; pass it to ffmpeg. */
-	signal: AbortSignal;
-	/** Records the stage and overall progress (0..1); written at the next heartbeat. */
-	report(stage: string, progress: number): void;
-}
-
-export interface JobHandler {
-	run(job: Job, context: JobContext): Promise<void>;
-	/** Called once a job has failed its last attempt, with the reason. */
-	failed?(job: Job, reason: string): void | Promise<void>;
-	cancelled?(job: Job): void | Promise<void>;
-}
-
-export interface WorkerOptions {
-	handlers: Partial<Record<JobKind, JobHandler>>;
-	concurrency?: number;
-	heartbeatSeconds?: number;
-	staleSeconds?: number;
-	retryBaseSeconds?: number;
-	pollMs?: number;
-	workerId?: string;
-	log?: (message: string) => void;
-}
-
-export interface Worker {
-	id: string;
-	/** Wakes the loop now (a job was just queued) instead of at the next poll. */
-	nudge(): void;
-	/** Stops claiming, aborts running jobs and hands them back to the queue. */
-	stop(): Promise<void>;
-}
-
-function describe(error: unknown): string {
-	if (error instanceof Error) return error.message;
-	return String(error);
-}
 
 /**
  * Drains the job table with at most `concurrency` jobs at once. Many workers (in the app and in
@@ -51,7 +23,7 @@ export function startWorker(options: WorkerOptions): Worker {
 	const concurrency = options.concurrency ?? c.MEDIA_JOB_CONCURRENCY;
 	const heartbeatMs = (options.heartbeatSeconds ?? c.JOB_HEARTBEAT_SECONDS) * 1000;
 	const staleSeconds = options.staleSeconds ?? c.JOB_STALE_SECONDS;
-	const retryBase = options.retryBaseSeconds ?? c.JOB_RETRY_BASE_SECONDS;
+	const retryBaseSeconds = options.retryBaseSeconds ?? c.JOB_RETRY_BASE_SECONDS;
 	const pollMs = options.pollMs ?? 1000;
 	const id = options.workerId ?? `${hostname()}:${process.pid}:${crypto.randomUUID().slice(0, 8)}`;
 	const log = options.log ?? ((m: string) => console.log(`[worker ${id}] ${m}`));
@@ -76,7 +48,7 @@ export function startWorker(options: WorkerOptions): Worker {
 					controller.abort(new Error(cancelled ? 'The job was cancelled.' : 'The worker stopped.'));
 				}
 			} catch (error) {
-				log(`heartbeat for ${job.id} failed: ${describe(error)}`);
+				log(`heartbeat for ${job.id} failed: ${describeError(error)}`);
 			}
 		}, heartbeatMs);
 		const context: JobContext = {
@@ -86,25 +58,15 @@ export function startWorker(options: WorkerOptions): Worker {
 			}
 		};
 		try {
-			if (!handler) throw new Error(`No handler for jobs of kind ${job.kind}.`);
-			await handler.run(job, context);
-			if (controller.signal.aborted) throw controller.signal.reason;
-			queue.heartbeat(job.id, id, report);
-			queue.succeed(job.id, id);
-			log(`${job.kind} ${job.id} succeeded (attempt ${job.attempts})`);
-		} catch (error) {
-			if (stopping && controller.signal.aborted) {
-				queue.release(job.id, id);
-			} else if (cancelled) {
-				queue.markCancelled(job.id, id);
-				await handler?.cancelled?.(job);
-				log(`${job.kind} ${job.id} cancelled`);
-			} else {
-				const message = describe(error);
-				const outcome = queue.failAttempt(job, id, message, retryBase);
-				log(`${job.kind} ${job.id} attempt ${job.attempts} failed (${outcome}): ${message}`);
-				if (outcome === 'failed') await handler?.failed?.(job, message);
-			}
+			const prepared = prepare(handler, job);
+			const outcome =
+				'outcome' in prepared
+					? prepared.outcome
+					: await attempt(handler, job.kind, prepared.input, context, () =>
+							cancelled ? 'cancelled' : 'stopped'
+						);
+			if (outcome.status === 'succeeded') queue.heartbeat(job.id, id, report);
+			await settle(job, id, outcome, { handlers: options.handlers, retryBaseSeconds, log });
 		} finally {
 			clearInterval(beat);
 		}
@@ -124,7 +86,7 @@ export function startWorker(options: WorkerOptions): Worker {
 				if (!job) break;
 				const controller = new AbortController();
 				const done = runOne(job, controller)
-					.catch((error: unknown) => log(`job ${job.id}: ${describe(error)}`))
+					.catch((error: unknown) => log(`job ${job.id}: ${describeError(error)}`))
 					.finally(() => {
 						running.delete(job.id);
 						schedule(0);
@@ -132,7 +94,7 @@ export function startWorker(options: WorkerOptions): Worker {
 				running.set(job.id, { controller, done });
 			}
 		} catch (error) {
-			log(`claiming failed: ${describe(error)}`);
+			log(`claiming failed: ${describeError(error)}`);
 		}
 		schedule(pollMs);
 	}
@@ -161,3 +123,10 @@ export function startWorker(options: WorkerOptions): Worker {
 		}
 	};
 }
+
+/** The embedded queue: workers on this machine share the app's SQLite file. */
+export const sqliteEngine: QueueEngine = {
+	name: 'sqlite',
+	startWorker,
+	startDispatcher: () => null
+};

@@ -1,0 +1,21 @@
+/**
+ * A worker of the queue contract test (queue-engines.test.ts) in a process of its own, so the
+ * test can kill it mid-job: ENGINE (sqlite or bullmq) and REDIS_URL choose the queue. It prints
+ * `running <recording id>` when a job starts. Under bullmq its DATABASE_PATH is unusable: a
+ * worker there must not need the database.
+ */
+import { sqliteEngine } from '../../src/lib/server/jobs/sqlite';
+import { bullmqEngine } from '../../src/lib/server/jobs/bullmq';
+import { noteHandler } from './queue-support';
+
+const engine =
+	process.env.ENGINE === 'bullmq' ? bullmqEngine(process.env.REDIS_URL ?? '') : sqliteEngine;
+engine.startWorker({
+	handlers: {
+		'process-recording': noteHandler((input) => console.log(`running ${input.recordingId}`))
+	},
+	heartbeatSeconds: 0.2,
+	staleSeconds: 1,
+	pollMs: 50,
+	log: () => {}
+});
