@@ -283,8 +283,11 @@ function drawHud(v: View, clip: DemoClip, exercise: DemoExercise, index: number,
 	ctx.fillText(`Exercise ${index + 1} of ${clip.exercises.length}`, m, m + px * 1.3);
 	ctx.textBaseline = 'alphabetic';
 
+	// The picture counts the reps it shows, never a total: the dosage is the clinician's, and the
+	// player's counter beside the clip counts against it (a "Rep 1 of 8" here once disagreed with
+	// a prescribed 10).
 	const shown = Math.min(Math.max(rep.index + 1, 0), exercise.reps);
-	const label = rep.index < 0 ? `${exercise.reps} reps` : `Rep ${shown} of ${exercise.reps}`;
+	const label = rep.index < 0 ? 'Demonstration' : `Shown: rep ${shown}`;
 	const ph = pill(ctx, w - m, m, label, px, C.lichenDeep, C.paper, true);
 	if (rep.holding) pill(ctx, w - m, m + ph + px * 0.4, 'Hold', px * 0.9, C.ochre, C.paper, true);
 }

@@ -28,7 +28,7 @@ export interface DemoRenderResult {
 }
 
 // Bump when the drawing or sound changes, so cached clips are rendered again.
-const RENDERER_VERSION = 6;
+const RENDERER_VERSION = 7;
 
 /** Renders one clip to an MP4 at outputPath; resolves with the timing the captions need. */
 export async function renderDemoClip(
