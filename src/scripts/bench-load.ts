@@ -3,7 +3,9 @@
  * the production build with its fakes. Each patient (one keep-alive connection of autocannon)
  * goes round: open Today, open a replay, fetch its captions, read a byte range of the clip, post
  * a session log. It prints requests per second, p50/p95/p99 per route, errors, the app's memory
- * and — the point — logs acknowledged versus logs stored, which must be equal with no errors.
+ * and — the point — logs acknowledged versus logs stored: every acknowledged log must be stored,
+ * with no errors. A log whose answer was still on its way when the run stopped may be stored
+ * without having been acknowledged; those are counted apart.
  *
  * The reference, measured in the same run at the same number of connections: `/robots.txt`, which
  * passes every hook and sends a few bytes (the app's floor on this machine).
@@ -20,6 +22,7 @@ import type { Cookies } from '@sveltejs/kit';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { loadavg } from 'node:os';
+import type { SessionLogResponse } from '../lib/sessions/log';
 import {
 	argValue,
 	buildIfAsked,
@@ -214,7 +217,8 @@ async function main() {
 		console.log(`${PATIENTS} patients for ${SECONDS} s…`);
 		const latencies = new Map<string, number[]>(ROUTES.map(([route]) => [route, []]));
 		const statuses = new Map<string, Map<number, number>>();
-		let acknowledged = 0;
+		/** The client ids of the logs the app answered 201 for. */
+		const acknowledged = new Set<string>();
 		let sentLogs = 0;
 		let nextPatient = 0;
 		let peakRssMb = 0;
@@ -250,8 +254,10 @@ async function main() {
 							})
 						};
 					},
-					onResponse: (status) => {
-						if (status === 201) acknowledged++;
+					onResponse: (status, body) => {
+						if (status === 201) {
+							acknowledged.add((JSON.parse(body) as SessionLogResponse).log.clientId);
+						}
 					}
 				}
 			];
@@ -291,15 +297,19 @@ async function main() {
 		const { peakMb } = memoryOf(pid);
 
 		const sqlite = new Database(process.env.DATABASE_PATH!, { readonly: true });
-		const stored = (
-			sqlite
-				.prepare(
-					`select count(*) as n from session_log l join patient p on p.id = l.patient_id
-					 where p.email like 'load.patient.%'`
-				)
-				.get() as { n: number }
-		).n;
+		const storedIds = new Set(
+			(
+				sqlite
+					.prepare(
+						`select l.client_id as clientId from session_log l join patient p on p.id = l.patient_id
+						 where p.email like 'load.patient.%'`
+					)
+					.all() as { clientId: string }[]
+			).map((row) => row.clientId)
+		);
 		sqlite.close();
+		const lost = [...acknowledged].filter((id) => !storedIds.has(id)).length;
+		const unanswered = [...storedIds].filter((id) => !acknowledged.has(id)).length;
 
 		const refused = [...statuses.entries()].flatMap(([route, counts]) =>
 			[...counts.entries()]
@@ -336,12 +346,12 @@ async function main() {
 				pass: errors === 0
 			},
 			{
-				figure: 'session logs: acknowledged (201) vs stored',
-				measured: `${acknowledged} acknowledged`,
-				reference: `${stored} stored`,
-				result: `${sentLogs} sent`,
-				goal: 'equal',
-				pass: acknowledged === stored && acknowledged > 0
+				figure: 'session logs: acknowledged (201) and stored',
+				measured: `${acknowledged.size} acknowledged, ${lost} of them not stored`,
+				reference: `${storedIds.size} stored`,
+				result: `${sentLogs} sent; ${unanswered} stored, answer cut off at the stop`,
+				goal: 'none lost',
+				pass: lost === 0 && acknowledged.size > 0
 			},
 			{
 				figure: "app's memory (resident), peak during the run",
