@@ -2,7 +2,8 @@ import { mkdir, rm } from 'node:fs/promises';
 import { dirname } from 'node:path';
 import { MediaError, runFfmpeg, STORAGE_URL_WHITELIST } from './ffmpeg';
 import { probeFile } from './probe';
-import { FIRST_PICTURE_AND_SOUND_ARGS, WEB_ENCODING_ARGS, WEB_MP4_MUX_ARGS } from './outputs';
+import type { PlannedVersion } from '$lib/media/ladder';
+import { versionOutputs, type MadeVersion } from './outputs';
 
 export interface CutOptions {
 	/** Seconds into the input where the segment starts. */
@@ -14,6 +15,11 @@ export interface CutOptions {
 	timeoutSeconds?: number;
 	/** Fraction of the segment encoded so far, 0 to 1. */
 	onProgress?: (fraction: number) => void;
+	/**
+	 * The ladder's versions (`planVersions` of the recording's displayed size): the smaller ones
+	 * are cut in the same run beside `output` (`<name>-<short>.mp4`). Without it, only the largest.
+	 */
+	versions?: readonly PlannedVersion[];
 }
 
 // Without a picture to count frames in, one AAC frame at 48 kHz is the finest step there is.
@@ -33,19 +39,34 @@ const FALLBACK_FRAME_SECONDS = 1024 / 48000;
  * 1.72 s, the frame covering 2.3 s being kept). The result is probed, and a length that differs
  * from end − start by more than one frame is an error; the output is removed whenever it fails.
  * `input` is a local path or a presigned URL of our storage, which ffmpeg reads with ranges: only
- * the index and the part being cut cross the network, not the whole rendition.
+ * the index and the part being cut cross the network, not the whole rendition. Every version is
+ * capped by the ladder (src/lib/media/ladder.ts) and keyframed at the same instants.
  */
 export async function cutSegment(
 	input: string,
 	output: string,
 	opts: CutOptions
-): Promise<{ durationSeconds: number }> {
+): Promise<{ durationSeconds: number; smaller: MadeVersion[] }> {
 	const { start, end, signal, timeoutSeconds, onProgress } = opts;
 	if (!(Number.isFinite(start) && Number.isFinite(end) && start >= 0 && end > start)) {
 		throw new RangeError(`A segment needs 0 ≤ start < end; got ${start} to ${end}.`);
 	}
 	const wanted = end - start;
 	let reported = 0;
+	const { args, smaller } = versionOutputs(output, opts.versions, [], ['-t', wanted.toFixed(3)]);
+	const check = async (path: string) => {
+		const probe = await probeFile(path, { signal, timeoutSeconds });
+		const frame = probe.video?.frameRate ? 1 / probe.video.frameRate : FALLBACK_FRAME_SECONDS;
+		// A hair of slack: container durations are rounded to the time base.
+		if (Math.abs(probe.durationSeconds - wanted) > frame + 1e-3) {
+			throw new MediaError(
+				'The segment could not be cut to the length asked for.',
+				'failed',
+				`asked for ${wanted.toFixed(3)} s from ${start.toFixed(3)} s, got ${probe.durationSeconds.toFixed(3)} s (one frame is ${frame.toFixed(3)} s)`
+			);
+		}
+		return probe.durationSeconds;
+	};
 
 	await mkdir(dirname(output), { recursive: true });
 	try {
@@ -57,12 +78,7 @@ export async function cutSegment(
 				...(/^https?:\/\//.test(input) ? ['-protocol_whitelist', STORAGE_URL_WHITELIST] : []),
 				'-i',
 				input,
-				'-t',
-				wanted.toFixed(3),
-				...FIRST_PICTURE_AND_SOUND_ARGS,
-				...WEB_ENCODING_ARGS,
-				...WEB_MP4_MUX_ARGS,
-				output
+				...args
 			],
 			{
 				signal,
@@ -76,20 +92,14 @@ export async function cutSegment(
 					: undefined
 			}
 		);
-		const probe = await probeFile(output, { signal, timeoutSeconds });
-		const frame = probe.video?.frameRate ? 1 / probe.video.frameRate : FALLBACK_FRAME_SECONDS;
-		// A hair of slack: container durations are rounded to the time base.
-		if (Math.abs(probe.durationSeconds - wanted) > frame + 1e-3) {
-			throw new MediaError(
-				'The segment could not be cut to the length asked for.',
-				'failed',
-				`asked for ${wanted.toFixed(3)} s from ${start.toFixed(3)} s, got ${probe.durationSeconds.toFixed(3)} s (one frame is ${frame.toFixed(3)} s)`
-			);
-		}
+		const durationSeconds = await check(output);
+		for (const made of smaller) await check(made.path);
 		onProgress?.(1);
-		return { durationSeconds: probe.durationSeconds };
+		return { durationSeconds, smaller };
 	} catch (error) {
-		await rm(output, { force: true }).catch(() => {});
+		for (const path of [output, ...smaller.map((m) => m.path)]) {
+			await rm(path, { force: true }).catch(() => {});
+		}
 		throw error;
 	}
 }

@@ -1,5 +1,6 @@
 import { mkdir, mkdtemp, readdir, rm, stat } from 'node:fs/promises';
 import { dirname, join } from 'node:path';
+import { TOP_LONG, TOP_SHORT, type PlannedVersion, type Rung } from '$lib/media/ladder';
 import { MediaError, runFfmpeg } from './ffmpeg';
 import { probeFile } from './probe';
 import { grabStill } from './stills';
@@ -12,8 +13,8 @@ export interface JobControl {
 }
 
 /** The web rendition fits this box, turned to match the picture's orientation. */
-const BOX_LONG = 1280;
-const BOX_SHORT = 720;
+const BOX_LONG = TOP_LONG;
+const BOX_SHORT = TOP_SHORT;
 const MAX_FRAME_RATE = 60;
 
 /**
@@ -53,6 +54,23 @@ export interface RenditionOptions extends JobControl {
 	/** The source's frame rate from its probe; read from the file when not given. */
 	frameRate?: number;
 	onProgress?: (fraction: number) => void;
+	/**
+	 * The ladder's versions to make (`planVersions` of the picture's displayed size): the smaller
+	 * ones are written beside `output` as `<name>-<short>.mp4`, in the same ffmpeg run. Without
+	 * it only the largest is made (capped all the same).
+	 */
+	versions?: readonly PlannedVersion[];
+}
+
+/** A smaller version made beside the largest. */
+export interface MadeVersion {
+	short: number;
+	path: string;
+}
+
+/** Where the smaller version `short` of `output` is written: `clip.mp4` → `clip-360.mp4`. */
+export function versionPath(output: string, short: number): string {
+	return output.replace(/(\.mp4)?$/, `-${short}.mp4`);
 }
 
 /**
@@ -111,6 +129,78 @@ export const WEB_ENCODING_ARGS: readonly string[] = [
 	'128k'
 ];
 
+/** The picture and sound streams of input 0 besides the video map (the filter graph gives the picture). */
+const SOUND_AND_NO_METADATA_ARGS: readonly string[] = FIRST_PICTURE_AND_SOUND_ARGS.slice(2);
+
+/**
+ * One version's encoder settings: the web encoding (CRF 23, a keyframe every second at the same
+ * instants in every version, so a player can change version at any second) with the rung's
+ * bitrate cap (a VBV buffer of twice the cap: short peaks allowed, no long ones) and sound rate.
+ */
+export function versionEncodingArgs(rung: Rung): string[] {
+	const args = [...WEB_ENCODING_ARGS];
+	args.splice(args.indexOf('-b:a') + 1, 1, `${rung.audioKbps}k`);
+	return [
+		...args,
+		'-maxrate',
+		`${rung.videoKbps}k`,
+		'-bufsize',
+		`${rung.videoKbps * 2}k`,
+		'-ac',
+		'2'
+	];
+}
+
+/** The largest version's rung when no plan is given: the 720 cap. */
+const TOP_RUNG: PlannedVersion = { short: BOX_SHORT, videoKbps: 2200, audioKbps: 128, top: true };
+
+/** Even long side of the box for a short side (16:9). */
+function boxLong(short: number): number {
+	return Math.round((short * 16) / 9 / 2) * 2;
+}
+
+/**
+ * The ffmpeg arguments for encoding `versions` of input 0 in one run (one decode, one encode per
+ * version): a filter graph splitting the picture (after `pre` filters) into each version's box,
+ * then one MP4 output per version with `perOutput` arguments (such as `-t`) before its settings.
+ * The largest version goes to `output`, the others beside it. Returns the arguments and what the
+ * smaller versions will be.
+ */
+export function versionOutputs(
+	output: string,
+	versions: readonly PlannedVersion[] | undefined,
+	pre: string[],
+	perOutput: string[] = []
+): { args: string[]; smaller: MadeVersion[] } {
+	const plan = versions?.length ? versions : [TOP_RUNG];
+	const labels = plan.map((_, i) => `[v${i}]`);
+	const boxes = plan.map((v) =>
+		v.top ? fitBoxFilter(BOX_LONG, BOX_SHORT) : fitBoxFilter(boxLong(v.short), v.short)
+	);
+	const head = pre.length ? `[0:v:0]${pre.join(',')},` : '[0:v:0]';
+	const graph =
+		plan.length === 1
+			? `${head}${boxes[0]}${labels[0]}`
+			: `${head}split=${plan.length}${plan.map((_, i) => `[s${i}]`).join('')};` +
+				boxes.map((box, i) => `[s${i}]${box}${labels[i]}`).join(';');
+	const args = ['-filter_complex', graph];
+	const smaller: MadeVersion[] = [];
+	for (const [i, version] of plan.entries()) {
+		const path = version.top ? output : versionPath(output, version.short);
+		if (!version.top) smaller.push({ short: version.short, path });
+		args.push(
+			...perOutput,
+			'-map',
+			labels[i],
+			...SOUND_AND_NO_METADATA_ARGS,
+			...versionEncodingArgs(version),
+			...WEB_MP4_MUX_ARGS,
+			path
+		);
+	}
+	return { args, smaller };
+}
+
 /**
  * The web rendition: H.264 (yuv420p) and AAC 128k in MP4 with the index first, fitted into
  * 1280 × 720 turned to the picture's orientation, rotation applied to the pixels, a keyframe
@@ -118,19 +208,21 @@ export const WEB_ENCODING_ARGS: readonly string[] = [
  * kept up to 60. A source without sound gets a rendition without sound: a made-up silent track
  * would make the silence detector report the whole recording as one pause, and the player and
  * waveform handle a missing track. Metadata is dropped (phones store the place of recording).
- * The output file is removed if the run fails.
+ * Capped by the ladder (src/lib/media/ladder.ts); with `opts.versions`, the smaller versions are
+ * made in the same run and returned. The output files are removed if the run fails.
  */
 export async function makeRendition(
 	input: string,
 	output: string,
 	opts: RenditionOptions
-): Promise<void> {
+): Promise<{ smaller: MadeVersion[] }> {
 	const frameRate = opts.frameRate ?? (await probeFile(input, control(opts))).video?.frameRate ?? 0;
 	// Dropping frames before scaling spares the scaler the frames that would be thrown away.
-	const filters = [
-		...(frameRate > MAX_FRAME_RATE ? [`fps=${MAX_FRAME_RATE}`] : []),
-		fitBoxFilter(BOX_LONG, BOX_SHORT)
-	];
+	const { args, smaller } = versionOutputs(
+		output,
+		opts.versions,
+		frameRate > MAX_FRAME_RATE ? [`fps=${MAX_FRAME_RATE}`] : []
+	);
 
 	let reported = 0;
 	const report = (fraction: number) => {
@@ -143,19 +235,7 @@ export async function makeRendition(
 	await mkdir(dirname(output), { recursive: true });
 	try {
 		await runFfmpeg(
-			[
-				'-y',
-				'-i',
-				input,
-				...FIRST_PICTURE_AND_SOUND_ARGS,
-				'-vf',
-				filters.join(','),
-				...WEB_ENCODING_ARGS,
-				'-ac',
-				'2',
-				...WEB_MP4_MUX_ARGS,
-				output
-			],
+			['-y', '-i', input, ...args],
 			{
 				...control(opts),
 				onProgress: opts.onProgress
@@ -170,9 +250,11 @@ export async function makeRendition(
 		);
 	} catch (error) {
 		await removeQuietly(output);
+		for (const made of smaller) await removeQuietly(made.path);
 		throw error;
 	}
 	report(1);
+	return { smaller };
 }
 
 export interface PosterOptions extends JobControl {
