@@ -8,6 +8,7 @@ import {
 	uniqueIndex
 } from 'drizzle-orm/sqlite-core';
 import { timestampNow, uuidPrimaryKey } from './columns';
+import type { StoredVersion } from '../../../media/ladder';
 import {
 	COLLECTION_STATUSES,
 	DECISIONS,
@@ -151,6 +152,8 @@ export const libraryVersions = sqliteTable(
 		posterCount: integer('poster_count').notNull().default(0),
 		clipDurationSeconds: real('clip_duration_seconds'),
 		clipSize: integer('clip_size'),
+		/** The public copies of the clip's smaller versions; null when the clip had none. */
+		clipVersions: text('clip_versions', { mode: 'json' }).$type<StoredVersion[]>(),
 		publishedBy: text('published_by').references(() => users.id, { onDelete: 'set null' }),
 		publishedAt: timestampNow('published_at')
 	},

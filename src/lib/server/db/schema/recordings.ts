@@ -1,5 +1,6 @@
 import { index, integer, real, sqliteTable, text } from 'drizzle-orm/sqlite-core';
 import { timestampNow, uuidPrimaryKey } from './columns';
+import type { StoredVersion } from '../../../media/ladder';
 import { users } from './auth';
 import { clinics } from './clinics';
 
@@ -78,6 +79,8 @@ export const recordings = sqliteTable(
 		rotation: integer('rotation').notNull().default(0),
 		hasAudio: integer('has_audio', { mode: 'boolean' }).notNull().default(false),
 		renditionSize: integer('rendition_size'),
+		/** The rendition's smaller versions (src/lib/media/ladder.ts); null when made before the ladder. */
+		renditionVersions: text('rendition_versions', { mode: 'json' }).$type<StoredVersion[]>(),
 		posterCount: integer('poster_count').notNull().default(0),
 		sprite: text('sprite', { mode: 'json' }).$type<SpriteMeta>(),
 		waveformKey: text('waveform_key'),

@@ -1,6 +1,7 @@
 import { index, integer, real, sqliteTable, text } from 'drizzle-orm/sqlite-core';
 import { timestampNow, uuidPrimaryKey } from './columns';
 import type { Cue } from '../../../captions/types';
+import type { StoredVersion } from '../../../media/ladder';
 import { users } from './auth';
 import { clinics } from './clinics';
 import { recordings } from './recordings';
@@ -32,6 +33,11 @@ export const segments = sqliteTable(
 		/** Length of the cut clip as ffprobe measured it. */
 		clipDurationSeconds: real('clip_duration_seconds'),
 		clipSize: integer('clip_size'),
+		/**
+		 * The clip's smaller versions of the bitrate ladder (src/lib/media/ladder.ts), beside the
+		 * clip itself; null for a clip cut before the ladder, which has only the one.
+		 */
+		clipVersions: text('clip_versions', { mode: 'json' }).$type<StoredVersion[]>(),
 		posterCount: integer('poster_count').notNull().default(0),
 		/** The recording's captions clipped to this segment and shifted to start at zero. */
 		cues: text('cues', { mode: 'json' }).notNull().$type<Cue[]>().default([]),
