@@ -10,7 +10,7 @@ import type {
 	SavedResponse
 } from '../../../routes/api/tracks/[id=id]/versions/+server';
 import { dropDrafts, findDrafts, keepDraft, type Draft } from './drafts';
-import { plainCues, sameCues } from './rows';
+import { plainCues, sameCues } from '$lib/captions/editor/rows';
 
 export type SaveState = 'saved' | 'waiting' | 'saving' | 'failed' | 'conflict';
 

@@ -15,7 +15,7 @@ import { fixAllOfKind } from '$lib/captions/fixes';
 import type { Edge, Edit, Snap } from '$lib/captions/edit';
 import type { Cue } from '$lib/captions/types';
 import { History } from './history.svelte';
-import { withKeys, type KeyedCue } from './rows';
+import { withKeys, type KeyedCue } from '$lib/captions/editor/rows';
 
 export type ProfileId = keyof typeof profiles;
 

@@ -3,7 +3,7 @@ import type { ExerciseInput } from '$lib/exercises/schema';
 import type { ExerciseStatus, MovementType, Position } from '$lib/exercises/vocabulary';
 import { db } from '../db';
 import { exercises, programmeItems, recordings, segments, type Exercise } from '../db/schema';
-import type { SegmentChoice } from '$lib/components/exercises/types';
+import type { SegmentChoice } from '$lib/exercises/segment-choice';
 import type { Principal } from '../auth/principal';
 import { findSegment, listReadySegments, segmentUrls, type ReadySegment } from '../segments';
 
