@@ -25,7 +25,7 @@ import {
 	type OfflineManifest,
 	type SavedFile
 } from '$lib/offline/manifest';
-import { readMessage, type WorkerMessage } from '$lib/offline/messages';
+import { readMessage, savedAddress, type WorkerMessage } from '$lib/offline/messages';
 import { offlinePageResponse } from '$lib/offline/offline-page';
 import { answerFromSaved } from '$lib/offline/range';
 import {
@@ -214,9 +214,14 @@ async function keep(message: Exclude<WorkerMessage, { type: 'forget' }>): Promis
 	const wanted = message.type === 'keep-today' ? message.posters : message.files;
 	for (const url of wanted) {
 		if (opened.generation !== generation) return;
-		const limit = url.endsWith('.mp4') ? OFFLINE_LIMITS.clipBytes : OFFLINE_LIMITS.smallFileBytes;
-		const bytes = await saveFile(opened.cache, url, limit);
-		if (bytes !== null) saved.push({ url, bytes });
+		// A clip's smaller version is kept under the clip's own address, which every version's
+		// request falls back to offline (segmentFile looks up the pathname).
+		const address = savedAddress(url);
+		const limit = address.endsWith('.mp4')
+			? OFFLINE_LIMITS.clipBytes
+			: OFFLINE_LIMITS.smallFileBytes;
+		const bytes = await saveFile(opened.cache, url, address, limit);
+		if (bytes !== null) saved.push({ url: address, bytes });
 	}
 	const change =
 		message.type === 'keep-today'
@@ -238,13 +243,18 @@ async function fetchPage(cache: Cache, pathname: string, key: string): Promise<b
 }
 
 /**
- * Saves the whole file at `url` (at most `limit` bytes) under that address (the app's, whatever
+ * Saves the whole file at `url` (at most `limit` bytes) under `address` (the app's, whatever
  * storage address it redirected to), revalidating a copy already saved by its ETag. Returns the
  * saved size, or null when nothing may be kept: too large, or refused now (signed out, no longer
  * in the programme). An unreachable server keeps the copy as it is.
  */
-async function saveFile(cache: Cache, url: string, limit: number): Promise<number | null> {
-	const old = await cache.match(url);
+async function saveFile(
+	cache: Cache,
+	url: string,
+	address: string,
+	limit: number
+): Promise<number | null> {
+	const old = await cache.match(address);
 	const oldBytes = old ? Number(old.headers.get('Content-Length') ?? 0) : null;
 	const headers = new Headers();
 	const etag = old?.headers.get('ETag');
@@ -274,6 +284,6 @@ async function saveFile(cache: Cache, url: string, limit: number): Promise<numbe
 		const value = response.headers.get(name);
 		if (value) kept.set(name, value);
 	}
-	await cache.put(url, new Response(body, { status: 200, headers: kept }));
+	await cache.put(address, new Response(body, { status: 200, headers: kept }));
 	return body.size;
 }

@@ -36,7 +36,13 @@ async function ffprobeCsv(...args: string[]): Promise<string[]> {
 
 /** The video stream's own bitrate as ffprobe reports it, kbit/s. */
 async function videoKbps(path: string): Promise<number> {
-	const [rate] = await ffprobeCsv('-select_streams', 'v:0', '-show_entries', 'stream=bit_rate', path);
+	const [rate] = await ffprobeCsv(
+		'-select_streams',
+		'v:0',
+		'-show_entries',
+		'stream=bit_rate',
+		path
+	);
 	return Number(rate) / 1000;
 }
 

@@ -104,9 +104,9 @@ describe('the player’s choice by throughput', () => {
 		expect(nextVersion(three, 1, { throughputKbps: 9000, stalledSeconds: 0.2 })).toBe(2);
 		expect(nextVersion(three, 1, { throughputKbps: 1000, stalledSeconds: 0 })).toBe(1);
 		expect(nextVersion(three, 0, { throughputKbps: null, stalledSeconds: 0 })).toBe(0);
-		expect(
-			nextVersion(three, 0, { throughputKbps: 9000, stalledSeconds: 0, saveData: true })
-		).toBe(0);
+		expect(nextVersion(three, 0, { throughputKbps: 9000, stalledSeconds: 0, saveData: true })).toBe(
+			0
+		);
 	});
 
 	it('measures throughput from what was buffered, not from too short a wait', () => {

@@ -1,5 +1,12 @@
 import { describe, expect, it } from 'vitest';
-import { fingerprint, keepMessageFor, readMessage, REPLAY_ROUTE, TODAY_ROUTE } from './messages';
+import {
+	fingerprint,
+	keepMessageFor,
+	readMessage,
+	REPLAY_ROUTE,
+	savedAddress,
+	TODAY_ROUTE
+} from './messages';
 
 const KEY = '0123456789abcdef0123456789abcdef';
 const ITEM = '0b5e7a52-3c1d-4f7e-9a8b-1c2d3e4f5a6b';
@@ -24,6 +31,35 @@ describe('keepMessageFor', () => {
 			item: ITEM,
 			files: [`${base}/clip.mp4`, `${base}/captions.vtt`, `${base}/transcript.json`]
 		});
+	});
+
+	it('names the smallest version of the clip, to be kept under the clip’s own address', () => {
+		const data = {
+			itemId: ITEM,
+			media: {
+				clip: `${base}/clip.mp4`,
+				offlineClip: `${base}/clip.mp4?v=360`,
+				captions: `${base}/captions.vtt`,
+				transcript: null,
+				poster: `${base}/poster-0.jpg`
+			}
+		};
+		expect(keepMessageFor(REPLAY_ROUTE, data, KEY)?.type === 'keep-exercise').toBe(true);
+		expect(keepMessageFor(REPLAY_ROUTE, data, KEY)).toMatchObject({
+			files: [`${base}/clip.mp4?v=360`, `${base}/captions.vtt`, `${base}/poster-0.jpg`]
+		});
+		expect(savedAddress(`${base}/clip.mp4?v=360`)).toBe(`${base}/clip.mp4`);
+		expect(savedAddress(`${base}/captions.vtt`)).toBe(`${base}/captions.vtt`);
+		// Only the clip takes a version, and only a number.
+		expect(
+			readMessage({
+				type: 'keep-exercise',
+				key: KEY,
+				state: 'a',
+				item: ITEM,
+				files: [`${base}/clip.mp4?v=360`, `${base}/captions.vtt?v=360`, `${base}/clip.mp4?v=x`]
+			})
+		).toMatchObject({ files: [`${base}/clip.mp4?v=360`] });
 	});
 
 	it('keeps a replay without video to its page', () => {

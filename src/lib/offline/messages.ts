@@ -16,8 +16,18 @@ export const REPLAY_ROUTE = '/(patient)/replay/[id=id]';
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/;
 const isRecord = (v: unknown): v is Record<string, unknown> => typeof v === 'object' && v !== null;
 const isString = (v: unknown): v is string => typeof v === 'string';
+/** A clip's smaller version (`?v=360`): fetched as such, kept under the clip's own address. */
+const CLIP_VERSION = /\/clip\.mp4\?v=\d{3,4}$/;
+
+/** The address a file is kept under: a clip's version under the clip's own address. */
+export function savedAddress(url: string): string {
+	return CLIP_VERSION.test(url) ? url.slice(0, url.indexOf('?')) : url;
+}
+
 const isSegmentFile = (v: unknown): v is string =>
-	isString(v) && classifyPath(v)?.kind === 'segment-file';
+	isString(v) &&
+	(v === savedAddress(v) || CLIP_VERSION.test(v)) &&
+	classifyPath(savedAddress(v))?.kind === 'segment-file';
 
 /**
  * A short fingerprint of a page's data (FNV-1a over its JSON), so the worker can tell whether its
@@ -58,9 +68,9 @@ export function keepMessageFor(
 	}
 	if (routeId === REPLAY_ROUTE && isString(data.itemId)) {
 		const media = isRecord(data.media) ? data.media : {};
-		const files = [media.clip, media.captions, media.transcript, media.poster].filter(
-			isSegmentFile
-		);
+		// The smallest version of the clip: offline copies are about a tenth of the largest.
+		const clip = media.offlineClip ?? media.clip;
+		const files = [clip, media.captions, media.transcript, media.poster].filter(isSegmentFile);
 		return { type: 'keep-exercise', key, state, item: data.itemId, files };
 	}
 	return null;

@@ -4,6 +4,7 @@
  * public and none reaches a clinic's own keys. Public endpoints stream only those copies.
  */
 import { CopyObjectCommand } from '@aws-sdk/client-s3';
+import { servedVersion, type StoredVersion } from '../../media/ladder';
 import type { LibrarySubmission, LibraryVersion, SegmentRow } from '../db/schema';
 import { bucketName, deletePrefix, headObject, storage } from '../storage';
 import { libraryKeys, recordingKeys } from '../storage/keys';
@@ -11,6 +12,23 @@ import { libraryKeys, recordingKeys } from '../storage/keys';
 export interface CopiedMedia {
 	posterCount: number;
 	clipSize: number;
+	/** The smaller versions copied with the clip; null when it had none. */
+	clipVersions: StoredVersion[] | null;
+}
+
+/** Copies each smaller version that is there; returns those copied (null for none). */
+async function copyVersions(
+	versions: readonly StoredVersion[] | null | undefined,
+	from: (short: number) => string,
+	to: (short: number) => string
+): Promise<StoredVersion[] | null> {
+	const copied: StoredVersion[] = [];
+	for (const version of versions ?? []) {
+		if (!(await headObject(from(version.short)))) continue;
+		await copyObject(from(version.short), to(version.short), 'video/mp4');
+		copied.push(version);
+	}
+	return copied.length ? copied : null;
 }
 
 async function copyObject(from: string, to: string, contentType: string): Promise<void> {
@@ -41,6 +59,11 @@ export async function copySegmentToLibrary(
 		throw new Error(`The clip of segment ${segment.id} is missing from storage.`);
 	}
 	await copyObject(source.segment(segment.id), target.segment(segment.id), 'video/mp4');
+	const clipVersions = await copyVersions(
+		segment.clipVersions,
+		(short) => source.segmentVersion(segment.id, short),
+		(short) => target.segmentVersion(segment.id, short)
+	);
 	let posterCount = 0;
 	for (let index = 0; index < segment.posterCount; index++) {
 		const from = source.segmentPoster(segment.id, index);
@@ -48,7 +71,7 @@ export async function copySegmentToLibrary(
 		await copyObject(from, target.poster(index), 'image/jpeg');
 		posterCount++;
 	}
-	return { posterCount, clipSize: clip.contentLength };
+	return { posterCount, clipSize: clip.contentLength, clipVersions };
 }
 
 /**
@@ -59,7 +82,7 @@ export async function copySegmentToLibrary(
  * approval each deal with one prefix and never with another version's files.
  */
 export async function copyVersionMedia(
-	from: Pick<LibraryVersion, 'id' | 'posterCount' | 'snapshot'>,
+	from: Pick<LibraryVersion, 'id' | 'posterCount' | 'snapshot' | 'clipVersions'>,
 	versionId: string
 ): Promise<CopiedMedia> {
 	const source = libraryKeys(from.id);
@@ -70,6 +93,11 @@ export async function copyVersionMedia(
 		throw new Error(`The public clip of version ${from.id} is missing from storage.`);
 	}
 	await copyObject(source.segment(segmentId), target.segment(segmentId), 'video/mp4');
+	const clipVersions = await copyVersions(
+		from.clipVersions,
+		(short) => source.segmentVersion(segmentId, short),
+		(short) => target.segmentVersion(segmentId, short)
+	);
 	let posterCount = 0;
 	for (let index = 0; index < from.posterCount; index++) {
 		const poster = source.poster(index);
@@ -77,12 +105,22 @@ export async function copyVersionMedia(
 		await copyObject(poster, target.poster(index), 'image/jpeg');
 		posterCount++;
 	}
-	return { posterCount, clipSize: clip.contentLength };
+	return { posterCount, clipSize: clip.contentLength, clipVersions };
 }
 
 /** Removes every copy a version made (a failed approval, or a retired exercise). */
 export async function deleteVersionMedia(versionId: string): Promise<void> {
 	await deletePrefix(libraryKeys(versionId).prefix);
+}
+
+/** The key of a segment's clip, or of its smaller version `short` when that was made. */
+export function segmentClipKey(
+	segment: Pick<SegmentRow, 'id' | 'clinicId' | 'recordingId' | 'clipVersions'>,
+	short: number | null
+): string {
+	const keys = recordingKeys(segment.clinicId, segment.recordingId);
+	const served = servedVersion(short, segment.clipVersions);
+	return served ? keys.segmentVersion(segment.id, served) : keys.segment(segment.id);
 }
 
 export interface StoredAsset {
@@ -92,11 +130,22 @@ export interface StoredAsset {
 
 const POSTER = /^poster-(\d{1,2})\.jpg$/;
 
-/** The public copy an asset name of a published version stands for; null for no such asset. */
-export function versionAsset(version: LibraryVersion, asset: string): StoredAsset | null {
+/**
+ * The public copy an asset name of a published version stands for; null for no such asset.
+ * `short` asks for a smaller version of the clip (the clip itself when it has none of that size).
+ */
+export function versionAsset(
+	version: LibraryVersion,
+	asset: string,
+	short: number | null = null
+): StoredAsset | null {
 	const keys = libraryKeys(version.id);
-	if (asset === 'clip.mp4')
-		return { key: keys.segment(version.snapshot.segment.id), type: 'video/mp4' };
+	if (asset === 'clip.mp4') {
+		const segmentId = version.snapshot.segment.id;
+		const served = servedVersion(short, version.clipVersions);
+		const key = served ? keys.segmentVersion(segmentId, served) : keys.segment(segmentId);
+		return { key, type: 'video/mp4' };
+	}
 	const poster = POSTER.exec(asset);
 	if (poster && Number(poster[1]) < version.posterCount) {
 		return { key: keys.poster(Number(poster[1])), type: 'image/jpeg' };
@@ -112,14 +161,15 @@ export function versionAsset(version: LibraryVersion, asset: string): StoredAsse
 export function submissionAsset(
 	submission: LibrarySubmission,
 	segment: SegmentRow | null,
-	asset: string
+	asset: string,
+	short: number | null = null
 ): StoredAsset | null {
 	if (submission.kind === 'captions') return null;
 	if (!segment || segment.id !== submission.segmentId || segment.clinicId !== submission.clinicId) {
 		return null;
 	}
 	const keys = recordingKeys(segment.clinicId, segment.recordingId);
-	if (asset === 'clip.mp4') return { key: keys.segment(segment.id), type: 'video/mp4' };
+	if (asset === 'clip.mp4') return { key: segmentClipKey(segment, short), type: 'video/mp4' };
 	const poster = POSTER.exec(asset);
 	if (poster && Number(poster[1]) < segment.posterCount) {
 		return { key: keys.segmentPoster(segment.id, Number(poster[1])), type: 'image/jpeg' };

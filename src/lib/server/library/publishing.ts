@@ -229,7 +229,7 @@ function publishVersion(
 	comment: string,
 	judgement: string[],
 	checklist: Checklist,
-	media: { posterCount: number; clipSize: number }
+	media: CopiedMedia
 ): { version: LibraryVersion; entry: LibraryExercise } {
 	return db().transaction(
 		(tx) => {
@@ -295,6 +295,7 @@ function publishVersion(
 					posterCount: media.posterCount,
 					clipDurationSeconds: snapshot.segment.durationSeconds,
 					clipSize: media.clipSize,
+					clipVersions: media.clipVersions,
 					publishedBy: reviewer.id
 				})
 				.returning()

@@ -17,7 +17,7 @@ import {
 	type LibraryVersion,
 	type SegmentRow
 } from '../db/schema';
-import { redirectToObject } from '../recordings/media';
+import { redirectToObject, versionAsked } from '../recordings/media';
 import { eq } from 'drizzle-orm';
 import { submissionAsset, versionAsset } from './media';
 import { findPublicVersion } from './public';
@@ -56,7 +56,9 @@ export async function servePublicAsset(
 ): Promise<Response> {
 	const version = publicVersionOr(id);
 	if (version instanceof Response) return version;
-	const stored = versionAsset(version, asset);
+	const short = versionAsked(request);
+	if (short instanceof Response) return short;
+	const stored = versionAsset(version, asset, short);
 	if (!stored) return apiError(404, 'Not found.');
 	const response = await redirectToObject(request, stored.key, stored.type, 'public');
 	return request.method === 'HEAD' ? withCache(response, PUBLIC_MEDIA_CACHE) : response;
@@ -114,6 +116,8 @@ export async function serveSubmissionAsset(
 	const found = educatorSubmission(id);
 	if (found instanceof Response) return found;
 	const { submission } = found;
+	const short = versionAsked(request);
+	if (short instanceof Response) return short;
 	const revised =
 		submission.kind === 'captions' && submission.revisesVersionId
 			? db()
@@ -123,8 +127,8 @@ export async function serveSubmissionAsset(
 					.get()
 			: undefined;
 	const stored = revised
-		? versionAsset(revised, asset)
-		: submissionAsset(submission, found.segment, asset);
+		? versionAsset(revised, asset, short)
+		: submissionAsset(submission, found.segment, asset, short);
 	if (!stored) return apiError(404, 'Not found.');
 	return redirectToObject(request, stored.key, stored.type);
 }

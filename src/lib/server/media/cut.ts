@@ -2,7 +2,7 @@ import { mkdir, rm } from 'node:fs/promises';
 import { dirname } from 'node:path';
 import { MediaError, runFfmpeg, STORAGE_URL_WHITELIST } from './ffmpeg';
 import { probeFile } from './probe';
-import type { PlannedVersion } from '$lib/media/ladder';
+import type { PlannedVersion } from '../../media/ladder';
 import { versionOutputs, type MadeVersion } from './outputs';
 
 export interface CutOptions {

@@ -1,6 +1,6 @@
 import { mkdir, mkdtemp, readdir, rm, stat } from 'node:fs/promises';
 import { dirname, join } from 'node:path';
-import { TOP_LONG, TOP_SHORT, type PlannedVersion, type Rung } from '$lib/media/ladder';
+import { TOP_LONG, TOP_SHORT, type PlannedVersion, type Rung } from '../../media/ladder';
 import { MediaError, runFfmpeg } from './ffmpeg';
 import { probeFile } from './probe';
 import { grabStill } from './stills';
@@ -234,20 +234,17 @@ export async function makeRendition(
 
 	await mkdir(dirname(output), { recursive: true });
 	try {
-		await runFfmpeg(
-			['-y', '-i', input, ...args],
-			{
-				...control(opts),
-				onProgress: opts.onProgress
-					? ({ outTimeSeconds }) => {
-							if (opts.durationSeconds > 0) {
-								// 1 is kept for "finished", which the faststart rewrite still stands between.
-								report(Math.min(0.99, outTimeSeconds / opts.durationSeconds));
-							}
+		await runFfmpeg(['-y', '-i', input, ...args], {
+			...control(opts),
+			onProgress: opts.onProgress
+				? ({ outTimeSeconds }) => {
+						if (opts.durationSeconds > 0) {
+							// 1 is kept for "finished", which the faststart rewrite still stands between.
+							report(Math.min(0.99, outTimeSeconds / opts.durationSeconds));
 						}
-					: undefined
-			}
-		);
+					}
+				: undefined
+		});
 	} catch (error) {
 		await removeQuietly(output);
 		for (const made of smaller) await removeQuietly(made.path);

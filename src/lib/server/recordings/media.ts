@@ -6,6 +6,20 @@ import { bucketName, headObject, storage, type ObjectInfo } from '../storage';
 import { recordingKeys } from '../storage/keys';
 import { config } from '../config';
 import { presignMediaUrl, signingWindow, type MediaAudience } from '../storage/media-urls';
+import { parseVersionParam, servedVersion } from '../../media/ladder';
+import { apiError } from '../api';
+
+/**
+ * The ladder version a media request asks for (`?v=360`), null for the largest, or a 400 answer
+ * for a value that is not one of the ladder's sizes.
+ */
+export function versionAsked(request: Request): number | null | Response {
+	const asked = parseVersionParam(new URL(request.url).searchParams.get('v'));
+	if (asked === 'invalid') {
+		return apiError(400, 'Unknown version: ask for ?v=360 or ?v=540, or none for the largest.');
+	}
+	return asked;
+}
 
 // A player asks for many ranges of one file; remembering its size and tag saves a HEAD per range.
 // Every GET carries If-Match with the remembered tag, so a replaced object is noticed, not served.
@@ -61,10 +75,14 @@ function pullStream(body: Readable): ReadableStream<Uint8Array> {
 /** The stored asset an `[asset]` name stands for, with its type; null for an unknown name. */
 export function assetKey(
 	recording: Recording,
-	asset: string
+	asset: string,
+	short: number | null = null
 ): { key: string; type: string } | null {
 	const keys = recordingKeys(recording.clinicId, recording.id);
-	if (asset === 'rendition.mp4') return { key: keys.rendition, type: 'video/mp4' };
+	if (asset === 'rendition.mp4') {
+		const served = servedVersion(short, recording.renditionVersions);
+		return { key: served ? keys.renditionVersion(served) : keys.rendition, type: 'video/mp4' };
+	}
 	if (asset === 'sprite.jpg') return { key: keys.sprite, type: 'image/jpeg' };
 	if (asset === 'waveform.json') return { key: keys.waveform, type: 'application/json' };
 	const poster = /^poster-(\d{1,2})\.jpg$/.exec(asset);

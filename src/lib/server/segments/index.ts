@@ -16,6 +16,7 @@ import { plainText } from '$lib/captions/text';
 import type { Cue } from '$lib/captions/types';
 import { serializeVtt } from '$lib/captions/vtt';
 import { planProblems, type PlannedSegment } from '$lib/segments/plan';
+import type { StoredVersion } from '$lib/media/ladder';
 import { createTrack, firstCaptionsTrack, getVersion, saveVersion } from '../captions';
 import { db } from '../db';
 import {
@@ -475,7 +476,8 @@ async function deleteSegmentFiles(recording: Recording, segmentIds: readonly str
 	for (const id of segmentIds) {
 		try {
 			await deleteObject(keys.segment(id));
-			await deletePrefix(keys.segmentPoster(id, 0).replace(/[^/]+$/, ''));
+			// Its posters and the clip's smaller versions.
+			await deletePrefix(keys.segmentFolder(id));
 		} catch (error) {
 			console.error(`[segments] the files of removed segment ${id} could not be deleted:`, error);
 		}
@@ -574,7 +576,12 @@ export function markSegmentFailed(segmentId: string, reason: string): void {
 /** Marks a segment ready, last, once its clip and posters are stored; false if it was gone. */
 export function markSegmentReady(
 	segmentId: string,
-	result: { clipDurationSeconds: number; clipSize: number; posterCount: number }
+	result: {
+		clipDurationSeconds: number;
+		clipSize: number;
+		posterCount: number;
+		clipVersions?: StoredVersion[] | null;
+	}
 ): boolean {
 	const updated = db()
 		.update(segments)

@@ -3,6 +3,7 @@
  * logs, safety acknowledgements and the caption look. Every function takes the patient's own
  * record (found from the session, never from a URL), so another patient's ids match nothing.
  */
+import { playerVersions } from '$lib/media/ladder';
 import { formatDay } from '$lib/format/dates';
 import { howToMove, type HowToMove } from '$lib/sessions/how-to-move';
 import { and, desc, eq, gte, inArray, isNotNull, lte } from 'drizzle-orm';
@@ -78,10 +79,25 @@ export function clipShape(segment: Pick<SegmentRow, 'recordingId'>): {
 }
 
 /** The media of a segment, through the segment endpoints (which check the viewer themselves). */
-export function segmentMedia(segment: Pick<SegmentRow, 'id' | 'posterCount'>) {
+export function segmentMedia(
+	segment: Pick<
+		SegmentRow,
+		'id' | 'posterCount' | 'clipSize' | 'clipVersions' | 'clipDurationSeconds'
+	>
+) {
 	const base = `/api/segments/${segment.id}`;
+	const versions = playerVersions(
+		`${base}/clip.mp4`,
+		{ short: null, size: segment.clipSize },
+		segment.clipVersions,
+		segment.clipDurationSeconds
+	);
 	return {
 		clip: `${base}/clip.mp4`,
+		/** Smallest first (the ladder); one for a clip cut before it. */
+		versions,
+		/** What a phone keeps for offline replay: the smallest version. */
+		offlineClip: versions[0].src,
 		captions: `${base}/captions.vtt`,
 		transcript: `${base}/transcript.json`,
 		poster: segment.posterCount > 0 ? `${base}/poster-0.jpg` : null

@@ -15,6 +15,18 @@ describe('storage keys', () => {
 		expect(clinicPrefix('c-1')).toBe('clinics/c-1/');
 	});
 
+	it('puts the smaller versions beside the rendition and in the segment’s folder', () => {
+		const keys = recordingKeys('c-1', 'r_2');
+		expect(keys.renditionVersion(360)).toBe('clinics/c-1/recordings/r_2/rendition-360.mp4');
+		expect(keys.segmentVersion('s3', 540)).toBe(
+			'clinics/c-1/recordings/r_2/segments/s3/clip-540.mp4'
+		);
+		expect(keys.segmentFolder('s3')).toBe('clinics/c-1/recordings/r_2/segments/s3/');
+		expect(libraryKeys('v1').segmentVersion('a', 360)).toBe('library/v1/segments/a/clip-360.mp4');
+		expect(() => keys.renditionVersion(361)).toThrow(/Invalid version/);
+		expect(() => keys.segmentVersion('s3', NaN)).toThrow(/Invalid version/);
+	});
+
 	it('lays out a published library version', () => {
 		const keys = libraryKeys('v2024.1');
 		expect(keys.prefix).toBe('library/v2024.1/');

@@ -3,13 +3,17 @@
  * unchecked: a `/` or `..` inside an id would let one clinic's key point into another's.
  *
  *   clinics/<clinic>/recordings/<recording>/original
- *   clinics/<clinic>/recordings/<recording>/rendition.mp4
+ *   clinics/<clinic>/recordings/<recording>/rendition.mp4, rendition-<short>.mp4 (smaller versions)
  *   clinics/<clinic>/recordings/<recording>/posters/<n>.jpg
  *   clinics/<clinic>/recordings/<recording>/sprite.jpg, waveform.json   (the studio's timeline)
  *   clinics/<clinic>/recordings/<recording>/segments/<segment>.mp4
  *   clinics/<clinic>/recordings/<recording>/segments/<segment>/posters/<n>.jpg
- *   library/<published-version>/rendition.mp4, posters/<n>.jpg, segments/<segment>.mp4
+ *   clinics/<clinic>/recordings/<recording>/segments/<segment>/clip-<short>.mp4 (smaller versions)
+ *   library/<published-version>/rendition.mp4, posters/<n>.jpg, segments/<segment>.mp4,
+ *     segments/<segment>/clip-<short>.mp4
  */
+
+import { LADDER } from '../../media/ladder';
 
 const ID_PATTERN = /^[A-Za-z0-9][A-Za-z0-9._-]{0,127}$/;
 
@@ -32,6 +36,12 @@ export interface MediaKeys {
 	poster(index: number): string;
 	segment(segmentId: string): string;
 	segmentPoster(segmentId: string, index: number): string;
+	/** A smaller version of the rendition (the ladder's short side). */
+	renditionVersion(short: number): string;
+	/** A smaller version of a segment's clip. */
+	segmentVersion(segmentId: string, short: number): string;
+	/** Ends with `/`: the segment's posters and smaller versions. */
+	segmentFolder(segmentId: string): string;
 }
 
 export interface RecordingKeys extends MediaKeys {
@@ -43,6 +53,13 @@ function posterIndex(index: number): number {
 		throw new Error(`Invalid poster index for a storage key: ${index}.`);
 	}
 	return index;
+}
+
+function versionShort(short: number): number {
+	if (!LADDER.some((rung) => rung.short === short)) {
+		throw new Error(`Invalid version for a storage key: ${short}.`);
+	}
+	return short;
 }
 
 function mediaKeys(prefix: string): MediaKeys {
@@ -59,6 +76,15 @@ function mediaKeys(prefix: string): MediaKeys {
 		},
 		segmentPoster(segmentId, index) {
 			return `${prefix}segments/${keySegment(segmentId, 'segment id')}/posters/${posterIndex(index)}.jpg`;
+		},
+		renditionVersion(short) {
+			return `${prefix}rendition-${versionShort(short)}.mp4`;
+		},
+		segmentVersion(segmentId, short) {
+			return `${prefix}segments/${keySegment(segmentId, 'segment id')}/clip-${versionShort(short)}.mp4`;
+		},
+		segmentFolder(segmentId) {
+			return `${prefix}segments/${keySegment(segmentId, 'segment id')}/`;
 		}
 	};
 }

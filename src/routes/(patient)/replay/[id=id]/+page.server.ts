@@ -17,6 +17,7 @@ import {
 	transcriptLines
 } from '$lib/server/sessions';
 import { requirePatient } from '$lib/server/sessions/guard';
+import { storageOrigin } from '$lib/server/storage/multipart';
 import type { Actions, PageServerLoad } from './$types';
 
 /** The patient's own exercise by programme item id; any other id is a 404, as if it did not exist. */
@@ -53,6 +54,7 @@ export const load: PageServerLoad = ({ params }) => {
 		// An exercise without notes of its own has nothing to acknowledge; the standing caution stays.
 		acknowledged: !safetyHtml || hasAcknowledged(patient.id, exercise.id),
 		media: ready && segment ? segmentMedia(segment) : null,
+		storageOrigin: storageOrigin(),
 		language: segment?.captionsLanguage ?? 'en',
 		transcript: ready ? transcriptLines(segment) : [],
 		captionStyle: captionStyleOf(patient),
