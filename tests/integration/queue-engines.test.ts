@@ -7,6 +7,7 @@
  */
 import { fakesDirectory } from './env';
 import { spawn, type ChildProcess } from 'node:child_process';
+import { mkdtemp, readFile, rm } from 'node:fs/promises';
 import { join, resolve } from 'node:path';
 import { eq } from 'drizzle-orm';
 import { Redis } from 'ioredis';
@@ -19,7 +20,11 @@ const { db, schema } = await import('$lib/server/db');
 const queue = await import('$lib/server/jobs/queue');
 const { sqliteEngine } = await import('$lib/server/jobs/sqlite');
 const { bullmqEngine } = await import('$lib/server/jobs/bullmq');
+const { HANDLERS } = await import('$lib/server/jobs');
+const { putObject } = await import('$lib/server/storage');
+const { recordingKeys } = await import('$lib/server/storage/keys');
 const { makeClinic } = await import('./factories');
+const { makeClip } = await import('./recordings-support');
 const { noteHandler, startRedis } = await import('./queue-support');
 type QueueEngine = import('$lib/server/jobs/engine').QueueEngine;
 type Worker = import('$lib/server/jobs/engine').Worker;
@@ -56,14 +61,39 @@ function readJob(id: string) {
 	return db().select().from(schema.jobs).where(eq(schema.jobs.id, id)).get()!;
 }
 
-async function waitFor<T>(what: string, check: () => T | false | undefined | null, ms = 15_000) {
+/** Waits for `check` to answer; on giving up, says `what` (a function: read at that moment). */
+async function waitFor<T>(
+	what: string | (() => string),
+	check: () => T | false | undefined | null,
+	ms = 15_000
+) {
 	const deadline = Date.now() + ms;
 	for (;;) {
 		const value = check();
 		if (value) return value;
-		if (Date.now() > deadline) throw new Error(`Gave up waiting for ${what}.`);
+		if (Date.now() > deadline)
+			throw new Error(`Gave up waiting for ${typeof what === 'string' ? what : what()}.`);
 		await new Promise((done) => setTimeout(done, 25));
 	}
+}
+
+/** A worker in a process of its own (queue-worker-child.ts), its output kept as it comes. */
+function spawnWorker(env: Record<string, string>) {
+	// node itself with tsx's loader (not the tsx command, which runs the script in a child of
+	// its own that a SIGKILL would leave running).
+	const child = spawn(process.execPath, ['--import', 'tsx', CHILD], {
+		env: {
+			...process.env,
+			...env,
+			// A BullMQ worker has no database: any use of one would fail here.
+			...(env.ENGINE === 'bullmq' ? { DATABASE_PATH: '/dev/null/no-database/kinelume.db' } : {})
+		},
+		stdio: ['ignore', 'pipe', 'pipe']
+	});
+	const seen = { output: '' };
+	child.stdout!.on('data', (chunk: Buffer) => (seen.output += chunk.toString()));
+	child.stderr!.on('data', (chunk: Buffer) => (seen.output += chunk.toString()));
+	return { child, seen };
 }
 
 const finished = (id: string) =>
@@ -230,24 +260,11 @@ describe.each(['sqlite', 'bullmq'] as const)('the %s queue', (name) => {
 		const r = recording('hang until killed');
 		const job = queue.enqueue({ kind: 'process-recording', recordingId: r.id });
 		startApp();
-		// node itself with tsx's loader (not the tsx command, which runs the script in a child of
-		// its own that a SIGKILL would leave running).
-		const child = spawn(process.execPath, ['--import', 'tsx', CHILD], {
-			env: {
-				...process.env,
-				ENGINE: name,
-				REDIS_URL: redisUrl,
-				// A BullMQ worker has no database: any use of one would fail here.
-				...(name === 'bullmq' ? { DATABASE_PATH: '/proc/no-database/kinelume.db' } : {})
-			},
-			stdio: ['ignore', 'pipe', 'pipe']
-		});
+		const { child, seen } = spawnWorker({ ENGINE: name, REDIS_URL: redisUrl });
 		children.push(child);
-		let output = '';
-		child.stdout!.on('data', (chunk: Buffer) => (output += chunk.toString()));
-		child.stderr!.on('data', (chunk: Buffer) => (output += chunk.toString()));
-		await waitFor(`the child worker to run the job (it said: ${output})`, () =>
-			output.includes(`running ${r.id}`)
+		await waitFor(
+			() => `the child worker to run the job (it said: ${seen.output})`,
+			() => seen.output.includes(`running ${r.id}`)
 		);
 		child.kill('SIGKILL');
 		await new Promise((done) => child.once('exit', done));
@@ -261,4 +278,73 @@ describe.each(['sqlite', 'bullmq'] as const)('the %s queue', (name) => {
 		expect(readRecording(r.id).title).toBe('HANG UNTIL KILLED');
 		expect(runs).toEqual([{ recordingId: r.id, title: 'hang until killed', attempt: 1 }]);
 	});
+});
+
+describe('BullMQ workers with the media handlers', () => {
+	it('process a recording in a process without the database; the app writes it ready and queues its detection', async () => {
+		const redis = await startRedis();
+		const dir = await mkdtemp(join(fakesDirectory, 'queue-media-'));
+		const { child, seen } = spawnWorker({
+			ENGINE: 'bullmq',
+			REDIS_URL: redis.url,
+			HANDLERS: 'media'
+		});
+		const app = bullmqEngine(redis.url).startDispatcher({
+			handlers: HANDLERS,
+			pollMs: 50,
+			log: () => {}
+		})!;
+		try {
+			await makeClip(join(dir, 'clip.mp4'));
+			const r = db()
+				.insert(schema.recordings)
+				.values({
+					clinicId: clinic.id,
+					title: 'Sit to stand',
+					originalFilename: 'clip.mp4',
+					contentType: 'video/mp4',
+					sizeBytes: 1,
+					durationSeconds: 4,
+					width: 320,
+					height: 240,
+					videoCodec: 'h264',
+					audioCodec: 'aac',
+					frameRate: 25,
+					hasAudio: true
+				})
+				.returning()
+				.get();
+			const keys = recordingKeys(clinic.id, r.id);
+			const bytes = await readFile(join(dir, 'clip.mp4'));
+			await putObject(keys.original, bytes, 'video/mp4', bytes.byteLength);
+			const job = queue.enqueue({ kind: 'process-recording', recordingId: r.id });
+			expect(
+				await waitFor(
+					() =>
+						`processing (the worker said: ${seen.output}; the job: ${JSON.stringify(readJob(job.id))})`,
+					() => {
+						const row = readJob(job.id);
+						return ['succeeded', 'failed', 'cancelled'].includes(row.status) && row;
+					},
+					120_000
+				)
+			).toMatchObject({ status: 'succeeded', lastError: null });
+			const ready = readRecording(r.id);
+			expect(ready).toMatchObject({ status: 'ready', posterCount: 3, waveformKey: keys.waveform });
+			expect(ready.renditionSize).toBeGreaterThan(0);
+			const detection = queue.latestJobFor(r.id, 'detect-signals')!;
+			expect(await finished(detection.id)).toMatchObject({ status: 'succeeded' });
+			const signals = db()
+				.select()
+				.from(schema.recordingSignals)
+				.where(eq(schema.recordingSignals.recordingId, r.id))
+				.get();
+			expect(signals?.renditionReadyAt.getTime()).toBe(ready.readyAt?.getTime());
+		} finally {
+			child.kill('SIGKILL');
+			await app.stop();
+			await redis.stop();
+			await rm(dir, { recursive: true, force: true });
+		}
+	}, 180_000);
 });
