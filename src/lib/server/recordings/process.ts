@@ -8,6 +8,7 @@ import { db } from '../db';
 import { recordings, type Job, type Recording } from '../db/schema';
 import type { JobContext, JobHandler } from '../jobs/engine';
 import { makePosters, makeRendition, makeSprite, makeWaveform } from '../media/outputs';
+import { planVersions } from '../../media/ladder';
 import { deletePrefix, putObject } from '../storage';
 import { recordingKeys } from '../storage/keys';
 import { downloadToFile } from '../storage/multipart';
@@ -53,10 +54,16 @@ interface ProcessInput {
 	durationSeconds: number;
 	frameRate: number | null;
 	hasAudio: boolean;
+	/** Displayed size, for the ladder's versions. */
+	width: number;
+	height: number;
 }
 
 type ProcessResult = {
-	columns: Pick<Recording, 'renditionSize' | 'posterCount' | 'sprite' | 'waveformKey'>;
+	columns: Pick<
+		Recording,
+		'renditionSize' | 'renditionVersions' | 'posterCount' | 'sprite' | 'waveformKey'
+	>;
 	/** The key prefix everything was stored under. */
 	prefix: string;
 };
@@ -64,8 +71,16 @@ type ProcessResult = {
 function prepareProcessing(job: Job): ProcessInput | null {
 	const recording = db().select().from(recordings).where(eq(recordings.id, job.recordingId)).get();
 	if (!recording) return null;
-	const { id: recordingId, clinicId, durationSeconds, frameRate, hasAudio } = recording;
-	return { recordingId, clinicId, durationSeconds, frameRate, hasAudio };
+	const {
+		id: recordingId,
+		clinicId,
+		durationSeconds,
+		frameRate,
+		hasAudio,
+		width,
+		height
+	} = recording;
+	return { recordingId, clinicId, durationSeconds, frameRate, hasAudio, width, height };
 }
 
 /**
@@ -90,9 +105,11 @@ async function processRecording(input: ProcessInput, context: JobContext): Promi
 		report('rendition');
 		const rendition = join(dir, 'rendition.mp4');
 		const { durationSeconds } = input;
-		await makeRendition(original, rendition, {
+		// The ladder's smaller versions come from the same run (src/lib/media/ladder.ts).
+		const { smaller } = await makeRendition(original, rendition, {
 			durationSeconds,
 			frameRate: input.frameRate ?? undefined,
+			versions: planVersions(input.width, input.height),
 			signal,
 			onProgress: (fraction: number) => report('rendition', fraction)
 		});
@@ -129,6 +146,11 @@ async function processRecording(input: ProcessInput, context: JobContext): Promi
 
 		report('storing');
 		const renditionSize = await upload(keys.rendition, rendition, 'video/mp4');
+		const renditionVersions = [];
+		for (const made of smaller) {
+			const size = await upload(keys.renditionVersion(made.short), made.path, 'video/mp4');
+			renditionVersions.push({ short: made.short, size });
+		}
 		for (const [index, path] of posters.entries()) {
 			await upload(keys.poster(index), path, 'image/jpeg');
 		}
@@ -139,6 +161,7 @@ async function processRecording(input: ProcessInput, context: JobContext): Promi
 		return {
 			columns: {
 				renditionSize,
+				renditionVersions: renditionVersions.length ? renditionVersions : null,
 				posterCount: posters.length,
 				sprite,
 				waveformKey: waveformPath ? keys.waveform : null

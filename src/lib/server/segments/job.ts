@@ -9,6 +9,7 @@ import { recordings, segments, type Job } from '../db/schema';
 import type { JobContext, JobHandler } from '../jobs/engine';
 import { cutSegment } from '../media/cut';
 import { makePosters } from '../media/outputs';
+import { planVersions, type StoredVersion } from '../../media/ladder';
 import { deleteObject, headObject, presignRead, putObject } from '../storage';
 import { recordingKeys } from '../storage/keys';
 import { markSegmentFailed, markSegmentReady } from './index';
@@ -49,11 +50,15 @@ interface CutInput {
 	clinicId: string;
 	startSeconds: number;
 	endSeconds: number;
+	/** The recording's displayed size, for the ladder's versions. */
+	width: number;
+	height: number;
 }
 
 interface CutResult {
 	clipDurationSeconds: number;
 	clipSize: number;
+	clipVersions: StoredVersion[] | null;
 	posterCount: number;
 	/** What was stored, removed again if the segment went meanwhile. */
 	keys: string[];
@@ -65,7 +70,7 @@ function prepareCut(job: Job): CutInput | null {
 	// Deleted with its recording meanwhile, or already made by an attempt that died after the end.
 	if (!segment || segment.status === 'ready') return null;
 	const recording = db()
-		.select({ clinicId: recordings.clinicId })
+		.select({ clinicId: recordings.clinicId, width: recordings.width, height: recordings.height })
 		.from(recordings)
 		.where(eq(recordings.id, segment.recordingId))
 		.get();
@@ -76,7 +81,9 @@ function prepareCut(job: Job): CutInput | null {
 		recordingId,
 		clinicId: recording.clinicId,
 		startSeconds,
-		endSeconds
+		endSeconds,
+		width: recording.width,
+		height: recording.height
 	};
 }
 
@@ -101,9 +108,11 @@ async function cutSegmentJob(input: CutInput, context: JobContext): Promise<CutR
 		const { MEDIA_JOB_TIMEOUT_SECONDS } = config();
 		const rendition = await presignRead(keys.rendition, MEDIA_JOB_TIMEOUT_SECONDS + 60);
 		const clip = join(dir, 'segment.mp4');
-		const { durationSeconds } = await cutSegment(rendition, clip, {
+		// Every version of the ladder in the same run (src/lib/media/ladder.ts).
+		const { durationSeconds, smaller } = await cutSegment(rendition, clip, {
 			start: input.startSeconds,
 			end: input.endSeconds,
+			versions: planVersions(input.width, input.height),
 			signal,
 			onProgress: (fraction) => report('cutting', fraction)
 		});
@@ -120,6 +129,12 @@ async function cutSegmentJob(input: CutInput, context: JobContext): Promise<CutR
 		report('storing');
 		const clipSize = await upload(keys.segment(input.segmentId), clip, 'video/mp4');
 		const stored = [keys.segment(input.segmentId)];
+		const clipVersions: StoredVersion[] = [];
+		for (const made of smaller) {
+			const key = keys.segmentVersion(input.segmentId, made.short);
+			clipVersions.push({ short: made.short, size: await upload(key, made.path, 'video/mp4') });
+			stored.push(key);
+		}
 		for (const [index, path] of posters.entries()) {
 			const key = keys.segmentPoster(input.segmentId, index);
 			await upload(key, path, 'image/jpeg');
@@ -130,6 +145,7 @@ async function cutSegmentJob(input: CutInput, context: JobContext): Promise<CutR
 		return {
 			clipDurationSeconds: durationSeconds,
 			clipSize,
+			clipVersions: clipVersions.length ? clipVersions : null,
 			posterCount: posters.length,
 			keys: stored
 		};
