@@ -1,6 +1,7 @@
 import { fakesDirectory, testEnv } from './env';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it, vi } from 'vitest';
+import { eq } from 'drizzle-orm';
 
 // A database of this file's own.
 process.env.DATABASE_PATH = join(fakesDirectory, `media-redirect-${process.pid}.db`);
@@ -132,10 +133,11 @@ async function call(
 	handler: Handler,
 	params: Record<string, string>,
 	who: Principal | null,
-	init: RequestInit = {}
+	init: RequestInit = {},
+	query = ''
 ): Promise<Response> {
 	caller = who;
-	const request = new Request('http://kinelume.test/api/media', init);
+	const request = new Request(`http://kinelume.test/api/media${query}`, init);
 	return handler({ params, request } as never);
 }
 
@@ -345,5 +347,114 @@ describe('the public library’s media', () => {
 		const clinician = await call(submissionClip.GET, { id: submission.id }, clinicianOf(world));
 		expect(clinician.status).toBe(403);
 		expect(clinician.headers.get('location')).toBeNull();
+	});
+});
+
+describe('the bitrate ladder’s versions', () => {
+	const SMALL = new TextEncoder().encode('the 360p version of this clip');
+	const bytesOf = async (response: Response) =>
+		new Uint8Array(await (await follow(response)).arrayBuffer());
+
+	it('answers ?v=360 with the smaller version, and the clip itself for a size not made', async () => {
+		const laddered = await support.makeSegment(world);
+		const keys = recordingKeys(world.clinicId, laddered.recordingId);
+		await putObject(keys.segmentVersion(laddered.id, 360), SMALL, 'video/mp4');
+		db()
+			.update(schema.segments)
+			.set({ clipVersions: [{ short: 360, size: SMALL.length }] })
+			.where(eq(schema.segments.id, laddered.id))
+			.run();
+		const small = await call(
+			segmentClip.GET,
+			{ id: laddered.id },
+			clinicianOf(world),
+			{},
+			'?v=360'
+		);
+		expect(small.status).toBe(307);
+		expect(await bytesOf(small)).toEqual(SMALL);
+		const patient = await call(segmentClip.GET, { id: segment.id }, viewer, {}, '?v=360');
+		expect(patient.status).toBe(307);
+		const notMade = await call(
+			segmentClip.GET,
+			{ id: laddered.id },
+			clinicianOf(world),
+			{},
+			'?v=540'
+		);
+		expect(await bytesOf(notMade)).toEqual(support.CLIP_BYTES);
+	});
+
+	it('gives a clip cut before the ladder to any ?v= as it is', async () => {
+		const old = await call(segmentClip.GET, { id: segment.id }, clinicianOf(world), {}, '?v=360');
+		expect(old.status).toBe(307);
+		expect(await bytesOf(old)).toEqual(support.CLIP_BYTES);
+	});
+
+	it('refuses a version that is not on the ladder, with no address, after the access check', async () => {
+		const odd = await call(segmentClip.GET, { id: segment.id }, clinicianOf(world), {}, '?v=../x');
+		expect(odd.status).toBe(400);
+		expect(odd.headers.get('location')).toBeNull();
+		const theirs = await call(
+			segmentClip.GET,
+			{ id: otherSegment.id },
+			clinicianOf(world),
+			{},
+			'?v=360'
+		);
+		expect(theirs.status).toBe(404);
+	});
+
+	it('serves a rendition’s smaller version, and copies a clip’s versions into the library', async () => {
+		const laddered = await support.makeSegment(world);
+		const keys = recordingKeys(world.clinicId, laddered.recordingId);
+		await putObject(keys.rendition, support.CLIP_BYTES, 'video/mp4');
+		await putObject(keys.renditionVersion(540), SMALL, 'video/mp4');
+		db()
+			.update(schema.recordings)
+			.set({ renditionVersions: [{ short: 540, size: SMALL.length }] })
+			.where(eq(schema.recordings.id, laddered.recordingId))
+			.run();
+		const rendition = await call(
+			recordingMedia.GET,
+			{ id: laddered.recordingId, asset: 'rendition.mp4' },
+			clinicianOf(world),
+			{},
+			'?v=540'
+		);
+		expect(await bytesOf(rendition)).toEqual(SMALL);
+
+		await putObject(keys.segmentVersion(laddered.id, 360), SMALL, 'video/mp4');
+		db()
+			.update(schema.segments)
+			.set({ clipVersions: [{ short: 360, size: SMALL.length }] })
+			.where(eq(schema.segments.id, laddered.id))
+			.run();
+		const exercise = await support.makeExercise(world, {
+			title: `Ladder slide ${world.clinicId}`,
+			segmentId: laddered.id
+		});
+		const submission = submissions.submitExercise(
+			world.clinician,
+			exercise.id,
+			support.submissionInput(exercise)
+		);
+		const review = await call(
+			submissionClip.GET,
+			{ id: submission.id },
+			educatorOf(world),
+			{},
+			'?v=360'
+		);
+		expect(await bytesOf(review)).toEqual(SMALL);
+		const result = await publishing.decideSubmission(
+			submission.id,
+			{ id: world.educator.id, name: world.educator.name },
+			{ decision: 'approved', comment: 'Clear.', judgement: support.ALL_JUDGEMENT }
+		);
+		const published = await call(versionClip.GET, { id: result.versionId! }, null, {}, '?v=360');
+		expect(published.status).toBe(307);
+		expect(new URL(published.headers.get('location')!).pathname).toContain('/library/');
+		expect(await bytesOf(published)).toEqual(SMALL);
 	});
 });
