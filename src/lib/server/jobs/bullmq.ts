@@ -189,16 +189,18 @@ function startDispatcher(redisUrl: string, options: WorkerOptions): Worker {
 			.where(and(eq(jobs.status, 'running'), like(jobs.lockedBy, `${LOCK}%`)))
 			.all();
 		for (const row of handedOut) {
-			const carried = await media.getJob(row.lockedBy!.slice(LOCK.length));
+			const id = row.lockedBy!.slice(LOCK.length);
+			// The state first: a job read before it is known to be finished may lack its outcome.
+			const state = await media.getJobState(id);
+			const carried = await media.getJob(id);
 			// Lost with Redis, or never added (the app stopped in between): once its heartbeat
 			// goes stale the row is queued again.
-			if (!carried) continue;
-			const state = await carried.getState();
+			if (state === 'unknown' || !carried) continue;
 			if (state === 'completed' || state === 'failed') {
 				const outcome: Outcome =
-					state === 'completed'
+					state === 'completed' && carried.returnvalue
 						? carried.returnvalue
-						: { status: 'failed', message: carried.failedReason };
+						: { status: 'failed', message: carried.failedReason || 'The worker sent no outcome.' };
 				await finish(row, outcome);
 				await carried.remove();
 				continue;
