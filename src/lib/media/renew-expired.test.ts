@@ -1,5 +1,11 @@
-import { describe, expect, it } from 'vitest';
-import { isAppMedia, MEDIA_ERR_NETWORK, MediaRenewal, type RenewableMedia } from './renew-expired';
+import { describe, expect, it, vi } from 'vitest';
+import {
+	isAppMedia,
+	keepMediaAddressesFresh,
+	MEDIA_ERR_NETWORK,
+	MediaRenewal,
+	type RenewableMedia
+} from './renew-expired';
 
 const ORIGIN = 'https://app.example';
 const LIFETIME = 300;
@@ -123,5 +129,30 @@ describe('isAppMedia', () => {
 		expect(isAppMedia(`${ORIGIN}/api/recordings/r/media/rendition.mp4`, ORIGIN)).toBe(true);
 		expect(isAppMedia('https://storage.example/api/x', ORIGIN)).toBe(false);
 		expect(isAppMedia('', ORIGIN)).toBe(false);
+	});
+});
+
+describe('keepMediaAddressesFresh', () => {
+	it('counts an element the page’s markup started as loaded with the page, not as old', () => {
+		vi.stubGlobal('HTMLMediaElement', FakeVideo);
+		vi.stubGlobal('performance', { timeOrigin: Date.now() - 1000 });
+		try {
+			const v = video();
+			const listeners = new Map<string, (event: Event) => void>();
+			const doc = {
+				location: { origin: ORIGIN },
+				querySelectorAll: () => [v],
+				addEventListener: (type: string, listener: (event: Event) => void) =>
+					listeners.set(type, listener),
+				removeEventListener: () => {}
+			} as unknown as Document;
+			const stop = keepMediaAddressesFresh(doc, LIFETIME);
+			// Its address came with the page a second ago: a wait for data is no reason to reload.
+			listeners.get('waiting')!({ type: 'waiting', target: v } as unknown as Event);
+			expect(v.loads).toBe(0);
+			stop();
+		} finally {
+			vi.unstubAllGlobals();
+		}
 	});
 });

@@ -133,6 +133,12 @@ export function keepMediaAddressesFresh(doc: Document, lifetimeSeconds: number):
 			event.stopImmediatePropagation();
 		}
 	};
+	// Elements the page's markup started loading before this script ran: their addresses came with
+	// the page, no earlier than its navigation. Counted as unknown (old), their first wait for
+	// data would load them all over again.
+	for (const media of doc.querySelectorAll('audio, video')) {
+		if (media instanceof HTMLMediaElement) renewal.loadStarted(media, performance.timeOrigin);
+	}
 	doc.addEventListener('loadstart', onLoadStart, true);
 	for (const type of TRIGGERS) doc.addEventListener(type, onNeed, true);
 	return () => {

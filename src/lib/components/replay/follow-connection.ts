@@ -87,8 +87,11 @@ export function followConnection(
 		onchange?.(versions[index]);
 	}
 
+	// Not playing yet: change at once. Already playing (Play pressed before the script ran):
+	// the small version's first frames are on screen, so the change waits for the loop.
 	const first = chooseVersion(versions, reportedKbps(), Boolean(connection()?.saveData));
-	if (first > current) switchTo(first);
+	if (first > current && video.paused) switchTo(first);
+	else if (first > current) pendingUp = first;
 
 	const onWaiting = () => {
 		if (!video.paused && stalledSince === null) stalledSince = performance.now();
