@@ -9,6 +9,7 @@ export const RECORDING_STATUS = {
 export const STAGE_LABEL: Record<string, string> = {
 	waiting: 'Waiting for its turn',
 	'waiting to retry': 'Waiting to try again',
+	'waiting for storage': 'Waiting for storage to answer again (nothing is lost)',
 	starting: 'Starting',
 	downloading: 'Fetching the original',
 	rendition: 'Making the web version',

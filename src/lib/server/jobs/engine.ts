@@ -12,6 +12,7 @@
  * Both finish a job through `settle`, so retries, back-off, cancels and results are written by
  * the same code whichever engine carried the work.
  */
+import { storageUnreachable } from '../storage/reachable';
 import type { Job, JobKind } from '../db/schema';
 import * as queue from './queue';
 
@@ -105,7 +106,9 @@ export type Outcome =
 	| { status: 'failed'; message: string }
 	| { status: 'cancelled' }
 	/** Its worker stopped; the attempt does not count. */
-	| { status: 'released' };
+	| { status: 'released' }
+	/** Storage could not be reached: the job waits and tries again; the attempt does not count. */
+	| { status: 'unreachable'; message: string };
 
 export function describeError(error: unknown): string {
 	if (error instanceof Error) return error.message;
@@ -132,6 +135,7 @@ export async function attempt(
 		if (context.signal.aborted) {
 			return interrupted() === 'stopped' ? { status: 'released' } : { status: 'cancelled' };
 		}
+		if (storageUnreachable(error)) return { status: 'unreachable', message: describeError(error) };
 		return { status: 'failed', message: describeError(error) };
 	}
 }
@@ -160,6 +164,9 @@ export async function settle(
 	}
 	if (outcome.status === 'released') {
 		queue.release(job.id, lockedBy);
+	} else if (outcome.status === 'unreachable') {
+		queue.waitForStorage(job.id, lockedBy, outcome.message);
+		log(`${job.kind} ${job.id} waits for storage: ${outcome.message}`);
 	} else if (outcome.status === 'cancelled') {
 		queue.markCancelled(job.id, lockedBy);
 		await handler?.cancelled?.(job);

@@ -168,6 +168,29 @@ export function release(jobId: string, workerId: string): void {
 		.run();
 }
 
+/** How long a job waits for storage to answer again before its next try (our choice). */
+export const STORAGE_WAIT_SECONDS = 30;
+
+/**
+ * Hands a job back because storage could not be reached: queued again after a short wait, the
+ * attempt not counted (an outage is nobody's fault and may last), its reason kept for the page.
+ */
+export function waitForStorage(jobId: string, workerId: string, message: string): void {
+	db()
+		.update(jobs)
+		.set({
+			status: 'queued',
+			attempts: sql`max(${jobs.attempts} - 1, 0)`,
+			lockedBy: null,
+			heartbeatAt: null,
+			stage: 'waiting for storage',
+			lastError: message,
+			runAfter: new Date(Date.now() + STORAGE_WAIT_SECONDS * 1000)
+		})
+		.where(finishWhere(jobId, workerId))
+		.run();
+}
+
 /**
  * Cancels a job: a queued one at once, a running one at its worker's next heartbeat (which aborts
  * its ffmpeg). Answers false when there was nothing to cancel.
