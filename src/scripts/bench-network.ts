@@ -26,7 +26,7 @@
  * costs no click and at most one part (5 MiB). Its own fakes, database and ports (app 4291) in a
  * temporary folder. A measurement, not a test: it exits 0 whether or not the goals are met.
  *
- *   npm run bench:network -- [--build] [--only=a,b] [--headed]
+ *   npm run bench:network -- [--build] [--only=a,b] [--profiles=clinic,4g,3g] [--headed]
  */
 import { mkdirSync, readFileSync, statSync } from 'node:fs';
 import { loadavg } from 'node:os';
@@ -68,6 +68,11 @@ const PROFILES: Profile[] = [
 ];
 
 const only = (argValue('only') ?? 'a,b').split(',');
+/** `--profiles=3g` measures only the profiles whose names contain one of the words given. */
+const profileWords = argValue('profiles')?.split(',');
+const chosenProfiles = PROFILES.filter(
+	(p) => !profileWords || profileWords.some((w) => p.name.toLowerCase().includes(w.toLowerCase()))
+);
 
 /** DevTools throttling for `page` (its own requests), kept on its CDP session. */
 async function throttle(context: BrowserContext, page: Page, profile: Profile) {
@@ -268,6 +273,10 @@ interface ReplayFigures {
 	stalledSeconds: number;
 	bytesBeforeFirstFrame: number;
 	version: string;
+	/** Bytes before the first frame by request type. */
+	byType: string;
+	/** When each stall began, seconds after the first frame. */
+	stallTimes: string;
 }
 
 /**
@@ -278,9 +287,11 @@ interface ReplayFigures {
 const WATCH_SCRIPT = `(() => {
 	const seen = { firstFrame: null, waits: [], flowing: [] };
 	window.__replay = seen;
+	let hooked = false;
 	const hook = () => {
 		const video = document.querySelector('[data-testid="replay-video"]');
-		if (!video) return void setTimeout(hook, 20);
+		if (!video || hooked) return;
+		hooked = true;
 		video.muted = true;
 		video.play().catch(() => {});
 		const frame = () => {
@@ -292,7 +303,8 @@ const WATCH_SCRIPT = `(() => {
 		video.addEventListener('playing', () => seen.flowing.push(performance.now()));
 		video.addEventListener('loadedmetadata', () => { if (video.paused) video.play().catch(() => {}); });
 	};
-	document.addEventListener('DOMContentLoaded', hook);
+	// As soon as the parser has made the element, before any script of the page has run.
+	new MutationObserver(hook).observe(document, { childList: true, subtree: true });
 })();`;
 
 async function measureReplay(
@@ -303,13 +315,15 @@ async function measureReplay(
 ): Promise<ReplayFigures> {
 	const page = await context.newPage();
 	const { cdp } = await throttle(context, page, profile);
-	const received: { at: number; bytes: number }[] = [];
+	const received: { at: number; bytes: number; id: string }[] = [];
+	const types = new Map<string, string>();
 	let navigationAt = 0;
 	cdp.on('Network.requestWillBeSent', (event) => {
 		if (event.type === 'Document' && navigationAt === 0) navigationAt = event.timestamp;
+		types.set(event.requestId, event.type ?? 'Other');
 	});
 	cdp.on('Network.dataReceived', (event) =>
-		received.push({ at: event.timestamp, bytes: event.encodedDataLength })
+		received.push({ at: event.timestamp, bytes: event.encodedDataLength, id: event.requestId })
 	);
 	await page.goto(`${run.origin}/replay/${item}`, { waitUntil: 'commit' });
 	const deadline = Date.now() + 60_000;
@@ -339,9 +353,20 @@ async function measureReplay(
 		stalledMs += Math.min(resumed, end) - wait;
 	}
 	const cutoff = firstFrame === null ? Infinity : navigationAt + firstFrame / 1000;
-	const bytes = received.filter((r) => r.at <= cutoff).reduce((n, r) => n + r.bytes, 0);
+	const before = received.filter((r) => r.at <= cutoff);
+	const bytes = before.reduce((n, r) => n + r.bytes, 0);
+	const byType = new Map<string, number>();
+	for (const r of before) {
+		const type = types.get(r.id) ?? 'Other';
+		byType.set(type, (byType.get(type) ?? 0) + r.bytes);
+	}
 	await page.close();
 	return {
+		byType: [...byType].map(([type, n]) => `${type} ${fmtBytes(n)}`).join(', '),
+		stallTimes: seen.waits
+			.filter((w) => firstFrame !== null && w <= end)
+			.map((w) => `${((w - firstFrame!) / 1000).toFixed(1)}`)
+			.join(' '),
 		firstFrameMs: firstFrame,
 		stalls,
 		stalledSeconds: stalledMs / 1000,
@@ -353,7 +378,7 @@ async function measureReplay(
 async function benchReplay(browser: Browser, run: BenchRun, seed: ReplaySeed) {
 	const rows: Row[] = [];
 	const notes: string[] = [`clip versions: ${seed.versions}`];
-	for (const profile of PROFILES) {
+	for (const profile of chosenProfiles) {
 		const results: Record<string, { cold: ReplayFigures; warm: ReplayFigures }> = {};
 		for (const [label, item] of [
 			['ladder', seed.ladderItem],
@@ -369,6 +394,9 @@ async function benchReplay(browser: Browser, run: BenchRun, seed: ReplaySeed) {
 			const warm = await measureReplay(context, run, item, profile);
 			await context.close();
 			results[label] = { cold, warm };
+			notes.push(
+				`${profile.name}, ${label}: before the first frame (cold) ${cold.byType}; stalls began at ${cold.stallTimes || '—'} s cold, ${warm.stallTimes || '—'} s warm`
+			);
 			console.log(
 				`  ${profile.name}, ${label}: first frame ${fmtMs(cold.firstFrameMs)} cold, ${fmtMs(warm.firstFrameMs)} warm; ` +
 					`stalls ${cold.stalls}/${warm.stalls}; version ${cold.version}/${warm.version}`
@@ -530,6 +558,7 @@ await runBench(run, async () => {
 	const loadStart = loadavg()[0];
 	await buildIfAsked(run);
 	const buildCopy = copyBuild(run);
+	mkdirSync(process.env.MEDIA_WORK_DIR!, { recursive: true });
 	await startFakes(run);
 	const { seedDemo } = await import('./demo/seed');
 	await seedDemo();
