@@ -133,7 +133,7 @@ export function followConnection(
 			switchTo(next);
 		} else if (next > current && now >= holdUntil) {
 			if (video.paused) switchTo(next);
-			else pendingUp = next;
+			else pendingUp = Math.max(pendingUp ?? 0, next);
 		}
 	}, CHECK_MS);
 
