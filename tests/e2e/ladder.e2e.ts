@@ -95,8 +95,11 @@ test.beforeAll(async () => {
 		({ clinicId } = db
 			.prepare('select clinic_id as clinicId from segment where id = ?')
 			.get(segmentId) as { clinicId: string });
-		db.prepare('update segment set clip_versions = ? where id = ?').run(
-			JSON.stringify([{ short: 360, size: small.length }]),
+		// The player chooses by bitrate, which it takes from the sizes listed: list those of a
+		// 6-second clip at the ladder's rates (2.3 and 0.3 Mbit/s), as the test clips are tiny.
+		db.prepare('update segment set clip_size = ?, clip_versions = ? where id = ?').run(
+			(2300 * 1000 * SECONDS) / 8,
+			JSON.stringify([{ short: 360, size: (300 * 1000 * SECONDS) / 8 }]),
 			segmentId
 		);
 	} finally {
