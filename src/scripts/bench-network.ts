@@ -525,7 +525,9 @@ async function benchUpload(browser: Browser, run: BenchRun) {
 	const again = sent.filter(
 		(s) => !s.ok || sent.filter((t) => t.ok && t.part === s.part).length > 1
 	);
-	const againBytes = again.reduce((n, s) => n + s.bytes, 0);
+	// An aborted request reports no length: count the whole part.
+	const partBytes = (part: number) => Math.min(PART_SIZE, size - (part - 1) * PART_SIZE);
+	const againBytes = again.reduce((n, s) => n + partBytes(s.part), 0);
 	const partsAgain = new Set(again.map((s) => s.part)).size;
 	const rows: Row[] = [
 		{
@@ -605,7 +607,7 @@ await runBench(run, async () => {
 		await browser.close();
 	}
 	notes.push(
-		'first frame: from navigation start to the first picture drawn while playing (play pressed as soon as the player is in the page); stalls: waits for data after it, within 30 s',
+		'first frame: from navigation start to the first picture drawn while playing (play pressed as soon as the player is in the page); stalls: waits for data of 0.1 s or more after it, within 30 s (every wait is listed above with its length: a loop restart makes one of a frame or two)',
 		'bytes: everything the page received (HTML, scripts, fonts, poster, media) before the first frame'
 	);
 	printTable('bench:network — replay and upload on shaped networks', rows, notes, loadStart, {
