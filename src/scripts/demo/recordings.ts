@@ -1,6 +1,7 @@
 import { open, stat } from 'node:fs/promises';
 import { and, eq } from 'drizzle-orm';
 import { db, schema } from '../../lib/server/db';
+import { demoOwner } from './owner';
 import { createTrack, saveVersion } from '../../lib/server/captions';
 import { completeUpload, createUpload, presignParts } from '../../lib/server/recordings/uploads';
 import { ensureDemoClips } from './clips/encoding';
@@ -17,16 +18,7 @@ export async function seedDemoRecordings(
 	log: (line: string) => void = console.log
 ): Promise<number> {
 	const store = db();
-	const clinician = store.query.users
-		.findFirst({ where: eq(schema.users.email, clinicianEmail) })
-		.sync();
-	const membership = clinician
-		? store.query.memberships
-				.findFirst({ where: eq(schema.memberships.userId, clinician.id) })
-				.sync()
-		: undefined;
-	if (!clinician || !membership) throw new Error(`No demo clinician ${clinicianEmail}`);
-	const owner = { id: clinician.id, clinicId: membership.clinicId };
+	const owner = demoOwner(clinicianEmail);
 
 	const clips = await ensureDemoClips(clipsDir);
 	let added = 0;

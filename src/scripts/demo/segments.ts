@@ -2,6 +2,7 @@ import { and, eq, isNull } from 'drizzle-orm';
 import type { Suggestion } from '../../lib/captions/suggest';
 import type { PlannedSegment } from '../../lib/segments/plan';
 import { db, schema } from '../../lib/server/db';
+import { demoOwner } from './owner';
 import { nudgeWorker } from '../../lib/server/jobs';
 import { confirmSegments, suggestionsFor } from '../../lib/server/segments';
 import { DEMO_CLIPS, type DemoClip } from './clips/scripts';
@@ -67,16 +68,7 @@ export async function confirmDemoSegments(
 	{ timeoutMs = 15 * 60_000 }: { timeoutMs?: number } = {}
 ): Promise<number> {
 	const store = db();
-	const clinician = store.query.users
-		.findFirst({ where: eq(schema.users.email, clinicianEmail) })
-		.sync();
-	const membership = clinician
-		? store.query.memberships
-				.findFirst({ where: eq(schema.memberships.userId, clinician.id) })
-				.sync()
-		: undefined;
-	if (!clinician || !membership) throw new Error(`No demo clinician ${clinicianEmail}`);
-	const owner = { id: clinician.id, clinicId: membership.clinicId };
+	const owner = demoOwner(clinicianEmail);
 
 	let confirmed = 0;
 	for (const clip of DEMO_CLIPS) {
