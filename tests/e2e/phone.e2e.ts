@@ -3,13 +3,11 @@
  * and in view after the safety notes and while the transcript is used, focus on Play, and a portrait
  * clip drawn in its own shape. The clips are made here by ffmpeg; the words are invented.
  */
-import { execFile } from 'node:child_process';
-import { mkdtemp, readFile, rm } from 'node:fs/promises';
-import { createRequire } from 'node:module';
+import { mkdtemp, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { promisify } from 'node:util';
 import { expect, test, type Page } from '@playwright/test';
+import { makeUprightClip } from './clips';
 import { seedProgramme, seedSignInPatient } from './programme-fixtures';
 import { seedReadySegment } from './segments-support';
 import {
@@ -21,9 +19,6 @@ import {
 	open
 } from './support';
 
-const run = promisify(execFile);
-const ffmpeg = (createRequire(import.meta.url)('@ffmpeg-installer/ffmpeg') as { path: string })
-	.path;
 const PHONE = { width: 390, height: 844 };
 const SHOTS = join(import.meta.dirname, '../.run/e2e-results');
 
@@ -56,14 +51,7 @@ test.beforeAll(async () => {
 	test.setTimeout(120_000);
 	dir = await mkdtemp(join(tmpdir(), 'kinelume-e2e-phone-'));
 	const clip = join(dir, 'upright.mp4');
-	// An upright 8-second clip, as phones record by default.
-	await run(ffmpeg, [
-		...['-hide_banner', '-loglevel', 'error', '-y'],
-		...['-f', 'lavfi', '-i', 'testsrc=size=180x320:rate=12'],
-		...['-t', '8', '-c:v', 'libx264', '-pix_fmt', 'yuv420p', '-g', '12'],
-		...['-movflags', '+faststart', clip]
-	]);
-	const bytes = await readFile(clip);
+	const bytes = await makeUprightClip(clip);
 	const recordingId = await seedReadyRecording(ACCOUNTS.clinician, {
 		rendition: bytes,
 		durationSeconds: 8,

@@ -4,15 +4,13 @@
  * (2026-11-24) and write a recording's length one way; every player of a clinician or of the
  * library is drawn in its clip's shape (here an upright one). The clip is made here by ffmpeg.
  */
-import { execFile } from 'node:child_process';
 import { mkdirSync } from 'node:fs';
-import { mkdtemp, readFile, rm } from 'node:fs/promises';
-import { createRequire } from 'node:module';
+import { mkdtemp, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
-import { promisify } from 'node:util';
 import { expect, test, type Page } from '@playwright/test';
 import { seedExercise, seedPublicExercise } from './library-support';
+import { makeUprightClip } from './clips';
 import { seedProgramme, seedSignInPatient } from './programme-fixtures';
 import { seedReadySegment } from './segments-support';
 import {
@@ -26,9 +24,6 @@ import {
 	expectNoAxeViolations
 } from './support';
 
-const run = promisify(execFile);
-const ffmpeg = (createRequire(import.meta.url)('@ffmpeg-installer/ffmpeg') as { path: string })
-	.path;
 const SHOTS = resolve(import.meta.dirname, '../.run/screens');
 const ISO_DATE = /\b\d{4}-\d{2}-\d{2}\b/;
 const UPRIGHT = '180 / 320';
@@ -53,13 +48,7 @@ test.beforeAll(async () => {
 	test.setTimeout(120_000);
 	dir = await mkdtemp(join(tmpdir(), 'kinelume-e2e-words-'));
 	const clip = join(dir, 'upright.mp4');
-	await run(ffmpeg, [
-		...['-hide_banner', '-loglevel', 'error', '-y'],
-		...['-f', 'lavfi', '-i', 'testsrc=size=180x320:rate=12'],
-		...['-t', '8', '-c:v', 'libx264', '-pix_fmt', 'yuv420p', '-g', '12'],
-		...['-movflags', '+faststart', clip]
-	]);
-	const bytes = await readFile(clip);
+	const bytes = await makeUprightClip(clip);
 	recordingId = await seedReadyRecording(ACCOUNTS.clinician, {
 		rendition: bytes,
 		durationSeconds: 158.5,
