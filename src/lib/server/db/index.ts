@@ -14,18 +14,23 @@ let opened: Db | undefined;
 export function openDatabase(path: string, migrationsFolder = resolve('drizzle')): Db {
 	if (path !== ':memory:') mkdirSync(dirname(resolve(path)), { recursive: true });
 	const sqlite = new Database(path);
-	// First, so that a process opening a file another is creating waits instead of failing.
-	sqlite.pragma('busy_timeout = 5000');
+	// First, so that a process opening a file another is creating or migrating waits (as long
+	// as migrations may take) instead of failing: until WAL is on, another process's exclusive
+	// migration blocks even these pragmas and the reads that check what is applied.
+	sqlite.pragma(`busy_timeout = ${MIGRATION_WAIT_MS}`);
 	sqlite.pragma('journal_mode = WAL');
 	sqlite.pragma('foreign_keys = ON');
 	sqlite.pragma('synchronous = NORMAL');
 	migrateExclusively(sqlite, migrationsFolder);
+	sqlite.pragma(`busy_timeout = ${USUAL_WAIT_MS}`);
 	return drizzle(sqlite, { schema }) as Db;
 }
 
 const MIGRATIONS_TABLE = '__drizzle_migrations';
 /** How long a starting process waits for another one's migrations before giving up. */
 const MIGRATION_WAIT_MS = 120_000;
+/** How long a statement waits for another process's write once the database is open. */
+const USUAL_WAIT_MS = 5000;
 
 /** The newest applied migration's folder time, or null when none is (or no table yet). */
 function lastApplied(sqlite: Database.Database): number | null {
