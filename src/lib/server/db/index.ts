@@ -18,12 +18,31 @@ export function openDatabase(path: string, migrationsFolder = resolve('drizzle')
 	// as migrations may take) instead of failing: until WAL is on, another process's exclusive
 	// migration blocks even these pragmas and the reads that check what is applied.
 	sqlite.pragma(`busy_timeout = ${MIGRATION_WAIT_MS}`);
-	sqlite.pragma('journal_mode = WAL');
+	whileBusy(() => sqlite.pragma('journal_mode = WAL'));
 	sqlite.pragma('foreign_keys = ON');
 	sqlite.pragma('synchronous = NORMAL');
-	migrateExclusively(sqlite, migrationsFolder);
+	whileBusy(() => migrateExclusively(sqlite, migrationsFolder));
 	sqlite.pragma(`busy_timeout = ${USUAL_WAIT_MS}`);
 	return drizzle(sqlite, { schema }) as Db;
+}
+
+/**
+ * Runs `step` again while SQLite answers SQLITE_BUSY, for as long as migrations may take. Some
+ * busy answers skip the busy timeout (switching a new file to WAL while another process holds
+ * it, a WAL being recovered), so processes started together still met "database is locked".
+ */
+function whileBusy<T>(step: () => T): T {
+	const until = Date.now() + MIGRATION_WAIT_MS;
+	const pause = new Int32Array(new SharedArrayBuffer(4));
+	for (;;) {
+		try {
+			return step();
+		} catch (error) {
+			const code = (error as { code?: string }).code ?? '';
+			if (!code.startsWith('SQLITE_BUSY') || Date.now() > until) throw error;
+			Atomics.wait(pause, 0, 0, 50);
+		}
+	}
 }
 
 const MIGRATIONS_TABLE = '__drizzle_migrations';
