@@ -30,6 +30,23 @@ const CUES = Array.from({ length: 16 }, (_, i) => ({
 	text: `Line ${i + 1}: keep the movement slow and smooth.`
 }));
 
+// A clinician's note long enough to push anything below it off a phone's first screen.
+const LONG_NOTE = Array.from(
+	{ length: 6 },
+	(_, i) => `Point ${i + 1}: take the movements gently and keep to the dosage we agreed.`
+).join('\n');
+
+/**
+ * A fixed-offset zone whose clock now reads 22:xx: the patient's day then shows its longest
+ * "Next" wording (every suggested time has passed and it is late), the first screen's worst case.
+ */
+function lateEveningZone(): string {
+	let offset = (((22 - new Date().getUTCHours()) % 24) + 24) % 24;
+	if (offset > 14) offset -= 24;
+	// IANA's Etc zones count the other way: Etc/GMT-3 is three hours ahead of UTC.
+	return offset === 0 ? 'Etc/GMT' : `Etc/GMT${offset > 0 ? '-' : '+'}${Math.abs(offset)}`;
+}
+
 let dir: string;
 let patientEmail: string;
 let itemId: string;
@@ -71,20 +88,31 @@ test.beforeAll(async () => {
 		clip: bytes
 	});
 	const run_ = crypto.randomUUID().slice(0, 6);
-	const patient = await seedSignInPatient(ACCOUNTS.clinician, { name: `Rosa Penn ${run_}` });
+	const patient = await seedSignInPatient(ACCOUNTS.clinician, {
+		name: `Rosa Penn ${run_}`,
+		timeZone: lateEveningZone()
+	});
 	patientEmail = patient.email;
 	({
 		itemIds: [itemId]
-	} = seedProgramme(patient.patientId, [
+	} = seedProgramme(
+		patient.patientId,
+		[
+			{
+				title: 'Wall slide',
+				segmentId,
+				safetyNotes: 'Stop if the shoulder pain is sharp.',
+				sets: 1,
+				reps: 8
+			},
+			{ title: 'Ankle circles', sets: 1, reps: 10 }
+		],
 		{
-			title: 'Wall slide',
-			segmentId,
-			safetyNotes: 'Stop if the shoulder pain is sharp.',
-			sets: 1,
-			reps: 8
-		},
-		{ title: 'Ankle circles', sets: 1, reps: 10 }
-	]));
+			// Started a week ago, so today is an ordinary day of it on the patient's clock.
+			startDate: new Date(Date.now() - 7 * 86_400_000).toISOString().slice(0, 10),
+			note: LONG_NOTE
+		}
+	));
 });
 
 test.afterAll(async () => {
@@ -98,6 +126,8 @@ test('on a phone the next exercise is on Today’s first screen, and the upright
 }) => {
 	await signInWithPassword(page, patientEmail);
 	await open(page, '/today');
+	await expect(page.getByTestId('next-session')).toContainText('start fresh tomorrow');
+	await expect(page.getByText(LONG_NOTE.split('\n')[5])).toBeVisible();
 	const firstCard = page.getByRole('link', { name: /Play exercise.*Wall slide/ });
 	const card = await firstCard.boundingBox();
 	expect(card && card.y + card.height).toBeLessThanOrEqual(PHONE.height);
