@@ -115,7 +115,7 @@ interface ReplaySeed {
 /** The test clip, its ladder and poster, stored as two segments of the demo patient's programme. */
 async function seedReplay(run: BenchRun): Promise<ReplaySeed> {
 	const { runFfmpeg } = await import('../lib/server/media/ffmpeg');
-	const { makePosters, makeRendition } = await import('../lib/server/media/outputs');
+	const { makePosters, makeRendition, PHONE_POSTER } = await import('../lib/server/media/outputs');
 	const { planVersions } = await import('../lib/media/ladder');
 	const { putObject } = await import('../lib/server/storage');
 	const { recordingKeys } = await import('../lib/server/storage/keys');
@@ -149,9 +149,11 @@ async function seedReplay(run: BenchRun): Promise<ReplaySeed> {
 		frameRate: 30,
 		versions: planVersions(1280, 720)
 	});
+	// Made as the segment job makes a patient's poster.
 	const [poster] = await makePosters(source, join(dir, 'posters'), {
 		durationSeconds: CLIP_SECONDS,
-		count: 1
+		count: 1,
+		...PHONE_POSTER
 	});
 
 	const store = db();

@@ -8,6 +8,7 @@ import { refusalReason, type DeclaredUpload } from '$lib/media/validate';
 import { ffmpegPath, ffprobePath, runFfmpeg } from '$lib/server/media/ffmpeg';
 import {
 	makePosters,
+	PHONE_POSTER,
 	makeRendition,
 	makeSprite,
 	makeWaveform,
@@ -503,6 +504,27 @@ describe('makePosters', () => {
 		}
 		const [first, second] = await Promise.all(paths.slice(0, 2).map((p) => readFile(p)));
 		expect(first.equals(second)).toBe(false);
+	});
+
+	it('fits phone posters in the smallest version’s box, upright or wide, a fraction of the bytes', async () => {
+		const wide = await makePosters(clip('landscape.mp4'), clip('out/phone-posters'), {
+			durationSeconds: 6,
+			count: 1,
+			...PHONE_POSTER
+		});
+		expect((await probeFile(wide[0])).video).toMatchObject({ width: 640, height: 360 });
+		// The same moment as a full-size still.
+		const [full] = await makePosters(clip('landscape.mp4'), clip('out/full-poster'), {
+			durationSeconds: 6,
+			count: 1
+		});
+		expect((await stat(wide[0])).size).toBeLessThan((await stat(full)).size / 2);
+		const upright = await makePosters(clip('portrait.mp4'), clip('out/phone-portrait'), {
+			durationSeconds: 2,
+			count: 1,
+			...PHONE_POSTER
+		});
+		expect((await probeFile(upright[0])).video).toMatchObject({ width: 360, height: 640 });
 	});
 
 	it('keeps portrait stills upright', async () => {

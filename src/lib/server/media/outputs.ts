@@ -1,6 +1,6 @@
 import { mkdir, mkdtemp, readdir, rm, stat } from 'node:fs/promises';
 import { dirname, join } from 'node:path';
-import { TOP_LONG, TOP_SHORT, type PlannedVersion, type Rung } from '../../media/ladder';
+import { LADDER, TOP_LONG, TOP_SHORT, type PlannedVersion, type Rung } from '../../media/ladder';
 import { MediaError, runFfmpeg } from './ffmpeg';
 import { probeFile } from './probe';
 import { grabStill } from './stills';
@@ -257,8 +257,19 @@ export async function makeRendition(
 export interface PosterOptions extends JobControl {
 	durationSeconds: number;
 	count?: number;
+	/** Widest a still may be (the default: the largest version's 1280). */
 	maxWidth?: number;
+	/**
+	 * Fit the stills in the box of this ladder short side instead (360: 640 × 360, turned to the
+	 * picture), never enlarged: a patient's poster is the first thing a slow phone link carries.
+	 */
+	fitShort?: number;
+	/** JPEG quality on ffmpeg's 2–31 scale (lower is better; stills default to 3). */
+	quality?: number;
 }
+
+/** Segment posters: the smallest version's box, at a quality where a busy picture stays clear. */
+export const PHONE_POSTER = { fitShort: LADDER[0].short, quality: 5 } as const;
 
 /** Where posters are taken, as fractions of the duration: 10%, 50%, 90% for three. */
 export function posterFractions(count: number): number[] {
@@ -275,13 +286,14 @@ export async function makePosters(
 	outputDir: string,
 	opts: PosterOptions
 ): Promise<string[]> {
-	const { durationSeconds, count = 3, maxWidth = BOX_LONG } = opts;
+	const { durationSeconds, count = 3, maxWidth = BOX_LONG, fitShort, quality } = opts;
+	const filter = fitShort ? fitBoxFilter(boxLong(fitShort), fitShort) : fitWidthFilter(maxWidth);
 	await mkdir(outputDir, { recursive: true });
 	const paths: string[] = [];
 	for (const [index, fraction] of posterFractions(count).entries()) {
 		const path = join(outputDir, `${index + 1}.jpg`);
 		const grab = (seconds: number) =>
-			grabStill(input, seconds, path, { filter: fitWidthFilter(maxWidth), ...control(opts) });
+			grabStill(input, seconds, path, { filter, quality, ...control(opts) });
 		await grab(Math.max(0, durationSeconds * fraction));
 		// A soundtrack that outlasts the picture can put a late seek past the last frame.
 		if (!(await nonEmptyFile(path))) await grab(0);

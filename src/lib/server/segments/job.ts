@@ -8,7 +8,7 @@ import { db } from '../db';
 import { recordings, segments, type Job } from '../db/schema';
 import type { JobContext, JobHandler } from '../jobs/engine';
 import { cutSegment } from '../media/cut';
-import { makePosters } from '../media/outputs';
+import { makePosters, PHONE_POSTER } from '../media/outputs';
 import { planVersions, type StoredVersion } from '../../media/ladder';
 import { deleteObject, headObject, presignRead, putObject } from '../storage';
 import { recordingKeys } from '../storage/keys';
@@ -122,6 +122,7 @@ async function cutSegmentJob(input: CutInput, context: JobContext): Promise<CutR
 		const posters = await makePosters(clip, join(dir, 'posters'), {
 			durationSeconds,
 			count: SEGMENT_POSTER_COUNT,
+			...PHONE_POSTER,
 			signal
 		});
 		signal.throwIfAborted();
