@@ -16,6 +16,9 @@ const config = {
 		},
 		// The patient pages register it themselves (src/lib/offline/register.ts): staff never get it.
 		serviceWorker: { register: false },
+		// Served at the site root: resolve() gives root paths ('/patients'), in rendered links and
+		// in redirects alike, rather than ones relative to the page being rendered ('../patients').
+		paths: { relative: false },
 		// Auth.js relies on SvelteKit's Origin check for form posts (on by default; never turn it off).
 		csp: {
 			mode: 'auto',
