@@ -19,8 +19,10 @@ describe('list sorting links', () => {
 
 	it('keeps the other parameters, goes back to page one and leaves defaults out', () => {
 		const url = new URL('https://clinic.example/recordings?q=knee&page=3&status=ready');
-		expect(sortHref(url, current, 'title', 'asc')).toBe('?q=knee&status=ready&sort=title&dir=asc');
+		expect(sortHref(url, current, 'title', 'asc')).toBe(
+			'/recordings?q=knee&status=ready&sort=title&dir=asc'
+		);
 		expect(withParams(url, { q: '', status: null, page: null })).toBe('/recordings');
-		expect(withParams(url, { page: 4 })).toBe('?q=knee&page=4&status=ready');
+		expect(withParams(url, { page: 4 })).toBe('/recordings?q=knee&page=4&status=ready');
 	});
 });

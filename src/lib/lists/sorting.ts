@@ -4,6 +4,8 @@
  * for it. The server reads the same `sort`, `dir` and `page` parameters.
  */
 
+import type { ResolvedPathname } from '$app/types';
+
 export type SortDirection = 'asc' | 'desc';
 
 export interface SortState<Key extends string> {
@@ -45,14 +47,16 @@ export const DIRECTION_WORDS: Record<SortDirection, 'ascending' | 'descending'> 
 export function withParams(
 	url: URL,
 	changes: Record<string, string | number | null | undefined>
-): string {
+): ResolvedPathname {
 	const params = new URLSearchParams(url.searchParams);
 	for (const [key, value] of Object.entries(changes)) {
 		if (value === null || value === undefined || value === '') params.delete(key);
 		else params.set(key, String(value));
 	}
 	const text = params.toString();
-	return text ? `?${text}` : url.pathname;
+	// The page's own path already went through routing (and carries any base path), so it is
+	// resolved as it stands: only the query changes.
+	return (text ? `${url.pathname}?${text}` : url.pathname) as ResolvedPathname;
 }
 
 /** The address that sorts by `key`, back on the first page. */
@@ -61,7 +65,7 @@ export function sortHref<Key extends string>(
 	current: SortState<Key>,
 	key: Key,
 	firstDirection: SortDirection
-): string {
+): ResolvedPathname {
 	return withParams(url, {
 		sort: key,
 		dir: nextDirection(current, key, firstDirection),
