@@ -1,4 +1,5 @@
 import { error, redirect } from '@sveltejs/kit';
+import { resolve } from '$app/paths';
 import { getRequestEvent } from '$app/server';
 import type { Role } from '$lib/auth/roles';
 import type { Principal } from './principal';
@@ -18,7 +19,7 @@ export function requireUser(): Principal {
 	if (user) return user;
 	if (isEndpoint(event.route.id)) error(401, 'Sign in to continue.');
 	const next = event.url.pathname + event.url.search;
-	redirect(303, `/signin?next=${encodeURIComponent(next)}`);
+	redirect(303, resolve(`/signin?next=${encodeURIComponent(next)}`));
 }
 
 /** The caller, who must hold one of `roles`; otherwise 403. */

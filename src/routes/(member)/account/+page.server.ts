@@ -1,4 +1,5 @@
 import { fail, redirect } from '@sveltejs/kit';
+import { resolve } from '$app/paths';
 import { eq } from 'drizzle-orm';
 import { z } from 'zod';
 import { ROLE_LABELS } from '$lib/auth/roles';
@@ -46,7 +47,7 @@ export const actions: Actions = {
 		endSessionsOf(user.id, 'signed-out-everywhere', { by: user });
 		locals.user = null;
 		cookies.delete(sessionCookieName(url), { path: '/' });
-		redirect(303, '/signin?ended=everywhere');
+		redirect(303, resolve('/signin?ended=everywhere'));
 	},
 
 	password: async ({ request, locals }) => {

@@ -1,4 +1,5 @@
 import { CredentialsSignin } from '@auth/sveltekit';
+import { resolve } from '$app/paths';
 import { fail, isRedirect, redirect } from '@sveltejs/kit';
 import { z } from 'zod';
 import { ROLE_HOME } from '$lib/auth/roles';
@@ -23,7 +24,11 @@ export const load: PageServerLoad = ({ locals, url }) => {
 	if (locals.user)
 		redirect(
 			303,
-			safeRedirect(url.searchParams.get('next'), config().ORIGIN, ROLE_HOME[locals.user.role])
+			safeRedirect(
+				url.searchParams.get('next'),
+				config().ORIGIN,
+				resolve(ROLE_HOME[locals.user.role])
+			)
 		);
 	const code = url.searchParams.get('error');
 	return {
@@ -117,14 +122,14 @@ export const actions: Actions = {
 		// reveals neither the limit nor whether the address has an account. The signIn callback
 		// (src/auth.ts) enforces the limit and counts requests wherever they come from.
 		if (attemptLockout('link-request', email, event.getClientAddress()).locked)
-			redirect(303, '/signin/link-sent');
+			redirect(303, resolve('/signin/link-sent'));
 		try {
 			await signIn(event);
 		} catch (thrown) {
 			if (!isRedirect(thrown)) throw thrown;
 			// A refusal by the limit (a request racing past the check above) looks like any other.
 			const code = new URL(thrown.location, event.url).searchParams.get('error');
-			if (code === 'AccessDenied') redirect(303, '/signin/link-sent');
+			if (code === 'AccessDenied') redirect(303, resolve('/signin/link-sent'));
 			if (code) {
 				return fail(400, {
 					method: 'link',
@@ -132,7 +137,7 @@ export const actions: Actions = {
 					message: 'We could not send a link just now. Please try again in a minute.'
 				});
 			}
-			redirect(303, '/signin/link-sent');
+			redirect(303, resolve('/signin/link-sent'));
 		}
 		return fail(500, { method: 'link', email, message: 'Please try again.' });
 	}

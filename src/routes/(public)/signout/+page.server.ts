@@ -1,4 +1,5 @@
 import { redirect } from '@sveltejs/kit';
+import { resolve } from '$app/paths';
 import { endSession } from '$lib/server/auth/sessions';
 import { signOut } from '../../../auth';
 import type { Actions, PageServerLoad } from './$types';
@@ -20,6 +21,6 @@ export const actions: Actions = {
 			// Auth.js answers with a redirect; we choose where it lands.
 			if (!(thrown && typeof thrown === 'object' && 'location' in thrown)) throw thrown;
 		}
-		redirect(303, '/signin');
+		redirect(303, resolve('/signin'));
 	}
 };

@@ -1,4 +1,5 @@
 import { fail, redirect } from '@sveltejs/kit';
+import { resolve } from '$app/paths';
 import { requireRole } from '$lib/server/auth/guard';
 import { createExercise, ExerciseError, segmentChoices } from '$lib/server/exercises';
 import { draftFromForm, newExerciseDraft, parseDraft } from '$lib/exercises/form';
@@ -27,6 +28,6 @@ export const actions: Actions = {
 				return fail(409, { draft, problems: [{ path: 'segmentId', message: e.message }] });
 			throw e;
 		}
-		redirect(303, `/exercises/${id}?saved=1`);
+		redirect(303, resolve('/(clinician)/exercises/[id=id]?saved=1', { id }));
 	}
 };

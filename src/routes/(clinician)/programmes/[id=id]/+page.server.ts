@@ -1,4 +1,5 @@
 import { error, fail, redirect } from '@sveltejs/kit';
+import { resolve } from '$app/paths';
 import { requireRole } from '$lib/server/auth/guard';
 import {
 	copyProgramme,
@@ -68,6 +69,6 @@ export const actions: Actions = {
 	copy: async ({ params }) => {
 		const { clinician, view } = ownProgramme(params.id);
 		const copy = copyProgramme(clinician, params.id, patientToday(view.patient));
-		redirect(303, `/programmes/${copy.id}`);
+		redirect(303, resolve('/(clinician)/programmes/[id=id]', { id: copy.id }));
 	}
 };

@@ -1,4 +1,5 @@
 import { error, fail, redirect } from '@sveltejs/kit';
+import { resolve } from '$app/paths';
 import { z } from 'zod';
 import { isLocalDate } from '$lib/clinical/calendar';
 import { requireRole } from '$lib/server/auth/guard';
@@ -77,6 +78,6 @@ export const actions: Actions = {
 			if (e instanceof ProgrammeError) return fail(e.status, { message: e.message, values });
 			throw e;
 		}
-		redirect(303, `/programmes/${id}`);
+		redirect(303, resolve('/(clinician)/programmes/[id=id]', { id }));
 	}
 };

@@ -1,4 +1,5 @@
 import { fail, redirect } from '@sveltejs/kit';
+import { resolve } from '$app/paths';
 import { parseRecordingTitle } from '$lib/recordings/formats';
 import {
 	CaptionError,
@@ -63,7 +64,10 @@ export const actions: Actions = {
 		const track =
 			firstCaptionsTrack(clinician.clinicId, recording.id) ??
 			createTrack(recording, { kind: 'captions', language: 'en-GB' });
-		redirect(303, `/recordings/${recording.id}/studio?track=${track.id}`);
+		redirect(
+			303,
+			resolve(`/(clinician)/recordings/[id=id]/studio?track=${track.id}`, { id: recording.id })
+		);
 	},
 	rename: async ({ params, request }) => {
 		const { recording } = requireOwnRecording(params.id);
@@ -139,6 +143,6 @@ export const actions: Actions = {
 	delete: async ({ params }) => {
 		const { recording } = requireOwnRecording(params.id);
 		await deleteRecording(recording);
-		redirect(303, '/recordings?deleted=1');
+		redirect(303, resolve('/recordings?deleted=1'));
 	}
 };

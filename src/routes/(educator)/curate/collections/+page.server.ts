@@ -1,4 +1,5 @@
 import { fail, redirect } from '@sveltejs/kit';
+import { resolve } from '$app/paths';
 import { z } from 'zod';
 import { requireRole } from '$lib/server/auth/guard';
 import { createCollection, listCollections } from '$lib/server/library/collections';
@@ -30,6 +31,6 @@ export const actions: Actions = {
 			title: parsed.data.title,
 			introduction: ''
 		});
-		redirect(303, `/curate/collections/${collection.id}`);
+		redirect(303, resolve('/(educator)/curate/collections/[id=id]', { id: collection.id }));
 	}
 };

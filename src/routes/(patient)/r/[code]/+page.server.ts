@@ -1,4 +1,5 @@
 import { error, redirect } from '@sveltejs/kit';
+import { resolve } from '$app/paths';
 import { readReplayCode } from '$lib/programmes/replay-code';
 import { ownItemByCode } from '$lib/server/programmes/sheet';
 import { requirePatient } from '$lib/server/sessions/guard';
@@ -14,5 +15,5 @@ export const load: PageServerLoad = async ({ params }) => {
 	const code = readReplayCode(params.code);
 	const itemId = code ? await ownItemByCode(patient.id, code) : undefined;
 	if (!itemId) error(404, 'Not found.');
-	redirect(303, `/replay/${itemId}`);
+	redirect(303, resolve('/(patient)/replay/[id=id]', { id: itemId }));
 };

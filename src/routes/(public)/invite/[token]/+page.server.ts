@@ -1,4 +1,5 @@
 import { error, fail, redirect } from '@sveltejs/kit';
+import { resolve } from '$app/paths';
 import { z } from 'zod';
 import { ROLE_LABELS } from '$lib/auth/roles';
 import { recordAudit } from '$lib/server/audit';
@@ -92,8 +93,8 @@ export const actions: Actions = {
 				subject: accepted.email,
 				detail: { method: 'invitation link' }
 			});
-			redirect(303, '/today');
+			redirect(303, resolve('/today'));
 		}
-		redirect(303, `/signin?welcome=1&email=${encodeURIComponent(accepted.email)}`);
+		redirect(303, resolve(`/signin?welcome=1&email=${encodeURIComponent(accepted.email)}`));
 	}
 };

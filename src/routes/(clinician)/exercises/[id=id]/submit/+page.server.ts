@@ -1,4 +1,5 @@
 import { error, fail, redirect } from '@sveltejs/kit';
+import { resolve } from '$app/paths';
 import { captionChangeRows, captionChangeSummary } from '$lib/library/caption-changes';
 import { computeCaptionChecklist, computeChecklist } from '$lib/library/checklist';
 import { isCueFix } from '$lib/library/cue-fixes';
@@ -221,7 +222,10 @@ export const actions: Actions = {
 			}
 			throw e;
 		}
-		redirect(303, `/exercises/${exercise.id}/submit?sent=captions`);
+		redirect(
+			303,
+			resolve('/(clinician)/exercises/[id=id]/submit?sent=captions', { id: exercise.id })
+		);
 	},
 	submit: async ({ params, request }) => {
 		const { clinician, exercise, segment } = loadExercise(params.id);
@@ -246,6 +250,6 @@ export const actions: Actions = {
 			}
 			throw e;
 		}
-		redirect(303, `/exercises/${exercise.id}/submit?sent=1`);
+		redirect(303, resolve('/(clinician)/exercises/[id=id]/submit?sent=1', { id: exercise.id }));
 	}
 };

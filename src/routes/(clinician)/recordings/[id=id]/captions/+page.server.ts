@@ -1,4 +1,5 @@
 import { error, fail, redirect } from '@sveltejs/kit';
+import { resolve } from '$app/paths';
 import { z } from 'zod';
 import { checkCues, profiles } from '$lib/captions/checks';
 import { diffCues } from '$lib/captions/diff';
@@ -104,7 +105,10 @@ export const actions: Actions = {
 			}
 			throw problem;
 		}
-		redirect(303, `/recordings/${recording.id}/captions?track=${id}`);
+		redirect(
+			303,
+			resolve(`/(clinician)/recordings/[id=id]/captions?track=${id}`, { id: recording.id })
+		);
 	},
 	import: async ({ params, request }) => {
 		const { clinician, recording } = requireOwnRecording(params.id);

@@ -1,4 +1,5 @@
 import { error, fail, redirect } from '@sveltejs/kit';
+import { resolve } from '$app/paths';
 import { z } from 'zod';
 import { diffCues } from '$lib/captions/diff';
 import { plainText } from '$lib/captions/text';
@@ -165,7 +166,10 @@ export const actions: Actions = {
 		}
 		redirect(
 			303,
-			`/curate/submissions/${params.id}?decided=${result.decision}${result.mailed ? '' : '&unmailed=1'}`
+			resolve(
+				`/(educator)/curate/submissions/[id=id]?decided=${result.decision}${result.mailed ? '' : '&unmailed=1'}`,
+				{ id: params.id }
+			)
 		);
 	}
 };
