@@ -15,9 +15,7 @@ export default ts.config(
 	{
 		languageOptions: { globals: { ...globals.browser, ...globals.node } },
 		rules: {
-			'no-undef': 'off',
-			// Kinelume is served at the site root (no kit.paths.base), so plain hrefs are right.
-			'svelte/no-navigation-without-resolve': 'off'
+			'no-undef': 'off'
 		}
 	},
 	{
@@ -31,6 +29,16 @@ export default ts.config(
 			}
 		},
 		rules: { '@typescript-eslint/no-floating-promises': 'error' }
+	},
+	{
+		// Internal links go through resolve() from $app/paths (svelte/no-navigation-without-resolve,
+		// on from the recommended set). These two patient pages are being changed elsewhere just now;
+		// their links move to resolve() with that change, and then this exception goes.
+		files: [
+			'src/routes/(patient)/replay/**/+page.svelte',
+			'src/routes/(patient)/today/+page.svelte'
+		],
+		rules: { 'svelte/no-navigation-without-resolve': ['error', { ignoreLinks: true }] }
 	},
 	{
 		// The app runs ffmpeg only through src/lib/server/media/ffmpeg.ts, and never carries the
