@@ -8,16 +8,12 @@ import {
 	uniqueIndex
 } from 'drizzle-orm/sqlite-core';
 import { timestampNow, uuidPrimaryKey } from './columns';
-import type { DosageBounds, Progression } from '../../../dosage/types';
+import type { Progression } from '../../../dosage/types';
 import type { Weekday } from '../../../clinical/calendar';
 import type { RangeGuide } from '../../../clinical/range-guides';
 import { ARM_POSITIONS, ROM_INSTRUMENTS } from '../../../clinical/rom';
-import {
-	EXERCISE_SIDES,
-	EXERCISE_STATUSES,
-	MOVEMENT_TYPES,
-	POSITIONS
-} from '../../../exercises/vocabulary';
+import { dosageColumns } from '../../../dosage/columns';
+import { exerciseColumns } from '../../../exercises/columns';
 import { users } from './auth';
 import { clinics } from './clinics';
 import { patients } from './patients';
@@ -25,22 +21,6 @@ import { segments } from './segments';
 
 export const PROGRAMME_STATUSES = ['draft', 'published', 'ended'] as const;
 export const ROM_MODES = ['active', 'passive'] as const;
-
-/** A coaching cue, in order; `atSeconds` points at the moment in the segment it describes. */
-export interface CoachingCue {
-	text: string;
-	atSeconds?: number;
-}
-
-/** The six dosage columns, shared by an exercise's default and a programme item's own dosage. */
-const dosageColumns = () => ({
-	sets: integer('sets').notNull(),
-	reps: integer('reps').notNull(),
-	holdSeconds: integer('hold_seconds').notNull().default(0),
-	restSeconds: integer('rest_seconds').notNull().default(0),
-	sessionsPerDay: integer('sessions_per_day').notNull(),
-	daysPerWeek: integer('days_per_week').notNull()
-});
 
 /** An exercise a clinic prescribes: a segment of a demonstration plus what to do and what to mind. */
 export const exercises = sqliteTable(
@@ -50,36 +30,9 @@ export const exercises = sqliteTable(
 		clinicId: text('clinic_id')
 			.notNull()
 			.references(() => clinics.id, { onDelete: 'cascade' }),
-		/** The demonstration; kept null (not deleted) if its recording goes, so programmes survive. */
-		segmentId: text('segment_id').references(() => segments.id, { onDelete: 'set null' }),
-		title: text('title').notNull(),
-		description: text('description').notNull().default(''),
-		bodyRegion: text('body_region').notNull(),
-		side: text('side', { enum: EXERCISE_SIDES }).notNull().default('not applicable'),
-		position: text('position', { enum: POSITIONS }).notNull(),
-		movementType: text('movement_type', { enum: MOVEMENT_TYPES }).notNull(),
-		equipment: text('equipment', { mode: 'json' }).notNull().$type<string[]>().default([]),
-		/** Protocol phase from 1 (earliest); see lib/clinical/phases. */
-		phase: integer('phase').notNull().default(1),
-		coachingCues: text('coaching_cues', { mode: 'json' })
-			.notNull()
-			.$type<CoachingCue[]>()
-			.default([]),
-		/** Markdown; rendered with marked and cleaned with sanitize-html on an allow-list. */
-		safetyNotes: text('safety_notes').notNull().default(''),
-		precautionTags: text('precaution_tags', { mode: 'json' })
-			.notNull()
-			.$type<string[]>()
-			.default([]),
-		...dosageColumns(),
-		dosageBounds: text('dosage_bounds', { mode: 'json' }).$type<DosageBounds>(),
-		progression: text('progression', { mode: 'json' })
-			.notNull()
-			.$type<Progression>()
-			.default({ kind: 'none' }),
-		/** Seconds one repetition takes, when the segment's length per rep would mislead. */
-		secondsPerRep: real('seconds_per_rep'),
-		status: text('status', { enum: EXERCISE_STATUSES }).notNull().default('draft'),
+		// What the exercise is (its demonstration, words, dosage, status) is written once, in
+		// lib/exercises/columns.
+		...exerciseColumns(() => segments.id),
 		createdBy: text('created_by').references(() => users.id, { onDelete: 'set null' }),
 		createdAt: timestampNow('created_at'),
 		updatedAt: timestampNow('updated_at')
