@@ -2,7 +2,8 @@ import { describe, expect, it } from 'vitest';
 import type { Cue } from '$lib/captions/types';
 import { parseDraft } from '$lib/exercises/form';
 import { draftExercise } from './exercise-draft';
-import { proposalRow, rowFieldName, rowsFromForm } from './exercise-proposals';
+import { proposalRow, rowsFromForm } from './exercise-proposals';
+import { rowFieldName } from './proposed-fields';
 
 // An invented narration, written for this test.
 const cues: Cue[] = [

@@ -7,20 +7,8 @@
  */
 import { DOSAGE_FIELDS, type DosageField } from '$lib/dosage/types';
 import { newExerciseDraft, type ExerciseDraft as ExerciseFormDraft } from '$lib/exercises/form';
+import { PROPOSED_FIELDS, rowFieldName, type ProposedField } from './proposed-fields';
 import type { ExerciseDraft as NarrationDraft, Proposal } from './exercise-draft';
-
-/** The exercise form fields a narration can fill. */
-export const PROPOSED_FIELDS = [
-	'title',
-	'bodyRegion',
-	'position',
-	'movementType',
-	'side',
-	'equipment',
-	'safetyNotes',
-	...DOSAGE_FIELDS
-] as const;
-export type ProposedField = (typeof PROPOSED_FIELDS)[number];
 
 /** One segment's draft exercise as a form row. */
 export interface ProposalRow {
@@ -81,13 +69,6 @@ export function proposalRow(
 		}
 	}
 	return { segmentId: segment.id, segmentTitle: segment.title, draft, from, settle };
-}
-
-/** The form name of a row's field: `row-<index>-<field>` (dosage fields as `row-<i>-dosage.sets`). */
-export function rowFieldName(index: number, field: ProposedField): string {
-	return (DOSAGE_FIELDS as readonly string[]).includes(field)
-		? `row-${index}-dosage.${field}`
-		: `row-${index}-${field}`;
 }
 
 /**

@@ -2,11 +2,16 @@
  * An exercise's stored fields, written once. These columns make the `exercise` table
  * (src/lib/server/db/schema/programmes.ts adds what is the clinic's: id, clinic, author, times),
  * and the rest is derived from them:
- * - `ExerciseFields`, a stored exercise's fields (the columns' `$inferSelect`).
+ * - `ExerciseFields`, a stored exercise's fields (the columns' `$inferSelect`);
+ * - the zod schema forms and endpoints check with ($lib/exercises/schema: drizzle-zod's schema of
+ *   these columns, refined with our words and limits);
+ * - the exercise form's text fields ($lib/exercises/form).
  * Only Drizzle's column definitions are imported here (no database driver), so browser code may
- * load it; `$lib/server` may not be imported there.
+ * load it; `$lib/server` may not be imported there. DEVELOPERS.md, "Adding a stored exercise
+ * field (worked example)", walks a new field through.
  */
 // Relative imports only: drizzle-kit loads this through the schema, without SvelteKit's aliases.
+import { getTableColumns } from 'drizzle-orm';
 import { integer, real, sqliteTable, text, type AnySQLiteColumn } from 'drizzle-orm/sqlite-core';
 import { dosageColumns } from '../dosage/columns';
 import type { DosageBounds, Progression } from '../dosage/types';
@@ -67,3 +72,9 @@ export const exerciseFields = sqliteTable('exercise', exerciseColumns());
 /** A stored exercise's own fields (a row of `exercises` has these and the clinic's columns). */
 export type ExerciseFields = typeof exerciseFields.$inferSelect;
 export type ExerciseField = keyof ExerciseFields;
+
+/** Each stored field's column: its type, whether it may be null, its default. */
+export const EXERCISE_COLUMNS = getTableColumns(exerciseFields);
+
+/** The field names in column order. */
+export const EXERCISE_FIELDS = Object.keys(EXERCISE_COLUMNS) as ExerciseField[];

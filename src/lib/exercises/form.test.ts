@@ -1,14 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import {
-	draftFromExercise,
-	draftFromForm,
-	formatCueTime,
-	newExerciseDraft,
-	parseCueTime,
-	parseDraft,
-	splitList,
-	type ExerciseFields
-} from './form';
+import { draftFromExercise, draftFromForm, newExerciseDraft, parseDraft } from './form';
+import type { ExerciseFields } from './columns';
+import { formatCueTime, parseCueTime, splitList } from './form-text';
 
 const SEGMENT = '6f1c2d3e-4a5b-4c6d-8e7f-901234567890';
 
@@ -104,6 +97,26 @@ describe('parseDraft', () => {
 		expect(byPath['dosage.reps']).toMatch(/Reps is missing/);
 	});
 
+	it('lists problems in the form’s order, the demonstration first', () => {
+		const parsed = parseDraft({
+			...filled(),
+			segmentId: 'not a segment',
+			title: '',
+			phase: '',
+			dosage: { ...filled().dosage, reps: '' },
+			secondsPerRep: 'soon'
+		});
+		expect(parsed.ok).toBe(false);
+		if (parsed.ok) return;
+		expect(parsed.problems).toEqual([
+			{ path: 'segmentId', message: 'Choose a demonstration segment.' },
+			{ path: 'title', message: 'Give the exercise a title.' },
+			{ path: 'phase', message: 'Choose the phase.' },
+			{ path: 'dosage.reps', message: expect.stringMatching(/^Reps is missing/) },
+			{ path: 'secondsPerRep', message: 'Seconds per rep must be a number, for example 4.' }
+		]);
+	});
+
 	it('refuses a default dosage outside the exercise’s own range', () => {
 		const draft = filled();
 		draft.bounds.reps = { min: '10', max: '15' };
@@ -152,6 +165,21 @@ describe('parseDraft', () => {
 });
 
 describe('drafts from forms and exercises', () => {
+	it('starts a new exercise at each column’s default, on the affected side', () => {
+		const draft = newExerciseDraft(SEGMENT);
+		expect(draft).toMatchObject({
+			title: '',
+			description: '',
+			side: 'either',
+			equipment: '',
+			phase: '1',
+			secondsPerRep: '',
+			segmentId: SEGMENT,
+			status: 'draft',
+			progression: { kind: 'none' }
+		});
+	});
+
 	it('round-trips a stored exercise through its draft', () => {
 		const stored: ExerciseFields = {
 			title: 'Sit to stand',

@@ -1,46 +1,51 @@
 /**
  * An exercise form as typed: every field kept as text, so a refused save shows exactly what the
  * clinician entered. `draftFromForm` reads a submitted form, `draftFromExercise` fills the form
- * from a stored exercise, and `parseDraft` turns a draft into checked input.
+ * from a stored exercise, and `parseDraft` turns a draft into checked input. For the server (it
+ * brings the schema, and with it drizzle-zod); the browser's helpers are in ./form-text.
  */
 import { resolveTag, EXERCISE_TAGS, type ExerciseTag } from '$lib/clinical/precautions';
+import { DOSAGE_FIELDS, suggestedStartingDosage, type Dosage, type DosageField } from '$lib/dosage';
 import {
-	DOSAGE_FIELDS,
-	suggestedStartingDosage,
-	type Dosage,
-	type DosageBounds,
-	type DosageField,
-	type Progression
-} from '$lib/dosage';
+	EXERCISE_COLUMNS,
+	EXERCISE_FIELDS,
+	type ExerciseField,
+	type ExerciseFields
+} from './columns';
+import {
+	formatCueTime,
+	parseCueTime,
+	progressionDraft,
+	progressionFromDraft,
+	splitList,
+	type CueDraft,
+	type ProgressionDraft
+} from './form-text';
 import { exerciseInputSchema, type ExerciseInput } from './schema';
-import type { ExerciseSide, ExerciseStatus, MovementType, Position } from './vocabulary';
 
-export interface CueDraft {
-	text: string;
-	/** "m:ss", "ss" or empty. */
-	at: string;
-}
+/**
+ * The stored fields with a draft part of their own (below), not one input holding the field's
+ * text: key points (words and a time each), precaution tags (ticked ids and free text), the
+ * starting dosage, its range and the progression.
+ */
+type OwnPart = 'coachingCues' | 'precautionTags' | DosageField | 'dosageBounds' | 'progression';
+const OWN_PARTS: readonly string[] = [
+	'coachingCues',
+	'precautionTags',
+	...DOSAGE_FIELDS,
+	'dosageBounds',
+	'progression'
+] satisfies readonly OwnPart[];
 
-export interface ProgressionDraft {
-	kind: string;
-	addPerWeek: string;
-	ceiling: string;
-	addAfterWeeks: string;
-	add: string;
-}
+/**
+ * Every other stored field is one input, named as the field is, whose text the draft keeps: a
+ * list (equipment) as its items comma-separated, a number or an empty value as typed.
+ */
+export type TextField = Exclude<ExerciseField, OwnPart>;
+export const TEXT_FIELDS = EXERCISE_FIELDS.filter((f): f is TextField => !OWN_PARTS.includes(f));
 
-export interface ExerciseDraft {
-	title: string;
-	description: string;
-	bodyRegion: string;
-	side: string;
-	position: string;
-	movementType: string;
-	/** Comma-separated. */
-	equipment: string;
-	phase: string;
+export type ExerciseDraft = Record<TextField, string> & {
 	cues: CueDraft[];
-	safetyNotes: string;
 	/** Vocabulary tags ticked, by id. */
 	tags: string[];
 	/** Free-text tags, comma-separated. */
@@ -48,67 +53,7 @@ export interface ExerciseDraft {
 	dosage: Record<DosageField, string>;
 	bounds: Record<DosageField, { min: string; max: string }>;
 	progression: ProgressionDraft;
-	secondsPerRep: string;
-	segmentId: string;
-	status: string;
-}
-
-/** The fields of a stored exercise a draft is made from. */
-export interface ExerciseFields extends Dosage {
-	title: string;
-	description: string;
-	bodyRegion: string;
-	side: ExerciseSide;
-	position: Position;
-	movementType: MovementType;
-	equipment: string[];
-	phase: number;
-	coachingCues: { text: string; atSeconds?: number }[];
-	safetyNotes: string;
-	precautionTags: string[];
-	dosageBounds: DosageBounds | null;
-	progression: Progression;
-	secondsPerRep: number | null;
-	segmentId: string | null;
-	status: ExerciseStatus;
-}
-
-const str = (n: number | undefined | null) => (n === undefined || n === null ? '' : String(n));
-
-/** Seconds as "m:ss" (with tenths when there are any), e.g. 72 → "1:12", 4.5 → "0:04.5". */
-export function formatCueTime(seconds: number): string {
-	const tenths = Math.round(seconds * 10);
-	const minutes = Math.floor(tenths / 600);
-	const rest = (tenths - minutes * 600) / 10;
-	const whole = Math.floor(rest);
-	const fraction = Math.round((rest - whole) * 10);
-	return `${minutes}:${String(whole).padStart(2, '0')}${fraction ? `.${fraction}` : ''}`;
-}
-
-/** "1:12", "72", "0:04.5" → seconds; "" → undefined; anything else → NaN (refused with a message). */
-export function parseCueTime(text: string): number | undefined {
-	const t = text.trim();
-	if (t === '') return undefined;
-	const m = /^(?:(\d{1,3}):)?(\d{1,4}(?:\.\d+)?)$/.exec(t);
-	if (!m) return Number.NaN;
-	const minutes = m[1] === undefined ? 0 : Number(m[1]);
-	const seconds = Number(m[2]);
-	if (m[1] !== undefined && seconds >= 60) return Number.NaN;
-	return minutes * 60 + seconds;
-}
-
-/** "Chair, towel,, step" → ["Chair", "towel", "step"], without repeats (ignoring case). */
-export function splitList(text: string): string[] {
-	const seen = new Set<string>();
-	const out: string[] = [];
-	for (const part of text.split(/[,\n]/)) {
-		const item = part.trim().replace(/\s+/g, ' ');
-		if (!item || seen.has(item.toLowerCase())) continue;
-		seen.add(item.toLowerCase());
-		out.push(item);
-	}
-	return out;
-}
+};
 
 function emptyBounds(): ExerciseDraft['bounds'] {
 	return Object.fromEntries(
@@ -120,51 +65,42 @@ function dosageDraft(d: Dosage): ExerciseDraft['dosage'] {
 	return Object.fromEntries(DOSAGE_FIELDS.map((f) => [f, String(d[f])])) as ExerciseDraft['dosage'];
 }
 
-/** A progression as form text. */
-export function progressionDraft(p: Progression): ProgressionDraft {
-	return {
-		kind: p.kind,
-		addPerWeek: p.kind === 'reps' ? str(p.addPerWeek) : p.kind === 'hold' ? str(p.addPerWeek) : '',
-		ceiling: p.kind === 'none' ? '' : str(p.ceiling),
-		addAfterWeeks: p.kind === 'sets' ? str(p.addAfterWeeks) : '',
-		add: p.kind === 'sets' ? str(p.add) : ''
-	};
+/** A stored value as its input's text: a list comma-separated, nothing as empty. */
+function asText(value: unknown): string {
+	if (value === null || value === undefined) return '';
+	if (Array.isArray(value)) return value.join(', ');
+	return typeof value === 'string' || typeof value === 'number' ? String(value) : '';
 }
 
-/** Form text of a progression as the shape progressionSchema checks (only the kind's own numbers). */
-export function progressionFromDraft(p: ProgressionDraft): Record<string, string> {
-	switch (p.kind) {
-		case 'reps':
-		case 'hold':
-			return { kind: p.kind, addPerWeek: p.addPerWeek, ceiling: p.ceiling };
-		case 'sets':
-			return { kind: p.kind, addAfterWeeks: p.addAfterWeeks, add: p.add, ceiling: p.ceiling };
-		default:
-			return { kind: p.kind };
+/** An input's text as its column stores it (the schema then checks it and words any refusal). */
+function fromText(field: TextField, text: string): unknown {
+	const column = EXERCISE_COLUMNS[field];
+	if (column.dataType === 'json') return splitList(text);
+	if (column.dataType === 'number') {
+		if (text.trim() === '') return column.notNull ? Number.NaN : null;
+		return Number(text);
 	}
+	if (!column.notNull) return text.trim() === '' ? null : text.trim();
+	return text;
 }
 
-/** The form for a new exercise: common-practice starting dosage, draft state. */
+function textFields(value: (field: TextField) => string): Record<TextField, string> {
+	return Object.fromEntries(TEXT_FIELDS.map((f) => [f, value(f)])) as Record<TextField, string>;
+}
+
+/** The form for a new exercise: each column's default, common-practice starting dosage, draft state. */
 export function newExerciseDraft(segmentId = ''): ExerciseDraft {
 	return {
-		title: '',
-		description: '',
-		bodyRegion: '',
+		...textFields((f) => asText(EXERCISE_COLUMNS[f].default)),
+		// The affected side is the usual answer; the column's default suits rows made elsewhere.
 		side: 'either',
-		position: '',
-		movementType: '',
-		equipment: '',
-		phase: '1',
+		segmentId,
 		cues: [],
-		safetyNotes: '',
 		tags: [],
 		otherTags: '',
 		dosage: dosageDraft(suggestedStartingDosage('movement')),
 		bounds: emptyBounds(),
-		progression: progressionDraft({ kind: 'none' }),
-		secondsPerRep: '',
-		segmentId,
-		status: 'draft'
+		progression: progressionDraft({ kind: 'none' })
 	};
 }
 
@@ -180,30 +116,19 @@ export function draftFromExercise(e: ExerciseFields): ExerciseDraft {
 	const bounds = emptyBounds();
 	for (const field of DOSAGE_FIELDS) {
 		const range = e.dosageBounds?.[field];
-		bounds[field] = { min: str(range?.min), max: str(range?.max) };
+		bounds[field] = { min: asText(range?.min), max: asText(range?.max) };
 	}
 	return {
-		title: e.title,
-		description: e.description,
-		bodyRegion: e.bodyRegion,
-		side: e.side,
-		position: e.position,
-		movementType: e.movementType,
-		equipment: e.equipment.join(', '),
-		phase: String(e.phase),
+		...textFields((f) => asText(e[f])),
 		cues: e.coachingCues.map((c) => ({
 			text: c.text,
 			at: c.atSeconds === undefined ? '' : formatCueTime(c.atSeconds)
 		})),
-		safetyNotes: e.safetyNotes,
 		tags,
 		otherTags: free.join(', '),
 		dosage: dosageDraft(e),
 		bounds,
-		progression: progressionDraft(e.progression),
-		secondsPerRep: str(e.secondsPerRep),
-		segmentId: e.segmentId ?? '',
-		status: e.status
+		progression: progressionDraft(e.progression)
 	};
 }
 
@@ -224,18 +149,10 @@ export function draftFromForm(form: FormData): ExerciseDraft {
 	}
 	const known = new Set(Object.keys(EXERCISE_TAGS));
 	return {
-		title: field(form, 'title'),
-		description: field(form, 'description'),
-		bodyRegion: field(form, 'bodyRegion'),
-		side: field(form, 'side'),
-		position: field(form, 'position'),
-		movementType: field(form, 'movementType'),
-		equipment: field(form, 'equipment'),
-		phase: field(form, 'phase'),
+		...textFields((f) => field(form, f)),
 		cues: cueTexts
 			.map((text, i) => ({ text, at: cueTimes[i] ?? '' }))
 			.filter((c) => c.text.trim() !== '' || c.at.trim() !== ''),
-		safetyNotes: field(form, 'safetyNotes'),
 		tags: form
 			.getAll('tag')
 			.map(String)
@@ -249,16 +166,8 @@ export function draftFromForm(form: FormData): ExerciseDraft {
 			ceiling: field(form, 'progression.ceiling'),
 			addAfterWeeks: field(form, 'progression.addAfterWeeks'),
 			add: field(form, 'progression.add')
-		},
-		secondsPerRep: field(form, 'secondsPerRep'),
-		segmentId: field(form, 'segmentId'),
-		status: field(form, 'status')
+		}
 	};
-}
-
-function optionalNumber(text: string): number | null {
-	const t = text.trim();
-	return t === '' ? null : Number(t);
 }
 
 export type ParsedDraft =
@@ -278,26 +187,15 @@ export function parseDraft(draft: ExerciseDraft): ParsedDraft {
 	}
 	const tags = [...draft.tags.map((id) => id as ExerciseTag), ...splitList(draft.otherTags)];
 	const result = exerciseInputSchema.safeParse({
-		title: draft.title,
-		description: draft.description,
-		bodyRegion: draft.bodyRegion,
-		side: draft.side,
-		position: draft.position,
-		movementType: draft.movementType,
-		equipment: splitList(draft.equipment),
-		phase: Number(draft.phase),
+		...Object.fromEntries(TEXT_FIELDS.map((f) => [f, fromText(f, draft[f])])),
 		coachingCues: draft.cues.map((c) => {
 			const at = parseCueTime(c.at);
 			return at === undefined ? { text: c.text } : { text: c.text, atSeconds: at };
 		}),
-		safetyNotes: draft.safetyNotes,
 		precautionTags: [...new Set(tags)],
 		dosage: draft.dosage,
 		bounds,
-		progression: progressionFromDraft(draft.progression),
-		secondsPerRep: optionalNumber(draft.secondsPerRep),
-		segmentId: draft.segmentId.trim() === '' ? null : draft.segmentId.trim(),
-		status: draft.status
+		progression: progressionFromDraft(draft.progression)
 	});
 	if (result.success) return { ok: true, input: result.data };
 	return {

@@ -1,17 +1,22 @@
 /**
  * What an exercise is made of, checked at the edge (form actions, JSON) with messages a clinician
- * can act on. The dosage parts come from $lib/dosage, so an exercise and a programme item are
- * checked alike.
+ * can act on. The fields and their types come from the columns (lib/exercises/columns, through
+ * drizzle-zod); the words and limits are here. The dosage parts come from $lib/dosage, so an
+ * exercise and a programme item are checked alike.
  */
+import { createInsertSchema } from 'drizzle-zod';
 import { z } from 'zod';
 import {
 	DOSAGE_FIELD_LABELS,
+	DOSAGE_FIELDS,
 	dosageBoundsSchema,
 	dosageSchema,
 	outOfBounds,
 	PROGRESSED_FIELD,
-	progressionSchema
+	progressionSchema,
+	type DosageField
 } from '$lib/dosage';
+import { exerciseFields } from './columns';
 import {
 	EXERCISE_SIDES,
 	EXERCISE_STATUSES,
@@ -51,43 +56,72 @@ export const coachingCueSchema = z.object({
 		.optional()
 });
 
+/**
+ * The stored fields as zod checks them: drizzle-zod's schema of the columns (lib/exercises/columns),
+ * each field refined with our words and limits. A field given no refinement here is still checked,
+ * by its column's type, with zod's own wording.
+ */
+export const exerciseFieldsSchema = createInsertSchema(exerciseFields, {
+	segmentId: z.uuid('Choose a demonstration segment.').nullable(),
+	title: text('the title', LIMITS.title).min(1, 'Give the exercise a title.'),
+	description: text('the description', LIMITS.description),
+	bodyRegion: text('the body region', LIMITS.bodyRegion).min(
+		1,
+		'Say which body region the exercise is for, for example Knee.'
+	),
+	side: z.enum(EXERCISE_SIDES, 'Choose which side the exercise works.'),
+	position: z.enum(POSITIONS, 'Choose the starting position.'),
+	movementType: z.enum(MOVEMENT_TYPES, 'Choose the movement type.'),
+	equipment: z
+		.array(text('each piece of equipment', LIMITS.equipmentItem).min(1))
+		.max(LIMITS.equipment, `List at most ${LIMITS.equipment} pieces of equipment.`),
+	phase: z
+		.number('Choose the phase.')
+		.int('Choose the phase.')
+		.min(1, 'Choose the phase.')
+		.max(PHASE_NUMBERS.length, 'Choose the phase.'),
+	coachingCues: z
+		.array(coachingCueSchema)
+		.max(LIMITS.cues, `Keep to ${LIMITS.cues} key points or fewer.`),
+	safetyNotes: text('the safety notes', LIMITS.safetyNotes),
+	precautionTags: z
+		.array(text('each precaution tag', LIMITS.tag).min(1))
+		.max(LIMITS.tags, `Keep to ${LIMITS.tags} precaution tags or fewer.`),
+	progression: progressionSchema,
+	secondsPerRep: z
+		.number('Seconds per rep must be a number, for example 4.')
+		.min(0.5, 'Seconds per rep must be from 0.5 to 120.')
+		.max(120, 'Seconds per rep must be from 0.5 to 120.')
+		.nullable(),
+	status: z.enum(EXERCISE_STATUSES, 'Choose draft, ready or retired.')
+});
+
+type StoredShape = typeof exerciseFieldsSchema.shape;
+type InputShape = Omit<StoredShape, DosageField | 'dosageBounds'> & {
+	dosage: typeof dosageSchema;
+	bounds: typeof dosageBoundsSchema;
+};
+
+/**
+ * The form sends the starting dosage as one `dosage` and its range as `bounds`: they take the
+ * place of the six dosage columns and `dosageBounds`, so problems are listed in the form's order.
+ */
+function inputShape(stored: StoredShape): InputShape {
+	const entries = Object.entries(stored).flatMap(([key, schema]): [string, z.ZodType][] => {
+		if (key === 'dosageBounds') {
+			return [
+				['dosage', dosageSchema],
+				['bounds', dosageBoundsSchema]
+			];
+		}
+		return (DOSAGE_FIELDS as readonly string[]).includes(key) ? [] : [[key, schema]];
+	});
+	return Object.fromEntries(entries) as InputShape;
+}
+
+/** An exercise as a form or an endpoint sends it, checked whole. */
 export const exerciseInputSchema = z
-	.object({
-		title: text('the title', LIMITS.title).min(1, 'Give the exercise a title.'),
-		description: text('the description', LIMITS.description),
-		bodyRegion: text('the body region', LIMITS.bodyRegion).min(
-			1,
-			'Say which body region the exercise is for, for example Knee.'
-		),
-		side: z.enum(EXERCISE_SIDES, 'Choose which side the exercise works.'),
-		position: z.enum(POSITIONS, 'Choose the starting position.'),
-		movementType: z.enum(MOVEMENT_TYPES, 'Choose the movement type.'),
-		equipment: z
-			.array(text('each piece of equipment', LIMITS.equipmentItem).min(1))
-			.max(LIMITS.equipment, `List at most ${LIMITS.equipment} pieces of equipment.`),
-		phase: z
-			.number('Choose the phase.')
-			.int('Choose the phase.')
-			.min(1, 'Choose the phase.')
-			.max(PHASE_NUMBERS.length, 'Choose the phase.'),
-		coachingCues: z
-			.array(coachingCueSchema)
-			.max(LIMITS.cues, `Keep to ${LIMITS.cues} key points or fewer.`),
-		safetyNotes: text('the safety notes', LIMITS.safetyNotes),
-		precautionTags: z
-			.array(text('each precaution tag', LIMITS.tag).min(1))
-			.max(LIMITS.tags, `Keep to ${LIMITS.tags} precaution tags or fewer.`),
-		dosage: dosageSchema,
-		bounds: dosageBoundsSchema,
-		progression: progressionSchema,
-		secondsPerRep: z
-			.number('Seconds per rep must be a number, for example 4.')
-			.min(0.5, 'Seconds per rep must be from 0.5 to 120.')
-			.max(120, 'Seconds per rep must be from 0.5 to 120.')
-			.nullable(),
-		segmentId: z.uuid('Choose a demonstration segment.').nullable(),
-		status: z.enum(EXERCISE_STATUSES, 'Choose draft, ready or retired.')
-	})
+	.object(inputShape(exerciseFieldsSchema.shape))
 	.superRefine((e, ctx) => {
 		const field = PROGRESSED_FIELD[e.progression.kind];
 		if (field && e.progression.kind !== 'none' && e.progression.ceiling < e.dosage[field]) {

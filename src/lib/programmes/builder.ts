@@ -10,7 +10,11 @@ import {
 	type DosageField,
 	type Progression
 } from '$lib/dosage';
-import { progressionDraft, progressionFromDraft, type ProgressionDraft } from '$lib/exercises/form';
+import {
+	progressionDraft,
+	progressionFromDraft,
+	type ProgressionDraft
+} from '$lib/exercises/form-text';
 import type { MovementType, Position } from '$lib/exercises/vocabulary';
 import type { Weekday } from '$lib/clinical/calendar';
 import { MAX_RANGE_GUIDES, type RangeGuide } from '$lib/clinical/range-guides';
