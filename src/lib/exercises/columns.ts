@@ -5,7 +5,8 @@
  * - `ExerciseFields`, a stored exercise's fields (the columns' `$inferSelect`);
  * - the zod schema forms and endpoints check with ($lib/exercises/schema: drizzle-zod's schema of
  *   these columns, refined with our words and limits);
- * - the exercise form's text fields ($lib/exercises/form).
+ * - the exercise form's text fields ($lib/exercises/form);
+ * - what the library freezes and the programme builder is sent (the lists below).
  * Only Drizzle's column definitions are imported here (no database driver), so browser code may
  * load it; `$lib/server` may not be imported there. DEVELOPERS.md, "Adding a stored exercise
  * field (worked example)", walks a new field through.
@@ -78,3 +79,54 @@ export const EXERCISE_COLUMNS = getTableColumns(exerciseFields);
 
 /** The field names in column order. */
 export const EXERCISE_FIELDS = Object.keys(EXERCISE_COLUMNS) as ExerciseField[];
+
+/**
+ * The fields a library submission freezes into its snapshot: what the public reads. Nothing of
+ * the clinic's own workings (status, demonstration id, pace, progression, dosage range); the
+ * starting dosage goes as the snapshot's `dosage`. A field added here reaches every new
+ * snapshot; snapshots frozen before lack it (lib/library/types types it optional).
+ */
+export const LIBRARY_FIELDS = [
+	'title',
+	'description',
+	'bodyRegion',
+	'side',
+	'position',
+	'movementType',
+	'equipment',
+	'phase',
+	'coachingCues',
+	'safetyNotes',
+	'precautionTags'
+] as const satisfies readonly ExerciseField[];
+export type LibraryField = (typeof LIBRARY_FIELDS)[number];
+
+/**
+ * The fields the programme builder is sent for each exercise it offers (kept short: the page
+ * carries a clinic's whole catalogue). The starting dosage and progression go as
+ * `defaultDosage` and `defaultProgression`.
+ */
+export const BUILDER_FIELDS = [
+	'title',
+	'bodyRegion',
+	'position',
+	'movementType',
+	'phase',
+	'equipment',
+	'precautionTags',
+	'dosageBounds',
+	'secondsPerRep',
+	'status'
+] as const satisfies readonly ExerciseField[];
+export type BuilderField = (typeof BUILDER_FIELDS)[number];
+
+/** A copy of the named fields of an exercise (a stored row may carry more). */
+export function pickFields<K extends ExerciseField>(
+	exercise: Pick<ExerciseFields, K>,
+	fields: readonly K[]
+): Pick<ExerciseFields, K> {
+	return structuredClone(Object.fromEntries(fields.map((f) => [f, exercise[f]]))) as Pick<
+		ExerciseFields,
+		K
+	>;
+}

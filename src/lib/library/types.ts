@@ -5,28 +5,45 @@
  */
 import type { Cue } from '../captions/types';
 import type { Dosage } from '../dosage/types';
+import type { ExerciseFields, LibraryField } from '../exercises/columns';
 
-/** A coaching cue in order; `atSeconds` points at the moment of the segment it describes. */
-export interface SnapshotCoachingCue {
-	text: string;
-	atSeconds?: number;
-}
+/** The fields every snapshot has had since the library began. */
+type FirstLibraryField =
+	| 'title'
+	| 'description'
+	| 'bodyRegion'
+	| 'side'
+	| 'position'
+	| 'movementType'
+	| 'equipment'
+	| 'phase'
+	| 'coachingCues'
+	| 'safetyNotes'
+	| 'precautionTags';
+
+/**
+ * A field as a snapshot keeps it: as the exercise stores it, except that a word from a vocabulary
+ * (a position, a side) is kept as text, since the vocabulary may drop a word a snapshot still has.
+ */
+type Frozen<T> = {
+	[K in keyof T]: NonNullable<T[K]> extends string
+		? string | Extract<T[K], null | undefined>
+		: T[K];
+};
+
+/**
+ * The exercise's own fields in a snapshot: the ones LIBRARY_FIELDS names (lib/exercises/columns).
+ * A field added to the library later is optional here, since snapshots frozen before it lack it.
+ */
+export type SnapshotFields = Frozen<
+	Pick<ExerciseFields, FirstLibraryField> &
+		Partial<Pick<ExerciseFields, Exclude<LibraryField, FirstLibraryField>>>
+>;
 
 /** An exercise frozen at submission time: what the public would see, and nothing of the clinic. */
-export interface ExerciseSnapshot {
-	title: string;
-	description: string;
-	bodyRegion: string;
-	side: string;
-	position: string;
-	movementType: string;
-	equipment: string[];
-	phase: number;
+export type ExerciseSnapshot = SnapshotFields & {
+	/** The starting dosage. */
 	dosage: Dosage;
-	coachingCues: SnapshotCoachingCue[];
-	/** Markdown, rendered with renderSafetyNotes. */
-	safetyNotes: string;
-	precautionTags: string[];
 	segment: {
 		id: string;
 		durationSeconds: number | null;
@@ -38,7 +55,7 @@ export interface ExerciseSnapshot {
 	};
 	/** The segment's captions, clipped to it and starting at zero. */
 	cues: Cue[];
-}
+};
 
 /**
  * Licences a clinician may choose for reuse. The Creative Commons ones need the credit line

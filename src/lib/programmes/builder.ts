@@ -3,43 +3,30 @@
  * loses nothing), and the moves it makes: add, remove, reorder. Shared by the page (live, in the
  * browser) and the form action (the same moves without JavaScript).
  */
-import {
-	DOSAGE_FIELDS,
-	type Dosage,
-	type DosageBounds,
-	type DosageField,
-	type Progression
-} from '$lib/dosage';
+import { DOSAGE_FIELDS, type Dosage, type DosageField, type Progression } from '$lib/dosage';
+import type { BuilderField, ExerciseFields } from '$lib/exercises/columns';
 import {
 	progressionDraft,
 	progressionFromDraft,
 	type ProgressionDraft
 } from '$lib/exercises/form-text';
-import type { MovementType, Position } from '$lib/exercises/vocabulary';
 import type { Weekday } from '$lib/clinical/calendar';
 import { MAX_RANGE_GUIDES, type RangeGuide } from '$lib/clinical/range-guides';
 import { untilText } from '$lib/clinical/until';
 import { moveBy } from '$lib/forms/reorder';
 
-/** An exercise as the builder offers it. */
-export interface BuilderExercise {
+/**
+ * An exercise as the builder offers it: the stored fields BUILDER_FIELDS names
+ * (lib/exercises/columns), and what the server works out for it.
+ */
+export type BuilderExercise = Pick<ExerciseFields, BuilderField> & {
 	id: string;
-	title: string;
-	bodyRegion: string;
-	position: Position;
-	movementType: MovementType;
-	phase: number;
-	equipment: string[];
-	precautionTags: string[];
-	dosageBounds: DosageBounds | null;
-	secondsPerRep: number | null;
 	segmentSeconds: number | null;
 	defaultDosage: Dosage;
 	defaultProgression: Progression;
 	posterUrl: string | null;
-	status: 'draft' | 'ready' | 'retired';
 	hasSegment: boolean;
-}
+};
 
 export interface ItemDraft {
 	/** Stable within the page, for keyed lists and focus. */

@@ -6,7 +6,7 @@
  * the server can repeat it. Each figure carries its basis; each hint its caution.
  */
 import { weeksSince, type LocalDate } from '$lib/clinical/calendar';
-import type { MovementType } from '$lib/exercises/vocabulary';
+import type { ExerciseFields } from '$lib/exercises/columns';
 import {
 	laterPhaseFlag,
 	phaseForWeek,
@@ -29,7 +29,6 @@ import {
 	weeklyVolume,
 	type BoundsIssue,
 	type Dosage,
-	type DosageBounds,
 	type RepPace,
 	type WeeklyVolume
 } from '$lib/dosage';
@@ -37,20 +36,18 @@ import { phaseOf } from '$lib/exercises/vocabulary';
 import { formatDate } from '$lib/followup/words';
 import type { MotionId } from '$lib/clinical/rom';
 
-export interface FigureExercise {
-	title: string;
-	phase: number;
-	precautionTags: string[];
-	/** With the body region, adds the tags the movement type implies (precautions.ts). */
-	movementType?: MovementType;
-	bodyRegion?: string;
-	dosageBounds: DosageBounds | null;
-	secondsPerRep: number | null;
-	/** The demonstration's length, when it has one. */
-	segmentSeconds: number | null;
-	/** The exercise's default reps (what the demonstration is taken to show). */
-	defaultReps: number;
-}
+/** What the figures read of an exercise: some of its stored fields, and its demonstration's length. */
+export type FigureExercise = Pick<
+	ExerciseFields,
+	'title' | 'phase' | 'precautionTags' | 'dosageBounds' | 'secondsPerRep'
+> &
+	/** With the body region, the movement type adds the tags it implies (precautions.ts). */
+	Partial<Pick<ExerciseFields, 'movementType' | 'bodyRegion'>> & {
+		/** The demonstration's length, when it has one. */
+		segmentSeconds: number | null;
+		/** The exercise's default reps (what the demonstration is taken to show). */
+		defaultReps: number;
+	};
 
 export interface FigurePatient {
 	operationDate: LocalDate | null;

@@ -3,6 +3,7 @@
  * search tests and the library benchmark, which need many published exercises fast. Never used
  * by the app itself.
  */
+import { MOVEMENT_TYPES, POSITIONS } from '../../lib/exercises/vocabulary';
 import type { ExerciseSnapshot } from '../../lib/library/types';
 import { db } from '../../lib/server/db';
 import { libraryExercises, libraryVersions } from '../../lib/server/db/schema';
@@ -67,8 +68,6 @@ const ACTIONS = [
 ];
 const PARTS = ['heel', 'knee', 'hip', 'ankle', 'toes', 'thigh', 'calf', 'foot', 'leg', 'trunk'];
 const REGIONS = ['Knee', 'Hip', 'Ankle and foot', 'Balance', 'Back', 'Whole body'];
-const POSITIONS = ['supine', 'prone', 'side-lying', 'seated', 'standing'];
-const MOVEMENTS = ['passive', 'active-assisted', 'active', 'resisted'];
 const EQUIPMENT = ['Chair', 'Towel', 'Step', 'Resistance band', 'Bed', 'Wall', 'Stick'];
 const FILLER = [
 	'slowly',
@@ -134,7 +133,7 @@ export function syntheticSnapshot(n: number, next: () => number): ExerciseSnapsh
 		bodyRegion: pick(REGIONS),
 		side: 'either',
 		position,
-		movementType: pick(MOVEMENTS),
+		movementType: pick(MOVEMENT_TYPES),
 		equipment:
 			next() < 0.5
 				? [pick(EQUIPMENT)]

@@ -7,6 +7,7 @@
 import { dosageOf } from '$lib/dosage';
 import { and, asc, desc, eq, inArray, ne } from 'drizzle-orm';
 import { diffCues, type CueDiff } from '$lib/captions/diff';
+import { LIBRARY_FIELDS, pickFields } from '$lib/exercises/columns';
 import { computeCaptionChecklist, computeChecklist, type Checklist } from '$lib/library/checklist';
 import type {
 	ExerciseSnapshot,
@@ -91,14 +92,10 @@ export function snapshotOf(
 		safetyNotes: exercise.safetyNotes
 	};
 	return {
+		// Every library field as the exercise stores it (a copy), then the public wording over it.
+		...pickFields(exercise, LIBRARY_FIELDS),
 		title: words.title.trim(),
 		description: words.description.trim(),
-		bodyRegion: exercise.bodyRegion,
-		side: exercise.side,
-		position: exercise.position,
-		movementType: exercise.movementType,
-		equipment: [...exercise.equipment],
-		phase: exercise.phase,
 		dosage: dosageOf(exercise),
 		coachingCues: words.coachingCues
 			.map((text) => text.trim())
@@ -108,7 +105,6 @@ export function snapshotOf(
 				return same?.atSeconds !== undefined ? { text, atSeconds: same.atSeconds } : { text };
 			}),
 		safetyNotes: words.safetyNotes.trim(),
-		precautionTags: [...exercise.precautionTags],
 		segment: {
 			id: segment.id,
 			durationSeconds: segment.clipDurationSeconds,

@@ -1,6 +1,7 @@
 import { and, eq, inArray, or } from 'drizzle-orm';
 import { itemFromSaved, type BuilderExercise, type ProgrammeDraft } from '$lib/programmes/builder';
 import type { Progression } from '$lib/dosage';
+import { BUILDER_FIELDS, pickFields } from '$lib/exercises/columns';
 import { db } from '../db';
 import { exercises } from '../db/schema';
 import { withSegments, type ExerciseRow } from '../exercises';
@@ -9,21 +10,12 @@ import { patientToday, type ProgrammeView } from './index';
 
 function toBuilderExercise(e: ExerciseRow): BuilderExercise {
 	return {
+		...pickFields(e, BUILDER_FIELDS),
 		id: e.id,
-		title: e.title,
-		bodyRegion: e.bodyRegion,
-		position: e.position,
-		movementType: e.movementType,
-		phase: e.phase,
-		equipment: e.equipment,
-		precautionTags: e.precautionTags,
-		dosageBounds: e.dosageBounds ?? null,
-		secondsPerRep: e.secondsPerRep,
 		segmentSeconds: e.segment?.durationSeconds ?? null,
 		defaultDosage: dosageOf(e),
 		defaultProgression: e.progression as Progression,
 		posterUrl: e.segment?.posterUrl ?? null,
-		status: e.status,
 		hasSegment: e.segment !== null
 	};
 }
