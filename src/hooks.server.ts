@@ -20,6 +20,7 @@ import { backgroundPlan } from '$lib/server/jobs/engine';
 import { withStorageOrigin } from '$lib/server/storage/media-urls';
 import { storageOrigin } from '$lib/server/storage/multipart';
 import { authHandle } from './auth';
+import { holdForFirstFrame } from '$lib/server/pages/replay-first';
 
 /** Fails start-up early with a sentence when configuration or the database is wrong. */
 export function init() {
@@ -142,14 +143,18 @@ const authorization: Handle = async ({ event, resolve }) => {
 
 /**
  * On a patient's replay the clip's first bytes go before the scripts: the page names no script
- * to preload (only its styles), so the browser's few connections to the app carry the poster's
- * and the clip's requests first, which the markup starts, and the scripts follow. The player
- * plays without them (the browser's own controls until they arrive). Measured in bench:network.
+ * to preload (only its styles), and its start-up and typeface wait for the clip's first frame
+ * and some seconds in hand (lib/server/pages/replay-first), so a slow link carries the poster
+ * and the clip first. The player plays without them (the browser's own controls until they
+ * arrive). Measured in bench:network.
  */
 const REPLAY_ROUTE = '/(patient)/replay/[id=id]';
 const replayFirst: Handle = ({ event, resolve }) =>
 	event.route.id === REPLAY_ROUTE
-		? resolve(event, { preload: ({ type }) => type === 'css' })
+		? resolve(event, {
+				preload: ({ type }) => type === 'css',
+				transformPageChunk: ({ html }) => holdForFirstFrame(html)
+			})
 		: resolve(event);
 
 /** Pages and JSON gzipped for browsers that accept it (lib/server/compress). */

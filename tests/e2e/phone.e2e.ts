@@ -16,7 +16,8 @@ import {
 	expectNoAxeViolations,
 	seedReadyRecording,
 	signInWithPassword,
-	open
+	open,
+	reload
 } from './support';
 
 const PHONE = { width: 390, height: 844 };
@@ -160,4 +161,41 @@ test('on a phone the next exercise is on Today’s first screen, and the upright
 		.toBeGreaterThan(7);
 	await fullyInView(page, 'replay-picture');
 	await page.screenshot({ path: join(SHOTS, 'phone-replay-after-seek.png') });
+});
+
+test('on a replay the page’s scripts start only after the clip’s first frame', async ({ page }) => {
+	// When the video had its first frame, seen from before any script of the page runs.
+	await page.addInitScript(() => {
+		const seen = window as unknown as { firstFrameAt?: number };
+		new MutationObserver((_, observer) => {
+			const video = document.querySelector('main video');
+			if (!video) return;
+			observer.disconnect();
+			video.addEventListener('loadeddata', () => (seen.firstFrameAt = performance.now()), {
+				once: true
+			});
+		}).observe(document, { childList: true, subtree: true });
+	});
+	await signInWithPassword(page, patientEmail);
+	// The notes were read in the test before or are read now: the page then opens on the video.
+	await open(page, `/replay/${itemId}`);
+	const gate = page.getByRole('button', { name: /I have read these notes/ });
+	if (await gate.isVisible()) {
+		await gate.click();
+		await expect(page.getByTestId('replay-video')).toBeVisible();
+		await reload(page);
+	}
+	const order = await page.evaluate(() => {
+		const firstFrameAt = (window as unknown as { firstFrameAt?: number }).firstFrameAt;
+		const start = performance
+			.getEntriesByType('resource')
+			.find((entry) => entry.name.includes('/_app/immutable/entry/start.'));
+		return { firstFrameAt, scriptsAskedAt: start?.startTime };
+	});
+	expect(order.firstFrameAt).toBeDefined();
+	expect(order.scriptsAskedAt).toBeDefined();
+	expect(order.scriptsAskedAt!).toBeGreaterThanOrEqual(order.firstFrameAt!);
+	// And the page works once they run: the player's own Play button, in the page's typeface.
+	await expect(page.getByRole('button', { name: 'Play' })).toBeVisible();
+	await expect(page.locator('html')).not.toHaveAttribute('data-fonts-held');
 });
