@@ -31,16 +31,6 @@ export default ts.config(
 		rules: { '@typescript-eslint/no-floating-promises': 'error' }
 	},
 	{
-		// Internal links go through resolve() from $app/paths (svelte/no-navigation-without-resolve,
-		// on from the recommended set). These two patient pages are being changed elsewhere just now;
-		// their links move to resolve() with that change, and then this exception goes.
-		files: [
-			'src/routes/(patient)/replay/**/+page.svelte',
-			'src/routes/(patient)/today/+page.svelte'
-		],
-		rules: { 'svelte/no-navigation-without-resolve': ['error', { ignoreLinks: true }] }
-	},
-	{
 		// The app runs ffmpeg only through src/lib/server/media/ffmpeg.ts, and never carries the
 		// demo renderer or other script code (src/scripts), so none of it reaches the build.
 		files: ['src/lib/**', 'src/routes/**', 'src/hooks.*.ts', 'src/auth.ts'],

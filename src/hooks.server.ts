@@ -8,6 +8,8 @@ import {
 } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
 import { dev } from '$app/environment';
+// Named apart from the handles' own `resolve`.
+import { resolve as pagePath } from '$app/paths';
 import { accessForRoute, decide } from '$lib/auth/access';
 import { loadPrincipal } from '$lib/server/auth/principal';
 import { runWithRequestContext } from '$lib/server/auth/request-context';
@@ -126,7 +128,7 @@ const authorization: Handle = async ({ event, resolve }) => {
 	const decision = decide(access, event.locals.user?.role ?? null);
 	if (decision === 'sign-in') {
 		const next = event.url.pathname + event.url.search;
-		redirect(303, `/signin?next=${encodeURIComponent(next)}`);
+		redirect(303, pagePath(`/signin?next=${encodeURIComponent(next)}`));
 	}
 	if (decision === 'forbidden') {
 		// A page of a role's group, merely viewed, gets its 403 from that group's layout load
