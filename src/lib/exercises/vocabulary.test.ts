@@ -1,8 +1,23 @@
 import { describe, expect, it } from 'vitest';
 import { PHASES } from '$lib/clinical/phases';
-import { PHASE_NUMBERS, phaseLabel, phaseOf } from './vocabulary';
+import {
+	EXERCISE_SIDES,
+	EXERCISE_STATUSES,
+	MOVEMENT_TYPES,
+	PHASE_NUMBERS,
+	POSITIONS,
+	phaseLabel,
+	phaseOf
+} from './vocabulary';
 
 describe('exercise vocabulary', () => {
+	it('takes each list of ids from its words, as stored and in the order written', () => {
+		expect(POSITIONS).toEqual(['supine', 'prone', 'side-lying', 'seated', 'standing']);
+		expect(MOVEMENT_TYPES).toEqual(['passive', 'active-assisted', 'active', 'resisted']);
+		expect(EXERCISE_SIDES).toEqual(['left', 'right', 'both', 'either', 'not applicable']);
+		expect(EXERCISE_STATUSES).toEqual(['draft', 'ready', 'retired']);
+	});
+
 	it('numbers phases from 1 in the order of the phase list', () => {
 		expect(PHASE_NUMBERS).toEqual([1, 2, 3, 4, 5]);
 		expect(phaseOf(1)).toBe(PHASES[0]);

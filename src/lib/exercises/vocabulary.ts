@@ -1,47 +1,50 @@
 /**
  * The words an exercise is described with, shared by forms, tables and the printed sheet. The
- * values are the ones the database stores (src/lib/server/db/schema/programmes.ts); the labels
+ * ids are the values the database stores (the columns in lib/exercises/columns); the labels
  * are what people read.
  */
 // Relative imports: drizzle-kit loads this through the schema, without SvelteKit's aliases.
 import { PHASES, PHASE_LABELS, type Phase } from '../clinical/phases';
 
-export const POSITIONS = ['supine', 'prone', 'side-lying', 'seated', 'standing'] as const;
-export type Position = (typeof POSITIONS)[number];
-export const POSITION_LABELS: Record<Position, string> = {
+/**
+ * A vocabulary's ids, in the order its labels are written: each vocabulary is one record of
+ * id → words, and its id list (for z.enum and Drizzle's enum columns) comes from it.
+ */
+function idsOf<K extends string>(labels: Record<K, unknown>): readonly [K, ...K[]] {
+	return Object.keys(labels) as [K, ...K[]];
+}
+
+export const POSITION_LABELS = {
 	supine: 'Supine (lying on the back)',
 	prone: 'Prone (lying face down)',
 	'side-lying': 'Side-lying',
 	seated: 'Seated',
 	standing: 'Standing'
-};
+} satisfies Record<string, string>;
+export type Position = keyof typeof POSITION_LABELS;
+export const POSITIONS = idsOf(POSITION_LABELS);
 
-export const MOVEMENT_TYPES = ['passive', 'active-assisted', 'active', 'resisted'] as const;
-export type MovementType = (typeof MOVEMENT_TYPES)[number];
-export const MOVEMENT_LABELS: Record<MovementType, string> = {
+export const MOVEMENT_LABELS = {
 	passive: 'Passive',
 	'active-assisted': 'Active-assisted',
 	active: 'Active',
 	resisted: 'Resisted'
-};
+} satisfies Record<string, string>;
+export type MovementType = keyof typeof MOVEMENT_LABELS;
+export const MOVEMENT_TYPES = idsOf(MOVEMENT_LABELS);
 
-export const EXERCISE_SIDES = ['left', 'right', 'both', 'either', 'not applicable'] as const;
-export type ExerciseSide = (typeof EXERCISE_SIDES)[number];
-export const SIDE_LABELS: Record<ExerciseSide, string> = {
+export const SIDE_LABELS = {
 	left: 'Left',
 	right: 'Right',
 	both: 'Both',
 	either: 'Either side (the affected one)',
 	'not applicable': 'Not applicable'
-};
+} satisfies Record<string, string>;
+export type ExerciseSide = keyof typeof SIDE_LABELS;
+export const EXERCISE_SIDES = idsOf(SIDE_LABELS);
 
-export const EXERCISE_STATUSES = ['draft', 'ready', 'retired'] as const;
-export type ExerciseStatus = (typeof EXERCISE_STATUSES)[number];
 /** Each state in words, with a tone for its badge (never colour alone). */
-export const EXERCISE_STATUS: Record<
-	ExerciseStatus,
-	{ label: string; tone: 'good' | 'waiting' | 'neutral'; help: string }
-> = {
+export const EXERCISE_STATUS = {
 	draft: { label: 'Draft', tone: 'waiting', help: 'Being written; not offered for programmes.' },
 	ready: { label: 'Ready', tone: 'good', help: 'Offered when building programmes.' },
 	retired: {
@@ -49,7 +52,9 @@ export const EXERCISE_STATUS: Record<
 		tone: 'neutral',
 		help: 'No longer offered; programmes that use it keep it.'
 	}
-};
+} satisfies Record<string, { label: string; tone: 'good' | 'waiting' | 'neutral'; help: string }>;
+export type ExerciseStatus = keyof typeof EXERCISE_STATUS;
+export const EXERCISE_STATUSES = idsOf(EXERCISE_STATUS);
 
 /** Suggestions offered while typing; any other words are allowed. */
 export const BODY_REGIONS = [
