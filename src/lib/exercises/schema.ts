@@ -59,7 +59,11 @@ export const coachingCueSchema = z.object({
 /**
  * The stored fields as zod checks them: drizzle-zod's schema of the columns (lib/exercises/columns),
  * each field refined with our words and limits. A field given no refinement here is still checked,
- * by its column's type, with zod's own wording.
+ * by its column's type, with zod's own wording. The fields here are whole schemas, so each is
+ * required as before; a field added later with a column default is better refined as a function
+ * of its column's schema ending in `.optional()` (`(s) => s.trim().max(…).optional()`), so code
+ * that makes exercises itself need not name it: drizzle-zod 0.8.3 makes such a field optional
+ * when it runs but not in its types, and the `.optional()` makes the two agree.
  */
 export const exerciseFieldsSchema = createInsertSchema(exerciseFields, {
 	segmentId: z.uuid('Choose a demonstration segment.').nullable(),
