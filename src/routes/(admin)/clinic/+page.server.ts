@@ -1,4 +1,6 @@
 import { fail } from '@sveltejs/kit';
+import { setError, superValidate } from 'sveltekit-superforms';
+import { zod4 } from 'sveltekit-superforms/adapters';
 import { z } from 'zod';
 import { STAFF_ROLES } from '$lib/server/db/schema/clinics';
 import { profiles } from '$lib/captions/checks';
@@ -23,13 +25,21 @@ import {
 } from '$lib/server/members';
 import type { Actions, PageServerLoad } from './$types';
 
-export const load: PageServerLoad = () => {
+export const load: PageServerLoad = async () => {
 	const admin = requireRole('admin');
 	return {
 		clinicName: admin.clinicName,
 		selfId: admin.id,
 		captionProfile: getClinicCaptionProfile(admin.clinicId),
-		timeZone: getClinicTimeZone(admin.clinicId),
+		inviteForm: await superValidate({ email: '', role: 'clinician' }, zod4(inviteForm), {
+			id: 'invite',
+			errors: false
+		}),
+		timeZoneForm: await superValidate(
+			{ timeZone: getClinicTimeZone(admin.clinicId) },
+			zod4(timeZoneForm),
+			{ id: 'timeZone', errors: false }
+		),
 		timeZones: COMMON_TIME_ZONES,
 		captionProfiles: Object.values(profiles).map((p) => ({
 			id: p.id,
@@ -61,40 +71,26 @@ const timeZoneForm = z.object({
 		.refine(isTimeZone, 'Choose a time zone from the list, e.g. Europe/London.')
 });
 
-function failed(
-	action: string,
-	message: string,
-	status = 400,
-	extra: Record<string, unknown> = {}
-) {
-	return fail(status, { action, message, ...extra });
+function failed(action: string, message: string, status = 400) {
+	return fail(status, { action, message });
 }
 
 export const actions: Actions = {
 	invite: async ({ request }) => {
 		const admin = requireRole('admin');
-		const raw = Object.fromEntries(await request.formData());
-		const parsed = inviteForm.safeParse(raw);
-		if (!parsed.success) {
-			return failed('invite', parsed.error.issues[0].message, 400, {
-				email: String(raw.email ?? ''),
-				role: String(raw.role ?? '')
+		const form = await superValidate(request, zod4(inviteForm), { id: 'invite' });
+		if (!form.valid) return fail(400, { form });
+		if (emailHasRoleIn(form.data.email, admin.clinicId)) {
+			return setError(form, 'email', 'That address already has an account in your clinic.', {
+				status: 409
 			});
-		}
-		if (emailHasRoleIn(parsed.data.email, admin.clinicId)) {
-			return failed(
-				'invite',
-				'That address already has an account in your clinic.',
-				409,
-				parsed.data
-			);
 		}
 		const { mail } = await sendInvitation({
 			clinicId: admin.clinicId,
-			...parsed.data,
+			...form.data,
 			invitedBy: admin
 		});
-		return { action: 'invite', sent: parsed.data.email, mail };
+		return { form, action: 'invite', sent: form.data.email, mail };
 	},
 	role: async ({ request }) => {
 		const admin = requireRole('admin');
@@ -129,15 +125,10 @@ export const actions: Actions = {
 	},
 	timeZone: async ({ request }) => {
 		const admin = requireRole('admin');
-		const raw = Object.fromEntries(await request.formData());
-		const parsed = timeZoneForm.safeParse(raw);
-		if (!parsed.success) {
-			return failed('timeZone', parsed.error.issues[0].message, 400, {
-				timeZone: String(raw.timeZone ?? '')
-			});
-		}
-		setClinicTimeZone(admin.clinicId, parsed.data.timeZone);
-		return { action: 'timeZone', saved: true };
+		const form = await superValidate(request, zod4(timeZoneForm), { id: 'timeZone' });
+		if (!form.valid) return fail(400, { form });
+		setClinicTimeZone(admin.clinicId, form.data.timeZone);
+		return { form, action: 'timeZone', saved: true };
 	},
 	revoke: async ({ request }) => {
 		const admin = requireRole('admin');

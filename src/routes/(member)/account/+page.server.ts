@@ -1,6 +1,8 @@
 import { fail, redirect } from '@sveltejs/kit';
 import { resolve } from '$app/paths';
 import { eq } from 'drizzle-orm';
+import { setError, superValidate } from 'sveltekit-superforms';
+import { zod4 } from 'sveltekit-superforms/adapters';
 import { z } from 'zod';
 import { ROLE_LABELS } from '$lib/auth/roles';
 import { requireUser } from '$lib/server/auth/guard';
@@ -13,7 +15,7 @@ import { sendMail } from '$lib/server/mail';
 import { passwordChangedMail } from '$lib/server/mail/templates';
 import type { Actions, PageServerLoad } from './$types';
 
-export const load: PageServerLoad = () => {
+export const load: PageServerLoad = async () => {
 	const user = requireUser();
 	const row = db()
 		.query.users.findFirst({ where: eq(schema.users.id, user.id) })
@@ -25,7 +27,8 @@ export const load: PageServerLoad = () => {
 		clinicName: user.clinicName,
 		hasPassword: Boolean(row?.passwordHash),
 		otherSessions: Math.max(0, sessionCountOf(user.id) - 1),
-		passwordMinLength: PASSWORD_MIN_LENGTH
+		passwordMinLength: PASSWORD_MIN_LENGTH,
+		passwordForm: await superValidate(zod4(passwordForm), { id: 'password' })
 	};
 };
 
@@ -38,7 +41,15 @@ const passwordForm = z
 			.max(1024),
 		confirm: z.string()
 	})
-	.refine((f) => f.password === f.confirm, { message: 'The two new passwords differ.' });
+	.refine((f) => f.password === f.confirm, {
+		message: 'The two new passwords differ.',
+		path: ['confirm'],
+		// Said even when another field is wrong too, so one try shows every problem.
+		when: (payload) => {
+			const value = payload.value as Record<string, unknown>;
+			return typeof value.password === 'string' && typeof value.confirm === 'string';
+		}
+	});
 
 export const actions: Actions = {
 	/** Ends every session of this person, this one included (a phone left somewhere, a shared computer). */
@@ -52,22 +63,20 @@ export const actions: Actions = {
 
 	password: async ({ request, locals }) => {
 		const user = requireUser();
-		const raw = Object.fromEntries(await request.formData());
-		const parsed = passwordForm.safeParse({
-			current: raw.current ?? '',
-			password: raw.password ?? '',
-			confirm: raw.confirm ?? ''
-		});
-		if (!parsed.success) return fail(400, { message: parsed.error.issues[0].message });
+		const form = await superValidate(request, zod4(passwordForm), { id: 'password' });
+		const { current, password } = form.data;
+		// Passwords are never sent back to the page, refused or not.
+		form.data = { current: '', password: '', confirm: '' };
 		const row = db()
 			.query.users.findFirst({ where: eq(schema.users.id, user.id) })
 			.sync();
-		if (row?.passwordHash && !(await verifyPassword(row.passwordHash, parsed.data.current))) {
-			return fail(400, { message: 'Your current password is not right.' });
+		if (row?.passwordHash && !(await verifyPassword(row.passwordHash, current))) {
+			setError(form, 'current', 'Your current password is not right.');
 		}
+		if (!form.valid) return fail(400, { form });
 		db()
 			.update(schema.users)
-			.set({ passwordHash: await hashPassword(parsed.data.password) })
+			.set({ passwordHash: await hashPassword(password) })
 			.where(eq(schema.users.id, user.id))
 			.run();
 		// Whoever knew the old password may hold a session: every other one ends.
@@ -91,6 +100,6 @@ export const actions: Actions = {
 		} catch (error) {
 			console.error(`[account] the password notice to ${user.email} failed:`, error);
 		}
-		return { saved: true, ended };
+		return { form, saved: true, ended };
 	}
 };
