@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { degreesHint, romEntrySchema } from './rom-form';
+import { degreesHint, romEntryDefaults, romEntrySchema } from './rom-form';
 
 const base = {
 	motion: 'knee-flexion',
@@ -57,5 +57,35 @@ describe('the degrees hint follows the motion chosen', () => {
 		expect(degreesHint('shoulder-external-rotation')).toMatch(/choose where the arm was/);
 		expect(degreesHint('hip-flexion')).toMatch(/^Hip flexion/);
 		expect(degreesHint('')).toBe('Whole or half degrees, as read on the instrument.');
+	});
+});
+
+describe('the entry form’s first values', () => {
+	it('starts the form from the last reading, the affected side and today', () => {
+		const knee = { condition: 'Total knee replacement', affectedSide: 'right' };
+		expect(romEntryDefaults(undefined, knee, '2026-11-30')).toEqual({
+			motion: 'knee-flexion',
+			side: 'right',
+			mode: 'active',
+			degrees: '',
+			measuredOn: '2026-11-30',
+			note: '',
+			instrument: 'goniometer',
+			armPosition: ''
+		});
+		const shoulder = { condition: 'Rotator cuff repair', affectedSide: 'both' };
+		expect(romEntryDefaults(undefined, shoulder, '2026-11-30')).toMatchObject({
+			motion: '',
+			side: 'left'
+		});
+		const last = {
+			motion: 'shoulder-external-rotation',
+			instrument: 'inclinometer',
+			armPosition: 'abducted-90'
+		};
+		expect(romEntryDefaults(last, shoulder, '2026-11-30')).toMatchObject(last);
+		expect(
+			romEntryDefaults({ ...last, armPosition: null }, shoulder, '2026-11-30').armPosition
+		).toBe('');
 	});
 });

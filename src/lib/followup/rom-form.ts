@@ -99,3 +99,46 @@ export function degreesHint(motion: string): string {
 			return 'Whole or half degrees, as read on the instrument.';
 	}
 }
+
+/** The entry form's fields as typed, before the check. */
+export type RomEntryDraft = Record<
+	'motion' | 'side' | 'mode' | 'degrees' | 'measuredOn' | 'note' | 'instrument' | 'armPosition',
+	string
+>;
+
+/**
+ * The page's answer to a range-of-motion form: which form (`rom` to add, `deleteRom` to remove),
+ * and a reading saved or refused (with the field to fix and what was typed).
+ */
+export interface RomFormAnswer {
+	action?: string;
+	field?: string;
+	message?: string;
+	saved?: string;
+	values?: RomEntryDraft;
+}
+
+/**
+ * What the entry form starts with: the last reading's motion, instrument and arm position (or knee
+ * flexion for a knee patient), the affected side, and today.
+ */
+export function romEntryDefaults(
+	lastReading:
+		| (Pick<RomEntryDraft, 'motion' | 'instrument'> & { armPosition: string | null })
+		| undefined,
+	patient: { condition: string; affectedSide: string },
+	today: string
+): RomEntryDraft {
+	return {
+		motion:
+			lastReading?.motion ??
+			(patient.condition.toLowerCase().includes('knee') ? 'knee-flexion' : ''),
+		side: patient.affectedSide === 'right' ? 'right' : 'left',
+		mode: 'active',
+		degrees: '',
+		measuredOn: today,
+		note: '',
+		instrument: lastReading?.instrument ?? 'goniometer',
+		armPosition: lastReading?.armPosition ?? ''
+	};
+}

@@ -12,6 +12,8 @@ import {
 	painBasis,
 	painNotComparedBasis,
 	painSentence,
+	painTrendWord,
+	percentText,
 	weekAfterSentence
 } from './words';
 
@@ -104,5 +106,19 @@ describe('figures with their basis', () => {
 		expect(weekAfterSentence('2026-12-03', '2026-11-30')).toBe(
 			'Operation planned for 3 Dec 2026 (in 3 days)'
 		);
+	});
+
+	it('heads the pain card with one word, a flagged rise first', () => {
+		expect(painTrendWord({ flagged: true, direction: 'better' })).toBe('Rising');
+		expect(painTrendWord({ flagged: false, direction: 'worse' })).toBe('Not compared');
+		expect(painTrendWord({ flagged: false, direction: 'better' })).toBe('Easing');
+		expect(painTrendWord({ flagged: false, direction: 'steady' })).toBe('Steady');
+		expect(painTrendWord({ flagged: false, direction: null })).toBe('Not compared');
+	});
+
+	it('writes a percentage, or a dash when there is none', () => {
+		expect(percentText(71)).toBe('71%');
+		expect(percentText(0)).toBe('0%');
+		expect(percentText(null)).toBe('—');
 	});
 });

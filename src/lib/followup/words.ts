@@ -110,3 +110,16 @@ export function daysAgo(date: LocalDate, today: LocalDate): string {
 	if (days < 0) return formatDate(date);
 	return `${days} days ago`;
 }
+
+/** The pain trend in a word, as the follow-up card heads it: a flagged rise is "Rising". */
+export function painTrendWord(trend: Pick<PainTrend, 'flagged' | 'direction'>): string {
+	if (trend.flagged) return 'Rising';
+	if (trend.direction === 'better') return 'Easing';
+	if (trend.direction === 'steady') return 'Steady';
+	return 'Not compared';
+}
+
+/** A percentage figure, or a dash when there is nothing to divide by. */
+export function percentText(percent: number | null): string {
+	return percent === null ? '—' : `${percent}%`;
+}
