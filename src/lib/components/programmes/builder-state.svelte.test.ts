@@ -1,0 +1,184 @@
+import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
+import {
+	itemFromExercise,
+	type BuilderExercise,
+	type ProgrammeDraft
+} from '$lib/programmes/builder';
+import {
+	ProgrammeBuilderState,
+	type BuilderInputs,
+	type BuilderProgramme
+} from './builder-state.svelte';
+
+const exercise = (id: string, title: string, changes: Partial<BuilderExercise> = {}) =>
+	({
+		id,
+		title,
+		bodyRegion: 'Knee',
+		position: 'supine',
+		movementType: 'active-assisted',
+		phase: 2,
+		equipment: [],
+		precautionTags: [],
+		dosageBounds: { reps: { max: 12 } },
+		secondsPerRep: null,
+		segmentSeconds: 40,
+		defaultDosage: {
+			sets: 1,
+			reps: 8,
+			holdSeconds: 0,
+			restSeconds: 30,
+			sessionsPerDay: 3,
+			daysPerWeek: 7
+		},
+		defaultProgression: { kind: 'reps', addPerWeek: 2, ceiling: 15 },
+		posterUrl: null,
+		status: 'ready',
+		hasSegment: true,
+		...changes
+	}) as BuilderExercise;
+
+const catalogue = [
+	exercise('e1', 'Heel slides'),
+	exercise('e2', 'Quad sets'),
+	exercise('e3', 'Pendulum', { bodyRegion: 'Shoulder', position: 'standing', phase: 1 }),
+	exercise('e4', 'Wall press', { status: 'draft' })
+];
+
+const initial = (): ProgrammeDraft => ({
+	title: 'Knee',
+	startDate: '2026-11-17',
+	endDate: '',
+	note: '',
+	items: [
+		{ ...itemFromExercise(catalogue[0], 'a'), id: 'item-a' },
+		itemFromExercise(catalogue[1], 'b')
+	]
+});
+
+function inputs(status: BuilderProgramme['status'] = 'draft'): BuilderInputs {
+	return {
+		programme: { id: 'prog-1', status },
+		patient: {
+			id: 'pat-1',
+			fullName: 'Ada Example',
+			hasAccount: true,
+			condition: 'Knee replacement',
+			today: '2026-11-17',
+			operationDate: null,
+			protocol: '',
+			protocolShiftWeeks: 0,
+			precautions: [],
+			precautionDetails: {}
+		},
+		catalogue,
+		result: null
+	};
+}
+
+// Node runs Svelte's server build, where effects do not run: the auto-save timer and the
+// scripted flag are left to the end-to-end tests; everything else is here.
+const builderState = (status: BuilderProgramme['status'] = 'draft') =>
+	new ProgrammeBuilderState(initial(), () => inputs(status));
+
+const click = () => new Event('click');
+
+beforeEach(() => {
+	vi.stubGlobal('document', { getElementById: () => null });
+});
+afterEach(() => {
+	vi.unstubAllGlobals();
+});
+
+describe('the programme builder’s state', () => {
+	it('moves, removes and adds exercises, saying each in words', async () => {
+		const builder = builderState();
+		await builder.move(0, 1, click());
+		expect(builder.draft.items.map((i) => i.key)).toEqual(['b', 'a']);
+		expect(builder.announcement).toBe('Heel slides moved to place 2 of 2.');
+
+		await builder.add(catalogue[2], click());
+		expect(builder.draft.items.map((i) => i.exerciseId)).toEqual(['e2', 'e1', 'e3']);
+		expect(builder.announcement).toBe('Pendulum added as number 3.');
+
+		await builder.remove(0, click());
+		expect(builder.draft.items.map((i) => i.exerciseId)).toEqual(['e1', 'e3']);
+		expect(builder.announcement).toBe('Quad sets removed.');
+	});
+
+	it('offers ready exercises not in the programme yet, through the filters', () => {
+		const builder = builderState();
+		expect(builder.offered.map((e) => e.id)).toEqual(['e3']);
+		expect(builder.regions).toEqual(['Knee', 'Shoulder']);
+		builder.region = 'Knee';
+		expect(builder.offered).toEqual([]);
+		builder.region = '';
+		builder.search = 'pend';
+		expect(builder.offered.map((e) => e.id)).toEqual(['e3']);
+	});
+
+	it('counts flags from the dosage typed, and puts the starting dosage back', () => {
+		const builder = builderState();
+		expect(builder.flagCount).toBe(0);
+		builder.draft.items[0].dosage.reps = '20';
+		expect(builder.flagCount).toBe(1);
+		builder.draft.items[1].dosage.sets = 'x';
+		expect(builder.figures.perItem[1]).toBeNull();
+		builder.resetDosage(builder.draft.items[0]);
+		expect(builder.draft.items[0].dosage.reps).toBe('8');
+		expect(builder.flagCount).toBe(0);
+	});
+
+	it('says which exercise a problem is about', () => {
+		const builder = builderState();
+		expect(builder.where('items.1.dosage.reps')).toBe('Exercise 2 (Quad sets): ');
+		expect(builder.where('title')).toBe('');
+	});
+
+	it('saves the draft, gives new rows their ids, and says why a save failed', async () => {
+		const fetch = vi.fn(async () =>
+			Response.json({ draft: { items: [{ id: 'item-a' }, { id: 'item-b' }] } })
+		);
+		vi.stubGlobal('fetch', fetch);
+		const builder = builderState();
+		builder.draft.title = 'Knee, weeks 1–4';
+		await builder.saveNow();
+		expect(fetch).toHaveBeenCalledOnce();
+		const [url, init] = fetch.mock.calls[0] as unknown as [string, RequestInit];
+		expect(url).toBe('/api/programmes/prog-1');
+		expect(init.method).toBe('PUT');
+		expect(JSON.parse(String(init.body)).title).toBe('Knee, weeks 1–4');
+		expect(builder.saveState.kind).toBe('saved');
+		expect(builder.draft.items.map((i) => i.id)).toEqual(['item-a', 'item-b']);
+
+		fetch.mockImplementation(async () =>
+			Response.json(
+				{
+					error: { status: 400, message: 'Give a title.' },
+					problems: [{ path: 'title', message: 'Give a title.' }]
+				},
+				{ status: 400 }
+			)
+		);
+		await builder.saveNow();
+		expect(builder.saveState).toEqual({
+			kind: 'failed',
+			message: 'Give a title.',
+			problems: [{ path: 'title', message: 'Give a title.' }]
+		});
+		expect(builder.problemFor('title')).toBe('Give a title.');
+
+		fetch.mockImplementation(async () => {
+			throw new TypeError('offline');
+		});
+		await builder.saveNow();
+		expect(builder.saveState).toMatchObject({ kind: 'failed', problems: [] });
+	});
+
+	it('leaves an ended programme uneditable; only a published one changes on publishing', () => {
+		const ended = builderState('ended');
+		expect(ended.editable).toBe(false);
+		expect(ended.published).toBe(false);
+		expect(builderState('published').published).toBe(true);
+	});
+});
