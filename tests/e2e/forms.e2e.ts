@@ -102,3 +102,25 @@ test("a member's invitation to an address that is no address says so beside it a
 	await expect(invite.getByLabel('Role')).toHaveValue('educator');
 	await expectNoAxeViolations(page);
 });
+
+test('a collection titled with spaces only is refused beside its title, without scripts too', async ({
+	browser
+}) => {
+	for (const javaScriptEnabled of [true, false]) {
+		const context = await browser.newContext({ baseURL: E2E.origin, javaScriptEnabled });
+		const page = await context.newPage();
+		await signInWithPassword(page, ACCOUNTS.educator);
+		if (javaScriptEnabled) await visit(page, '/curate/collections');
+		else await page.goto('/curate/collections');
+		await page.getByLabel('Title').fill('    ');
+		await page.getByRole('button', { name: 'Create the collection' }).click();
+		await expect(page.getByLabel('Title')).toHaveAccessibleDescription(
+			'Give the collection a title of at least 3 characters.'
+		);
+		await expect(fieldBox(page, 'Title')).toContainText('at least 3 characters');
+		await expect(page.getByRole('alert')).toContainText('Title: Give the collection a title');
+		await expect(page.getByLabel('Title')).toHaveValue('    ');
+		if (javaScriptEnabled) await expectNoAxeViolations(page);
+		await context.close();
+	}
+});

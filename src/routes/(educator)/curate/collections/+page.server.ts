@@ -1,14 +1,17 @@
 import { fail, redirect } from '@sveltejs/kit';
 import { resolve } from '$app/paths';
+import { superValidate } from 'sveltekit-superforms';
+import { zod4 } from 'sveltekit-superforms/adapters';
 import { z } from 'zod';
 import { requireRole } from '$lib/server/auth/guard';
 import { createCollection, listCollections } from '$lib/server/library/collections';
 import type { Actions, PageServerLoad } from './$types';
 
-export const load: PageServerLoad = () => {
+export const load: PageServerLoad = async () => {
 	requireRole('educator');
 	return {
-		collections: listCollections().map((c) => ({ ...c, updatedAt: c.updatedAt.toISOString() }))
+		collections: listCollections().map((c) => ({ ...c, updatedAt: c.updatedAt.toISOString() })),
+		form: await superValidate(zod4(newCollection), { errors: false })
 	};
 };
 
@@ -23,12 +26,10 @@ const newCollection = z.object({
 export const actions: Actions = {
 	create: async ({ request }) => {
 		const educator = requireRole('educator');
-		const form = await request.formData();
-		const title = String(form.get('title') ?? '');
-		const parsed = newCollection.safeParse({ title });
-		if (!parsed.success) return fail(400, { title, message: parsed.error.issues[0].message });
+		const form = await superValidate(request, zod4(newCollection));
+		if (!form.valid) return fail(400, { form });
 		const collection = createCollection(educator.id, {
-			title: parsed.data.title,
+			title: form.data.title,
 			introduction: ''
 		});
 		redirect(303, resolve('/(educator)/curate/collections/[id=id]', { id: collection.id }));
