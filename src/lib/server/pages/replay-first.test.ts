@@ -24,6 +24,8 @@ type Listener = (event?: { target: unknown }) => void;
 interface VideoState {
 	readyState: number;
 	error: unknown;
+	/** 3 is NETWORK_NO_SOURCE: every <source> failed. */
+	networkState: number;
 	paused: boolean;
 	currentTime: number;
 	duration: number;
@@ -34,6 +36,7 @@ interface VideoState {
 const idle = (): VideoState => ({
 	readyState: 0,
 	error: null,
+	networkState: 2,
 	paused: false,
 	currentTime: 0,
 	duration: 20,
@@ -57,6 +60,9 @@ function boot(html: string, state: VideoState | null) {
 		},
 		get error() {
 			return state.error;
+		},
+		get networkState() {
+			return state.networkState;
 		},
 		get paused() {
 			return state.paused;
@@ -131,14 +137,15 @@ describe('holdForFirstFrame', () => {
 		expect(held).toContain('kit.start(app, element, { node_ids: [0, 2] });');
 	});
 
-	it('a clip not playing: the app and the typeface start with its first frame', async () => {
+	it('a clip not playing: the app and the typeface start once its index is in', async () => {
 		const state = { ...idle(), paused: true };
 		const page = boot(holdForFirstFrame(KIT_PAGE), state);
 		await page.settle();
 		expect(page.started).toEqual([]);
 		expect(page.root.held).toBe(true);
-		state.readyState = 2;
-		await page.fire('loadeddata');
+		// preload="metadata" may stop there: no first frame is waited for.
+		state.readyState = 1;
+		await page.fire('loadedmetadata');
 		expect(page.started).toEqual(['started']);
 		expect(page.root.held).toBe(false);
 	});
@@ -192,6 +199,13 @@ describe('holdForFirstFrame', () => {
 		await failed.fire('error');
 		expect(failed.started).toEqual(['started']);
 
+		// The clip's <source> fails: its error reaches the video only on the way down.
+		const noSource = idle();
+		const sourceFailed = boot(holdForFirstFrame(KIT_PAGE), noSource);
+		noSource.networkState = 3;
+		await sourceFailed.fire('error');
+		expect(sourceFailed.started).toEqual(['started']);
+
 		const late = boot(holdForFirstFrame(KIT_PAGE), idle());
 		expect(late.timers).toHaveLength(1);
 		late.timers[0]();
@@ -214,7 +228,7 @@ describe('holdForFirstFrame', () => {
 	});
 
 	it('does not wait when there is nothing to wait for', async () => {
-		const ready = { ...idle(), readyState: 2, paused: true };
+		const ready = { ...idle(), readyState: 1, paused: true };
 		const failed = { ...idle(), error: { code: 4 } };
 		for (const video of [null, ready, failed]) {
 			const page = boot(holdForFirstFrame(KIT_PAGE), video);

@@ -3,8 +3,8 @@
  * before the first frame delays it, and a playing clip with little in hand stalls while the
  * scripts (about 60 KiB) and the typeface (about 34 KiB) arrive; none of them is needed to play:
  * the player works with the browser's own controls and captions until the scripts start. So the
- * page's start-up waits until the video has its first frame and, if it is playing, a few seconds
- * in hand (or all of the clip); or until it fails or is not there; or until the patient touches
+ * page's start-up waits until the video has its index (not playing) or its first frame and some
+ * seconds in hand, or all of it (playing); or until it fails or is not there; or until the patient touches
  * anything but the video or presses a key (they may want what the scripts do); and at most
  * SCRIPT_HOLD_MS. Meanwhile the text is drawn in the device's own typeface
  * (`html[data-fonts-held]` in app.css). Measured in `npm run bench:network`.
@@ -37,13 +37,21 @@ const CLIP_FIRST = `new Promise((go) => {
 		return 0;
 	};
 	const check = () => {
-		if (video.error) return go();
-		if (video.readyState < 2) return;
-		if (video.paused || inHand() >= ${SECONDS_IN_HAND}) go();
+		// A failed <source> leaves video.error empty and says so in networkState (NETWORK_NO_SOURCE).
+		if (video.error || video.networkState === 3) return go();
+		// Not asked to play: the poster stands in, and the browser fetches no more than the clip's
+		// index (preload="metadata"), so the scripts wait only for that.
+		if (video.paused) {
+			if (video.readyState >= 1) go();
+			return;
+		}
+		if (video.readyState >= 2 && inHand() >= ${SECONDS_IN_HAND}) go();
 	};
-	for (const name of ['loadeddata', 'progress', 'timeupdate', 'pause', 'error']) {
+	for (const name of ['loadedmetadata', 'loadeddata', 'progress', 'timeupdate', 'pause']) {
 		video.addEventListener(name, check);
 	}
+	// A <source>'s error does not bubble: caught on its way down.
+	video.addEventListener('error', check, true);
 	addEventListener('pointerdown', (event) => { if (event.target !== video) go(); });
 	addEventListener('keydown', go, { once: true });
 	setTimeout(go, ${SCRIPT_HOLD_MS});
