@@ -1,11 +1,11 @@
 import { execFile } from 'node:child_process';
 import { readFile } from 'node:fs/promises';
-import { createRequire } from 'node:module';
 import { promisify } from 'node:util';
+import { FFMPEG } from '../integration/recordings-support';
 
 const run = promisify(execFile);
-const ffmpeg = (createRequire(import.meta.url)('@ffmpeg-installer/ffmpeg') as { path: string })
-	.path;
+// The ffmpeg the app chooses (Debian's when installed), as in the integration tests.
+const ffmpeg = FFMPEG;
 
 /** An upright 8-second test clip (180 × 320, as phones record by default) written to `path`. */
 export async function makeUprightClip(path: string): Promise<Buffer> {

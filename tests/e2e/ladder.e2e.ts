@@ -2,7 +2,6 @@ import { expect, test, type BrowserContext, type Page } from '@playwright/test';
 import { PutObjectCommand } from '@aws-sdk/client-s3';
 import { execFile } from 'node:child_process';
 import { mkdtemp, readFile, rm } from 'node:fs/promises';
-import { createRequire } from 'node:module';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { promisify } from 'node:util';
@@ -16,6 +15,7 @@ import {
 } from './support';
 import { seedReadySegment } from './segments-support';
 import { seedProgramme, seedSignInPatient } from './programme-fixtures';
+import { FFMPEG } from '../integration/recordings-support';
 
 /*
  * The bitrate ladder on a patient's phone: on a slow 3G-like link (DevTools throttling) the
@@ -25,8 +25,8 @@ import { seedProgramme, seedSignInPatient } from './programme-fixtures';
  */
 
 const run = promisify(execFile);
-const ffmpeg = (createRequire(import.meta.url)('@ffmpeg-installer/ffmpeg') as { path: string })
-	.path;
+// The ffmpeg the app chooses (Debian's when installed), as in the integration tests.
+const ffmpeg = FFMPEG;
 const RUN = crypto.randomUUID().slice(0, 8);
 const SECONDS = 6;
 

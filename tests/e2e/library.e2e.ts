@@ -4,9 +4,8 @@ import { mkdtemp, readFile, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { promisify } from 'node:util';
-import ffmpegInstaller from '@ffmpeg-installer/ffmpeg';
 import { PutObjectCommand } from '@aws-sdk/client-s3';
-import { makeClip } from '../integration/recordings-support';
+import { FFMPEG, makeClip } from '../integration/recordings-support';
 import {
 	ACCOUNTS,
 	database,
@@ -47,7 +46,7 @@ test.beforeAll(async () => {
 	const clipPath = join(dir, 'clip.mp4');
 	const posterPath = join(dir, 'poster.jpg');
 	await makeClip(clipPath, { seconds: 6, size: '640x360' });
-	await run(ffmpegInstaller.path, [
+	await run(FFMPEG, [
 		'-loglevel',
 		'error',
 		'-y',

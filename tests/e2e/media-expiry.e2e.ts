@@ -1,7 +1,6 @@
 import { expect, test, type Page } from '@playwright/test';
 import { execFile } from 'node:child_process';
 import { mkdtemp, readFile, rm } from 'node:fs/promises';
-import { createRequire } from 'node:module';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { promisify } from 'node:util';
@@ -9,6 +8,7 @@ import { ACCOUNTS, seedReadyRecording, signInWithPassword, visit } from './suppo
 import { seedReadySegment } from './segments-support';
 import { seedProgramme, seedSignInPatient } from './programme-fixtures';
 import { E2E } from './ports';
+import { FFMPEG } from '../integration/recordings-support';
 
 /*
  * A clip left open past its storage address's lifetime keeps seeking. Media endpoints answer
@@ -21,8 +21,8 @@ import { E2E } from './ports';
  */
 
 const run = promisify(execFile);
-const ffmpeg = (createRequire(import.meta.url)('@ffmpeg-installer/ffmpeg') as { path: string })
-	.path;
+// The ffmpeg the app chooses (Debian's when installed), as in the integration tests.
+const ffmpeg = FFMPEG;
 const RUN = crypto.randomUUID().slice(0, 8);
 const SECONDS = 40;
 

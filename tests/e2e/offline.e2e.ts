@@ -1,7 +1,6 @@
 import { expect, test, type Page } from '@playwright/test';
 import { execFile } from 'node:child_process';
 import { mkdtemp, readFile, rm } from 'node:fs/promises';
-import { createRequire } from 'node:module';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { promisify } from 'node:util';
@@ -14,6 +13,7 @@ import {
 } from './support';
 import { seedReadySegment } from './segments-support';
 import { seedProgramme, seedSignInPatient, sessionLogsOf } from './programme-fixtures';
+import { FFMPEG } from '../integration/recordings-support';
 
 /*
  * Replay offline on a phone: one visit online to Today and an exercise, then with no connection
@@ -24,8 +24,8 @@ import { seedProgramme, seedSignInPatient, sessionLogsOf } from './programme-fix
  */
 
 const run = promisify(execFile);
-const ffmpeg = (createRequire(import.meta.url)('@ffmpeg-installer/ffmpeg') as { path: string })
-	.path;
+// The ffmpeg the app chooses (Debian's when installed), as in the integration tests.
+const ffmpeg = FFMPEG;
 const RUN = crypto.randomUUID().slice(0, 8);
 const CUES = [
 	{ id: 'o1', start: 0, end: 3, text: 'Sit tall with your back against the chair.' },

@@ -3,7 +3,6 @@ import { PutObjectCommand } from '@aws-sdk/client-s3';
 import { execFile } from 'node:child_process';
 import { mkdirSync } from 'node:fs';
 import { mkdtemp, readFile, rm } from 'node:fs/promises';
-import { createRequire } from 'node:module';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { promisify } from 'node:util';
@@ -22,6 +21,7 @@ import {
 import { seedReadySegment } from './segments-support';
 import { seedProgramme, seedSignInPatient, sessionLogsOf } from './programme-fixtures';
 import { E2E } from './ports';
+import { FFMPEG } from '../integration/recordings-support';
 
 /*
  * The patient's journey on the production build: Today → one exercise's replay → its safety
@@ -31,8 +31,8 @@ import { E2E } from './ports';
  */
 
 const run = promisify(execFile);
-const ffmpeg = (createRequire(import.meta.url)('@ffmpeg-installer/ffmpeg') as { path: string })
-	.path;
+// The ffmpeg the app chooses (Debian's when installed), as in the integration tests.
+const ffmpeg = FFMPEG;
 const SCREENS = resolve(import.meta.dirname, '../.run/screens');
 const CUES = [
 	{ id: 'c1', start: 0, end: 2.5, text: 'Lie on your back with both legs straight.' },

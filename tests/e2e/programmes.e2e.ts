@@ -4,7 +4,6 @@ import { mkdtemp, readFile, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { promisify } from 'node:util';
-import ffmpegInstaller from '@ffmpeg-installer/ffmpeg';
 import { PutObjectCommand } from '@aws-sdk/client-s3';
 import { addDays, localDateOf } from '../../src/lib/clinical/calendar';
 import {
@@ -22,6 +21,7 @@ import {
 } from './support';
 import { seedReadySegment } from './segments-support';
 import { E2E } from './ports';
+import { FFMPEG } from '../integration/recordings-support';
 
 const run = promisify(execFile);
 const SHOTS = join(import.meta.dirname, '../.run/e2e-results');
@@ -38,7 +38,7 @@ let secondSegmentId: string;
 
 /** A poster that is a real picture: a plain figure drawn by ffmpeg on our panel colour. */
 async function realPoster(path: string) {
-	await run(ffmpegInstaller.path, [
+	await run(FFMPEG, [
 		'-loglevel',
 		'error',
 		'-y',

@@ -4,7 +4,6 @@ import { mkdtemp, readFile, rm, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { promisify } from 'node:util';
-import ffmpegInstaller from '@ffmpeg-installer/ffmpeg';
 import { PutObjectCommand } from '@aws-sdk/client-s3';
 import { addDays, localDateOf } from '../../src/lib/clinical/calendar';
 import { replayCode } from '../../src/lib/programmes/replay-code';
@@ -20,6 +19,7 @@ import {
 } from './support';
 import { seedReadySegment } from './segments-support';
 import { seedProgramme, seedSignInPatient, type SeedItem } from './programme-fixtures';
+import { FFMPEG } from '../integration/recordings-support';
 
 const run = promisify(execFile);
 const SHOTS = join(import.meta.dirname, '../.run/e2e-results');
@@ -126,7 +126,7 @@ const programmes: Record<3 | 6, { programmeId: string; itemIds: string[] }> = {}
 
 /** A poster that is a real picture: a figure drawn by ffmpeg on the panel colour. */
 async function poster(path: string) {
-	await run(ffmpegInstaller.path, [
+	await run(FFMPEG, [
 		'-loglevel',
 		'error',
 		'-y',

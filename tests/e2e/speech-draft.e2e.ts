@@ -4,7 +4,6 @@ import { mkdtemp, readFile, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { promisify } from 'node:util';
-import ffmpegInstaller from '@ffmpeg-installer/ffmpeg';
 import {
 	ACCOUNTS,
 	expectNoAxeViolations,
@@ -15,6 +14,7 @@ import {
 	open,
 	reload
 } from './support';
+import { FFMPEG } from '../integration/recordings-support';
 
 /*
  * A recording with no captions gets cues timed to its narration: the stack's speech-to-text
@@ -52,7 +52,7 @@ async function makeClip(path: string) {
 			: ['-f', 'lavfi', '-t', String(seconds), '-i', 'anullsrc=r=48000:cl=mono']
 	);
 	const audio = SOUND.map((_, i) => `[${i + 1}:a]`).join('');
-	await run(ffmpegInstaller.path, [
+	await run(FFMPEG, [
 		'-hide_banner',
 		'-loglevel',
 		'error',

@@ -5,8 +5,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { promisify } from 'node:util';
 import { PutObjectCommand } from '@aws-sdk/client-s3';
-import ffmpegInstaller from '@ffmpeg-installer/ffmpeg';
-import { makeClip } from '../integration/recordings-support';
+import { FFMPEG, makeClip } from '../integration/recordings-support';
 import {
 	ACCOUNTS,
 	database,
@@ -31,7 +30,7 @@ let recordingId: string;
 /** Puts a thumbnail strip and waveform peaks beside the seeded rendition, as processing would. */
 async function addTimelineMedia(clip: string) {
 	const sprite = join(dir, 'sprite.jpg');
-	await run(ffmpegInstaller.path, [
+	await run(FFMPEG, [
 		'-hide_banner',
 		'-loglevel',
 		'error',

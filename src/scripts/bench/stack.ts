@@ -242,20 +242,11 @@ async function waitForHealth(appUrl: string): Promise<void> {
 /** Seeds the demo scenario; returns the demo clinician and their clinic. */
 export async function seedClinician(): Promise<{ clinicId: string; userId: string }> {
 	const { seedDemo } = await import('../demo/seed');
-	const { db, schema } = await import('../../lib/server/db');
-	const { eq } = await import('drizzle-orm');
+	// Imported after the bench's environment is set: the database opens on first use.
+	const { demoOwner } = await import('../demo/owner');
 	await seedDemo();
-	const store = db();
-	const clinician = store.query.users
-		.findFirst({ where: eq(schema.users.email, BENCH_CLINICIAN) })
-		.sync();
-	const membership =
-		clinician &&
-		store.query.memberships
-			.findFirst({ where: eq(schema.memberships.userId, clinician.id) })
-			.sync();
-	if (!clinician || !membership) throw new Error(`The seed has no clinician ${BENCH_CLINICIAN}.`);
-	return { clinicId: membership.clinicId, userId: clinician.id };
+	const owner = demoOwner(BENCH_CLINICIAN);
+	return { clinicId: owner.clinicId, userId: owner.id };
 }
 
 /** Signs in through the real password form action and returns the cookies it set. */
