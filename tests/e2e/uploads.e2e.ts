@@ -20,7 +20,8 @@ const files = {
 	offline: 'Wall slides.mp4',
 	elsewhere: 'Calf raises.mp4',
 	running: 'Bridges.mp4',
-	poll: 'Clams.mp4'
+	poll: 'Clams.mp4',
+	finished: 'Lunges.mp4'
 };
 
 test.beforeAll(async () => {
@@ -326,5 +327,32 @@ test('Discard is never offered for the upload running in this tab, and closing t
 		});
 	} finally {
 		await context.close();
+	}
+});
+
+test('an upload just finished here is never listed as unfinished, even before the list is fetched again', async ({
+	browser
+}) => {
+	test.setTimeout(120_000);
+	const page = await clinicianPage(browser);
+	try {
+		await open(page, '/recordings');
+		// The list of unfinished uploads is fetched once the upload has its session (it is open
+		// then); every later fetch is held, so the page keeps that list while the upload ends.
+		const listed = page.waitForResponse((r) => new URL(r.url()).pathname === '/api/uploads');
+		await page.locator('#recording-file').setInputFiles(join(dir, files.finished));
+		await listed;
+		const held: Route[] = [];
+		await page.route('**/api/uploads', (route) => void held.push(route));
+		const upload = page.getByRole('listitem', { name: `Upload of ${files.finished}`, exact: true });
+		await expect(upload.getByTestId('upload-phase')).toHaveText('Uploaded', { timeout: 60_000 });
+		await expect.poll(() => held.length).toBeGreaterThan(0);
+		await expect(
+			page.getByRole('listitem', { name: `Unfinished upload of ${files.finished}` })
+		).toHaveCount(0);
+		await expect(page.getByRole('button', { name: `Discard ${files.finished}` })).toHaveCount(0);
+		for (const route of held) await route.continue();
+	} finally {
+		await page.context().close();
 	}
 });

@@ -224,7 +224,7 @@ function retryNote(error: HttpError, doing: string, seconds: number, nextTry: nu
 	return `${what} while ${doing}. Trying again in ${seconds} s (try ${nextTry}).`;
 }
 
-/** An upload a tab is working on (not finished): that page must not offer to discard it. */
+/** An upload a tab has started (finished ones too): that page must not offer to discard it. */
 export interface RunningUpload {
 	uploadId: string | null;
 	filename: string;
