@@ -342,12 +342,12 @@ describe('checkStorage', () => {
 		expect(result).toEqual({ ok: true, detail: expect.stringContaining(`"${bucket}" reachable`) });
 	});
 
-	it('is not ok against a closed port, quickly and without throwing', async () => {
-		const started = Date.now();
+	it('is not ok against a closed port, without throwing and without waiting for its timeout', async () => {
 		const result = await freshCheck({ S3_ENDPOINT: `http://127.0.0.1:${await closedPort()}` });
 		expect(result.ok).toBe(false);
+		// The refusal itself is reported: a check that sat out its timeout would say "no answer".
 		expect(result.detail).toMatch(/ECONNREFUSED/);
-		expect(Date.now() - started).toBeLessThan(1500);
+		expect(result.detail).not.toMatch(/no answer within/);
 	});
 
 	it('is not ok with a wrong secret or a missing bucket', async () => {
