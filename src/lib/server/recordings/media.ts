@@ -1,5 +1,6 @@
 import { Readable } from 'node:stream';
 import { GetObjectCommand, S3ServiceException } from '@aws-sdk/client-s3';
+import { LRUCache } from 'lru-cache';
 import { contentRange, ifRangeAllows, parseRange, rangeLength } from '../../media/byte-range';
 import type { Recording } from '../db/schema';
 import { bucketName, headObject, storage, type ObjectInfo } from '../storage';
@@ -23,19 +24,14 @@ export function versionAsked(request: Request): number | null | Response {
 
 // A player asks for many ranges of one file; remembering its size and tag saves a HEAD per range.
 // Every GET carries If-Match with the remembered tag, so a replaced object is noticed, not served.
-const INFO_TTL_MS = 60_000;
-const INFO_MAX = 500;
-const infoCache = new Map<string, { info: ObjectInfo; at: number }>();
+const infoCache = new LRUCache<string, ObjectInfo>({ max: 500, ttl: 60_000 });
 
 async function objectInfo(key: string, fresh = false): Promise<ObjectInfo | null> {
-	const cached = infoCache.get(key);
-	if (!fresh && cached && Date.now() - cached.at < INFO_TTL_MS) return cached.info;
+	const cached = fresh ? undefined : infoCache.get(key);
+	if (cached) return cached;
 	const info = await headObject(key);
-	infoCache.delete(key);
-	if (info) {
-		if (infoCache.size >= INFO_MAX) infoCache.delete(infoCache.keys().next().value!);
-		infoCache.set(key, { info, at: Date.now() });
-	}
+	if (info) infoCache.set(key, info);
+	else infoCache.delete(key);
 	return info;
 }
 

@@ -10,6 +10,7 @@
  * clip played again, where a new signature each time would fetch it anew.
  */
 import { GetObjectCommand } from '@aws-sdk/client-s3';
+import { LRUCache } from 'lru-cache';
 import { getSignedUrl } from '@aws-sdk/s3-request-presigner';
 import { config } from '../config';
 import { bucketName, storage } from './index';
@@ -47,8 +48,9 @@ export function signingWindow(
 
 // Addresses signed in the current window, by what was signed: signing again would give the same
 // address, so a player's many requests cost one signature per file and window.
-const SIGNED_MAX = 2000;
-const signed = new Map<string, MediaUrl>();
+// The id holds the window, so a later window never meets an earlier one's address; the time limit
+// only frees memory, and no entry outlives its address.
+const signed = new LRUCache<string, MediaUrl>({ max: 2000 });
 
 /**
  * The storage address of `key` for a browser, with the type and caching storage must answer
@@ -80,11 +82,6 @@ export async function presignMediaUrl(
 		{ expiresIn: lifetimeSeconds, signingDate: new Date(signedAt) }
 	);
 	const made = { url, expiresAt };
-	if (signed.size >= SIGNED_MAX) {
-		// Entries of earlier windows go first; failing that, the oldest.
-		for (const [old, value] of signed) if (value.expiresAt < expiresAt) signed.delete(old);
-		if (signed.size >= SIGNED_MAX) signed.delete(signed.keys().next().value!);
-	}
-	signed.set(id, made);
+	signed.set(id, made, { ttl: lifetimeSeconds * 1000 });
 	return made;
 }
