@@ -24,6 +24,27 @@ export interface JobContext {
 }
 
 /**
+ * Reports progress through a job's stages, each given the share of the whole job it takes (the
+ * shares add up to 1), so the bar moves at about the speed work gets done: `report(stage, 0.5)`
+ * is halfway through that stage, after every stage before it.
+ */
+export function stageReporter<Stage extends string>(
+	context: Pick<JobContext, 'report'>,
+	stages: readonly (readonly [Stage, number])[]
+): (stage: Stage, fraction?: number) => void {
+	return (stage, fraction = 0) => {
+		let before = 0;
+		for (const [name, share] of stages) {
+			if (name === stage) {
+				context.report(stage, before + share * Math.max(0, Math.min(1, fraction)));
+				return;
+			}
+			before += share;
+		}
+	};
+}
+
+/**
  * One kind of job, split where the database ends: `prepare` and `apply` run where SQLite is (the
  * app, or a worker sharing its file), `run` wherever the work is done, with the storage only.
  * Input and result travel between machines as JSON.

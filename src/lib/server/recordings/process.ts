@@ -6,7 +6,7 @@ import { eq } from 'drizzle-orm';
 import { config } from '../config';
 import { db } from '../db';
 import { recordings, type Job, type Recording } from '../db/schema';
-import type { JobContext, JobHandler } from '../jobs/engine';
+import { stageReporter, type JobContext, type JobHandler } from '../jobs/engine';
 import { makePosters, makeRendition, makeSprite, makeWaveform } from '../media/outputs';
 import { planVersions } from '../../media/ladder';
 import { deletePrefix, putObject } from '../storage';
@@ -26,20 +26,6 @@ const STAGES = [
 	['waveform', 0.06],
 	['storing', 0.08]
 ] as const;
-type Stage = (typeof STAGES)[number][0];
-
-function stageReporter(context: JobContext) {
-	return (stage: Stage, fraction = 0) => {
-		let before = 0;
-		for (const [name, share] of STAGES) {
-			if (name === stage) {
-				context.report(stage, before + share * Math.max(0, Math.min(1, fraction)));
-				return;
-			}
-			before += share;
-		}
-	};
-}
 
 async function upload(key: string, path: string, contentType: string) {
 	const { size } = await stat(path);
@@ -90,7 +76,7 @@ function prepareProcessing(job: Job): ProcessInput | null {
  */
 async function processRecording(input: ProcessInput, context: JobContext): Promise<ProcessResult> {
 	const keys = recordingKeys(input.clinicId, input.recordingId);
-	const report = stageReporter(context);
+	const report = stageReporter(context, STAGES);
 	const { signal } = context;
 	const checkpoint = () => signal.throwIfAborted();
 	const dir = await mkdtemp(join(config().MEDIA_WORK_DIR || tmpdir(), 'kinelume-job-'));

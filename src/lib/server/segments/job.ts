@@ -6,7 +6,7 @@ import { eq } from 'drizzle-orm';
 import { config } from '../config';
 import { db } from '../db';
 import { recordings, segments, type Job } from '../db/schema';
-import type { JobContext, JobHandler } from '../jobs/engine';
+import { stageReporter, type JobContext, type JobHandler } from '../jobs/engine';
 import { cutSegment } from '../media/cut';
 import { makePosters, PHONE_POSTER } from '../media/outputs';
 import { planVersions, type StoredVersion } from '../../media/ladder';
@@ -22,20 +22,6 @@ const STAGES = [
 	['posters', 0.1],
 	['storing', 0.1]
 ] as const;
-type Stage = (typeof STAGES)[number][0];
-
-function stageReporter(context: JobContext) {
-	return (stage: Stage, fraction = 0) => {
-		let before = 0;
-		for (const [name, share] of STAGES) {
-			if (name === stage) {
-				context.report(stage, before + share * Math.max(0, Math.min(1, fraction)));
-				return;
-			}
-			before += share;
-		}
-	};
-}
 
 async function upload(key: string, path: string, contentType: string): Promise<number> {
 	const { size } = await stat(path);
@@ -95,7 +81,7 @@ function prepareCut(job: Job): CutInput | null {
  */
 async function cutSegmentJob(input: CutInput, context: JobContext): Promise<CutResult> {
 	const keys = recordingKeys(input.clinicId, input.recordingId);
-	const report = stageReporter(context);
+	const report = stageReporter(context, STAGES);
 	const { signal } = context;
 	const dir = await mkdtemp(join(config().MEDIA_WORK_DIR || tmpdir(), 'kinelume-cut-'));
 	try {
