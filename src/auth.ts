@@ -3,13 +3,13 @@ import Credentials from '@auth/sveltekit/providers/credentials';
 import Nodemailer from '@auth/sveltekit/providers/nodemailer';
 import { DrizzleAdapter } from '@auth/drizzle-adapter';
 import { and, eq, lt } from 'drizzle-orm';
-import { z } from 'zod';
 import { config } from '$lib/server/config';
 import { db, schema } from '$lib/server/db';
 import { recordAudit } from '$lib/server/audit';
 import { authSecret } from '$lib/server/auth/secret';
 import { LONGEST_SESSION_SECONDS } from '$lib/auth/session-policy';
 import { safeRedirect } from '$lib/forms/safe-redirect';
+import { credentialsSchema } from '$lib/server/auth/credentials';
 import { verifyPassword } from '$lib/server/auth/passwords';
 import { loadPrincipal } from '$lib/server/auth/principal';
 import { currentClientAddress } from '$lib/server/auth/request-context';
@@ -25,11 +25,6 @@ import {
 import { sendMail, smtpOptions } from '$lib/server/mail';
 import { signInLinkMail } from '$lib/server/mail/templates';
 import { normaliseEmail } from '$lib/server/invitations';
-
-const credentialsSchema = z.object({
-	email: z.email().transform(normaliseEmail),
-	password: z.string().min(1).max(1024)
-});
 
 /**
  * The e-mailed link on this site's own origin. Auth.js builds it from the request's Host and

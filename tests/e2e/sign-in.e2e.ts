@@ -3,6 +3,7 @@ import {
 	ACCOUNTS,
 	database,
 	DEMO_PASSWORD,
+	expectNoAxeViolations,
 	firstLink,
 	signInWithPassword,
 	waitForMail,
@@ -197,4 +198,44 @@ test('sign-in links are limited per address, with the same answer past the limit
 				new Date(m.date).getTime() >= since - 1000
 		)
 	).toHaveLength(5);
+});
+
+test('a sign-in with two problems says each beside its field, with and without scripts, and never sends the password back', async ({
+	browser
+}) => {
+	const tooLong = 'p'.repeat(1025);
+	for (const javaScriptEnabled of [true, false]) {
+		const context = await browser.newContext({ baseURL: E2E.origin, javaScriptEnabled });
+		const page = await context.newPage();
+		if (javaScriptEnabled) await open(page, '/signin');
+		else await page.goto('/signin');
+		const form = page.locator('form[action="?/password"]');
+		await form.getByLabel('E-mail address').fill('someone@nowhere');
+		await form.getByLabel('Password').fill(tooLong);
+		await form.getByRole('button', { name: 'Sign in' }).click();
+
+		const email = form.getByLabel('E-mail address');
+		const password = form.getByLabel('Password');
+		await expect(email).toHaveAccessibleDescription('Enter a valid e-mail address.');
+		await expect(password).toHaveAccessibleDescription(
+			'A password here has at most 1,024 characters.'
+		);
+		const box = (label: string) =>
+			form.locator('.field').filter({ has: page.getByLabel(label, { exact: true }) });
+		await expect(box('E-mail address')).toContainText('Enter a valid e-mail address.');
+		await expect(box('E-mail address')).not.toContainText('1,024 characters');
+		await expect(box('Password')).toContainText('A password here has at most 1,024 characters.');
+		await expect(form.getByRole('alert')).toContainText(
+			'Enter your e-mail address and your password.'
+		);
+		await expect(form.getByRole('alert')).toContainText(
+			'E-mail address: Enter a valid e-mail address.'
+		);
+		// What was typed comes back, except the password, which is nowhere in the page.
+		await expect(email).toHaveValue('someone@nowhere');
+		await expect(password).toHaveValue('');
+		expect(await page.content()).not.toContain(tooLong);
+		if (javaScriptEnabled) await expectNoAxeViolations(page);
+		await context.close();
+	}
 });

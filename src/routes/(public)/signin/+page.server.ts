@@ -1,12 +1,14 @@
 import { CredentialsSignin } from '@auth/sveltekit';
 import { resolve } from '$app/paths';
 import { fail, isRedirect, redirect } from '@sveltejs/kit';
+import { message, setError, superValidate, type SuperValidated } from 'sveltekit-superforms';
+import { zod4 } from 'sveltekit-superforms/adapters';
 import { z } from 'zod';
 import { ROLE_HOME } from '$lib/auth/roles';
 import { safeRedirect } from '$lib/forms/safe-redirect';
 import { config } from '$lib/server/config';
+import { credentialsSchema } from '$lib/server/auth/credentials';
 import { attemptLockout, waitInWords } from '$lib/server/auth/sign-in-limits';
-import { normaliseEmail } from '$lib/server/invitations';
 import { signIn } from '../../../auth';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -20,7 +22,7 @@ const AUTH_ERRORS: Record<string, string> = {
 	CredentialsSignin: GENERIC_FAILURE
 };
 
-export const load: PageServerLoad = ({ locals, url }) => {
+export const load: PageServerLoad = async ({ locals, url }) => {
 	if (locals.user)
 		redirect(
 			303,
@@ -31,6 +33,7 @@ export const load: PageServerLoad = ({ locals, url }) => {
 			)
 		);
 	const code = url.searchParams.get('error');
+	const email = url.searchParams.get('email') ?? '';
 	return {
 		next: safeRedirect(url.searchParams.get('next'), config().ORIGIN),
 		authError: code ? (AUTH_ERRORS[code] ?? 'Signing in did not work. Please try again.') : null,
@@ -39,22 +42,23 @@ export const load: PageServerLoad = ({ locals, url }) => {
 			: url.searchParams.get('ended') === 'everywhere'
 				? 'You are signed out on every device. Sign in again below.'
 				: null,
-		email: url.searchParams.get('email') ?? ''
+		passwordForm: await superValidate({ email }, zod4(passwordForm), {
+			id: 'password',
+			errors: false
+		}),
+		linkForm: await superValidate({ email }, zod4(linkForm), { id: 'link', errors: false })
 	};
 };
 
 // Auth.js's action reads the provider from the form's `providerId`; without it, it would only
 // redirect, so a post missing it is refused as incomplete rather than "signed in" nowhere.
-const passwordForm = z.object({
+const passwordForm = credentialsSchema.extend({
 	providerId: z.literal('credentials'),
-	email: z.email().max(320).transform(normaliseEmail),
-	password: z.string().min(1).max(1024),
 	redirectTo: z.string().optional()
 });
 
-const linkForm = z.object({
+const linkForm = credentialsSchema.pick({ email: true }).extend({
 	providerId: z.literal('nodemailer'),
-	email: z.email().max(320).transform(normaliseEmail),
 	redirectTo: z.string().optional()
 });
 
@@ -63,61 +67,56 @@ function redirectFailed(location: string, base: URL): boolean {
 	return new URL(location, base).searchParams.has('error');
 }
 
+/** A post missing its hidden fields is no person's mistake to point at: it is said for the form. */
+function noteIncomplete(form: SuperValidated<Record<string, unknown>>) {
+	if (form.errors.providerId || form.errors.redirectTo)
+		setError(form, '', 'This form arrived incomplete. Reload the page and try again.');
+}
+
 export const actions: Actions = {
 	password: async (event) => {
-		// Auth.js reads the original body; we read a copy to validate and rate-limit first.
-		const form = Object.fromEntries(await event.request.clone().formData());
-		const parsed = passwordForm.safeParse(form);
-		if (!parsed.success) {
-			return fail(400, {
-				method: 'password',
-				email: String(form.email ?? ''),
-				message: 'Enter your e-mail address and your password.'
-			});
-		}
-		const { email } = parsed.data;
+		// Auth.js reads the original body afterwards; this reads a copy.
+		const body = await event.request.clone().formData();
+		const form = await superValidate(body, zod4(passwordForm), { id: 'password' });
+		noteIncomplete(form);
+		// The password never goes back to the page, whatever the answer.
+		form.data.password = '';
+		if (!form.valid) return fail(400, { form });
+		const { email } = form.data;
 		const address = event.getClientAddress();
 		// authorize() (src/auth.ts) enforces the limit and counts failures wherever a sign-in
 		// comes from; asking here first lets the page answer 429 with the wait in words.
 		const lockout = attemptLockout('password-failure', email, address);
 		if (lockout.locked) {
 			event.setHeaders({ 'Retry-After': String(lockout.retryAfterSeconds) });
-			return fail(429, {
-				method: 'password',
-				email,
-				message: `Too many failed sign-ins. Wait ${waitInWords(lockout)} and try again, or ask for a sign-in link by e-mail.`
-			});
+			return message(
+				form,
+				`Too many failed sign-ins. Wait ${waitInWords(lockout)} and try again, or ask for a sign-in link by e-mail.`,
+				{ status: 429 }
+			);
 		}
 		try {
 			await signIn(event);
 		} catch (thrown) {
 			// Called from an action, Auth.js throws CredentialsSignin; through its own routes it
-			// would redirect with ?error=. Both mean the same failed attempt.
+			// would redirect with ?error=. Both mean the same failed attempt, said for both fields
+			// together so it never tells which of them was wrong.
 			const failed =
 				thrown instanceof CredentialsSignin ||
 				(isRedirect(thrown) && redirectFailed(thrown.location, event.url));
-			if (failed) return fail(400, { method: 'password', email, message: GENERIC_FAILURE });
+			if (failed) return message(form, GENERIC_FAILURE, { status: 400 });
 			if (!isRedirect(thrown)) throw thrown;
-			redirect(303, safeRedirect(parsed.data.redirectTo, config().ORIGIN));
+			redirect(303, safeRedirect(form.data.redirectTo, config().ORIGIN));
 		}
-		return fail(500, {
-			method: 'password',
-			email,
-			message: 'Signing in did not finish. Please try again.'
-		});
+		return message(form, 'Signing in did not finish. Please try again.', { status: 500 });
 	},
 
 	link: async (event) => {
-		const form = Object.fromEntries(await event.request.clone().formData());
-		const parsed = linkForm.safeParse(form);
-		if (!parsed.success) {
-			return fail(400, {
-				method: 'link',
-				email: String(form.email ?? ''),
-				message: 'Enter the e-mail address your clinic invited.'
-			});
-		}
-		const { email } = parsed.data;
+		const body = await event.request.clone().formData();
+		const form = await superValidate(body, zod4(linkForm), { id: 'link' });
+		noteIncomplete(form);
+		if (!form.valid) return fail(400, { form });
+		const { email } = form.data;
 		// Past the limit nothing is sent, yet the answer is the same as always, so the form
 		// reveals neither the limit nor whether the address has an account. The signIn callback
 		// (src/auth.ts) enforces the limit and counts requests wherever they come from.
@@ -131,14 +130,12 @@ export const actions: Actions = {
 			const code = new URL(thrown.location, event.url).searchParams.get('error');
 			if (code === 'AccessDenied') redirect(303, resolve('/signin/link-sent'));
 			if (code) {
-				return fail(400, {
-					method: 'link',
-					email,
-					message: 'We could not send a link just now. Please try again in a minute.'
+				return message(form, 'We could not send a link just now. Please try again in a minute.', {
+					status: 400
 				});
 			}
 			redirect(303, resolve('/signin/link-sent'));
 		}
-		return fail(500, { method: 'link', email, message: 'Please try again.' });
+		return message(form, 'Please try again.', { status: 500 });
 	}
 };
