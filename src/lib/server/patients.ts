@@ -61,31 +61,32 @@ export function findPatientInClinic(clinicId: string, patientId: string): Patien
 
 export class PatientError extends Error {}
 
+/** The clinical details a clinician keeps up to date on a patient's record. */
+export type PatientDetailsUpdate = Pick<
+	Patient,
+	| 'fullName'
+	| 'affectedSide'
+	| 'condition'
+	| 'operationDate'
+	| 'protocol'
+	| 'precautions'
+	| 'precautionDetails'
+	| 'protocolShiftWeeks'
+	| 'slingUntil'
+	| 'birthYear'
+	| 'sex'
+	| 'timeZone'
+>;
+
 /**
  * Adds a patient under the inviting clinician and e-mails the invitation. The patient record is
  * written first; a mail failure leaves it in place with the invitation to resend, never half made.
  */
 export async function invitePatient(
 	clinician: Principal,
-	input: {
-		fullName: string;
+	input: Pick<PatientDetailsUpdate, 'fullName' | 'affectedSide' | 'condition'> & {
 		email: string;
-		affectedSide: Patient['affectedSide'];
-		condition: string;
-	} & Partial<
-		Pick<
-			Patient,
-			| 'operationDate'
-			| 'protocol'
-			| 'precautions'
-			| 'precautionDetails'
-			| 'protocolShiftWeeks'
-			| 'slingUntil'
-			| 'birthYear'
-			| 'sex'
-			| 'timeZone'
-		>
-	>
+	} & Partial<PatientDetailsUpdate>
 ): Promise<Patient & { invitationMail: Delivery['status'] }> {
 	const email = normaliseEmail(input.email);
 	const existing = db()
@@ -148,23 +149,6 @@ export async function resendPatientInvitation(
 	});
 	return invitation.mail;
 }
-
-/** The clinical details a clinician keeps up to date on a patient's record. */
-export type PatientDetailsUpdate = Pick<
-	Patient,
-	| 'fullName'
-	| 'affectedSide'
-	| 'condition'
-	| 'operationDate'
-	| 'protocol'
-	| 'precautions'
-	| 'precautionDetails'
-	| 'protocolShiftWeeks'
-	| 'slingUntil'
-	| 'birthYear'
-	| 'sex'
-	| 'timeZone'
->;
 
 /** Saves a patient's details; null when the patient is not in the clinician's clinic. */
 export function updatePatientDetails(
