@@ -153,8 +153,12 @@ export function markCancelled(jobId: string, workerId: string): void {
 		.run();
 }
 
-/** Hands a job back untouched (its worker is shutting down): the attempt does not count. */
-export function release(jobId: string, workerId: string): void {
+/** Queues a job again without counting the attempt its worker was on. */
+function handBack(
+	jobId: string,
+	workerId: string,
+	how: Pick<typeof jobs.$inferInsert, 'stage' | 'lastError' | 'runAfter'>
+): void {
 	db()
 		.update(jobs)
 		.set({
@@ -162,10 +166,15 @@ export function release(jobId: string, workerId: string): void {
 			attempts: sql`max(${jobs.attempts} - 1, 0)`,
 			lockedBy: null,
 			heartbeatAt: null,
-			stage: 'waiting'
+			...how
 		})
 		.where(finishWhere(jobId, workerId))
 		.run();
+}
+
+/** Hands a job back untouched (its worker is shutting down): the attempt does not count. */
+export function release(jobId: string, workerId: string): void {
+	handBack(jobId, workerId, { stage: 'waiting' });
 }
 
 /** How long a job waits for storage to answer again before its next try (our choice). */
@@ -176,19 +185,11 @@ export const STORAGE_WAIT_SECONDS = 30;
  * attempt not counted (an outage is nobody's fault and may last), its reason kept for the page.
  */
 export function waitForStorage(jobId: string, workerId: string, message: string): void {
-	db()
-		.update(jobs)
-		.set({
-			status: 'queued',
-			attempts: sql`max(${jobs.attempts} - 1, 0)`,
-			lockedBy: null,
-			heartbeatAt: null,
-			stage: 'waiting for storage',
-			lastError: message,
-			runAfter: new Date(Date.now() + STORAGE_WAIT_SECONDS * 1000)
-		})
-		.where(finishWhere(jobId, workerId))
-		.run();
+	handBack(jobId, workerId, {
+		stage: 'waiting for storage',
+		lastError: message,
+		runAfter: new Date(Date.now() + STORAGE_WAIT_SECONDS * 1000)
+	});
 }
 
 /**
