@@ -84,11 +84,11 @@ function post(exercise: Exercise, fields: Record<string, string>): Event {
 
 type PageData =
 	import('../../src/routes/(clinician)/exercises/[id=id]/submit/$types').PageServerData;
-const pageOf = (exercise: Exercise) =>
-	load({
+const pageOf = async (exercise: Exercise) =>
+	(await load({
 		params: { id: exercise.id },
 		url: new URL(`http://kinelume.example/exercises/${exercise.id}/submit`)
-	} as unknown as Parameters<typeof load>[0]) as PageData;
+	} as unknown as Parameters<typeof load>[0])) as PageData;
 
 function trackOf(exercise: Exercise) {
 	const segment = db()
@@ -106,7 +106,7 @@ describe('the fixCue action', () => {
 			{ title: 'Heel slides from the page' },
 			{ track: FAST }
 		);
-		const page = pageOf(exercise);
+		const page = await pageOf(exercise);
 		expect(page.checklist?.items.find((i) => i.id === 'captions')?.passed).toBe(false);
 		const [cue] = page.cueFixes!.cues;
 		expect(cue.fixes.map((f) => f.label)).toEqual(['Show cue 2 until 00:06.334 (0.38 s longer)']);
@@ -121,7 +121,11 @@ describe('the fixCue action', () => {
 		expect(isActionFailure(result)).toBe(false);
 		expect(result).toMatchObject({
 			checked: true,
-			draft: { noteToReviewer: 'Typed before the fix.', title: 'Heel slides from the page' },
+			form: {
+				id: 'submission',
+				data: { noteToReviewer: 'Typed before the fix.', title: 'Heel slides from the page' },
+				errors: {}
+			},
 			fixed: {
 				ok: true,
 				message:
@@ -131,7 +135,7 @@ describe('the fixCue action', () => {
 		});
 		expect(trackOf(exercise).currentVersion).toBe(2);
 		// The page, loaded again, offers nothing more to fix, and the exercise can be submitted.
-		expect(pageOf(exercise).cueFixes?.cues).toEqual([]);
+		expect((await pageOf(exercise)).cueFixes?.cues).toEqual([]);
 		const submitted = actions.submit(post(exercise, { consent: 'yes' }));
 		await expect(submitted).rejects.toSatisfy(isRedirect);
 		const [sent] = submissions.exerciseSubmissions(world.clinicId, exercise.id);
@@ -144,7 +148,7 @@ describe('the fixCue action', () => {
 			{ title: 'Heel slides saved meanwhile' },
 			{ track: FAST }
 		);
-		const page = pageOf(exercise);
+		const page = await pageOf(exercise);
 		const track = trackOf(exercise);
 		captions.saveVersion(track, {
 			baseVersion: 1,
@@ -161,7 +165,7 @@ describe('the fixCue action', () => {
 		expect(result).toMatchObject({
 			status: 409,
 			data: {
-				draft: { noteToReviewer: 'Typed before the fix.' },
+				form: { data: { noteToReviewer: 'Typed before the fix.' } },
 				fixed: { ok: false, message: expect.stringMatching(/^Someone saved version 2/) },
 				checklist: { passed: false }
 			}
@@ -183,6 +187,31 @@ describe('the fixCue action', () => {
 	});
 });
 
+describe('the submit action', () => {
+	it('refuses two bad fields at once, each problem on its field, and gives back what was typed', async () => {
+		const exercise = await support.makeExercise(world, { title: 'Heel slides, two problems' });
+		const cues = Array.from({ length: 21 }, (_, i) => `Key point ${i + 1}`).join('\n');
+		const result = await actions.submit(
+			post(exercise, { title: 'x', coachingCues: cues, consent: 'yes' })
+		);
+		expect(result).toMatchObject({
+			status: 400,
+			data: {
+				form: {
+					valid: false,
+					errors: {
+						title: ['Give the exercise a title of at least 3 characters.'],
+						coachingCues: ['At most 20 key points.']
+					},
+					// (a posted form sends its line ends as CR LF)
+					data: { title: 'x', coachingCues: cues.replaceAll('\n', '\r\n'), consent: true }
+				}
+			}
+		});
+		expect(submissions.exerciseSubmissions(world.clinicId, exercise.id)).toEqual([]);
+	});
+});
+
 describe('the sendCaptions action', () => {
 	it('sends the changed captions as a revision of the published version', async () => {
 		const exercise = await support.makeExercise(
@@ -200,7 +229,7 @@ describe('the sendCaptions action', () => {
 			{ id: world.educator.id, name: world.educator.name },
 			{ decision: 'approved', comment: '', judgement: support.ALL_JUDGEMENT }
 		);
-		expect(pageOf(exercise).revision).toBeNull();
+		expect((await pageOf(exercise)).revision).toBeNull();
 
 		const track = trackOf(exercise);
 		captions.saveVersion(track, {
@@ -209,7 +238,7 @@ describe('the sendCaptions action', () => {
 				c.id === '3' ? { ...c, text: 'And slide it back out.' } : c
 			)
 		});
-		const revision = pageOf(exercise).revision!;
+		const revision = (await pageOf(exercise)).revision!;
 		expect(revision).toMatchObject({
 			version: 1,
 			slug: approved.slug,
@@ -237,7 +266,7 @@ describe('the sendCaptions action', () => {
 			noteToReviewer: 'One word added.',
 			revisesVersionId: approved.versionId
 		});
-		expect(pageOf(exercise).revision?.refusal).toBe(
+		expect((await pageOf(exercise)).revision?.refusal).toBe(
 			'These caption changes are waiting for an educator’s review.'
 		);
 	});

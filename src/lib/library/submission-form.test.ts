@@ -1,10 +1,11 @@
 import { describe, expect, it } from 'vitest';
 import {
-	draftFromForm,
 	MAX_COACHING_CUES,
 	parseSubmission,
+	submissionForm,
 	type SubmissionDraft
 } from './submission-form';
+import type { Licence } from './types';
 
 const draft = (changes: Partial<SubmissionDraft> = {}): SubmissionDraft => ({
 	title: ' Heel slides ',
@@ -37,7 +38,7 @@ describe('parseSubmission', () => {
 
 	it('names each problem by its field', () => {
 		const result = parseSubmission(
-			draft({ title: 'x', consent: false, licence: 'mine', attribution: '' })
+			draft({ title: 'x', consent: false, licence: 'mine' as Licence, attribution: '' })
 		);
 		expect(result.ok).toBe(false);
 		if (result.ok) return;
@@ -58,13 +59,15 @@ describe('parseSubmission', () => {
 	});
 });
 
-describe('draftFromForm', () => {
-	it('reads the consent box as ticked only when it says yes', () => {
-		const form = new FormData();
-		form.set('title', 'Heel slides');
-		form.set('consent', 'yes');
-		expect(draftFromForm(form)).toMatchObject({ title: 'Heel slides', consent: true, licence: '' });
-		form.set('consent', 'on');
-		expect(draftFromForm(form).consent).toBe(false);
+describe('submissionForm', () => {
+	it('keeps the key points as typed, and says a long one once however many there are', () => {
+		const long = 'x'.repeat(301);
+		const refused = submissionForm.safeParse(draft({ coachingCues: `${long}\nFine\n${long}` }));
+		expect(refused.success).toBe(false);
+		expect(refused.error?.issues.map((i) => [i.path, i.message])).toEqual([
+			[['coachingCues'], 'Keep each key point under 300 characters.']
+		]);
+		const accepted = submissionForm.parse(draft());
+		expect(accepted.coachingCues).toBe(draft().coachingCues);
 	});
 });

@@ -1,55 +1,47 @@
 /**
- * The submission form as typed: every field kept as text so a refused submission shows exactly
- * what the clinician entered, and the zod schema that turns it into checked input.
+ * The submission form as typed, and its one zod schema: every field kept as text (the key points
+ * one a line) so a refused submission shows exactly what the clinician entered. The submit page
+ * checks a post with it through superforms; parseSubmission turns a draft into checked input.
  */
 import { z } from 'zod';
 import { LICENCES, type Licence } from './types';
 
-export interface SubmissionDraft {
-	title: string;
-	description: string;
-	/** One key point (coaching cue) per line. */
-	coachingCues: string;
-	safetyNotes: string;
-	consent: boolean;
-	consentDetails: string;
-	licence: string;
-	attribution: string;
-	noteToReviewer: string;
-}
-
-export function draftFromForm(form: FormData): SubmissionDraft {
-	const text = (name: string) => String(form.get(name) ?? '');
-	return {
-		title: text('title'),
-		description: text('description'),
-		coachingCues: text('coachingCues'),
-		safetyNotes: text('safetyNotes'),
-		consent: form.get('consent') === 'yes',
-		consentDetails: text('consentDetails'),
-		licence: text('licence'),
-		attribution: text('attribution'),
-		noteToReviewer: text('noteToReviewer')
-	};
-}
-
 export const MAX_COACHING_CUES = 20;
 
-const schema = z.object({
+/** The key points typed one a line, blank lines left out. */
+const cueLines = (text: string) =>
+	text
+		.split(/\r?\n/)
+		.map((l) => l.trim())
+		.filter(Boolean);
+
+const coachingCueList = z
+	.array(z.string().max(300, 'Keep each key point under 300 characters.'))
+	.max(MAX_COACHING_CUES, `At most ${MAX_COACHING_CUES} key points.`);
+
+export const submissionForm = z.object({
 	title: z
 		.string()
 		.trim()
 		.min(3, 'Give the exercise a title of at least 3 characters.')
 		.max(120, 'Keep the title under 120 characters.'),
 	description: z.string().trim().max(2000, 'Keep the description under 2,000 characters.'),
-	coachingCues: z
-		.array(z.string().max(300, 'Keep each key point under 300 characters.'))
-		.max(MAX_COACHING_CUES, `At most ${MAX_COACHING_CUES} key points.`),
-	safetyNotes: z.string().trim().max(6000, 'Keep the safety notes under 6,000 characters.'),
-	consent: z.literal(true, {
-		error:
-			'Confirm that everyone filmed agreed to publication; the library cannot take it otherwise.'
+	/** One key point (coaching cue) a line; stays text, so a refusal gives the lines back as typed. */
+	coachingCues: z.string().superRefine((text, ctx) => {
+		const checked = coachingCueList.safeParse(cueLines(text));
+		if (checked.success) return;
+		// Said once however many lines are too long.
+		for (const message of new Set(checked.error.issues.map((i) => i.message))) {
+			ctx.addIssue({ code: 'custom', message });
+		}
 	}),
+	safetyNotes: z.string().trim().max(6000, 'Keep the safety notes under 6,000 characters.'),
+	consent: z
+		.boolean()
+		.refine(
+			(ticked) => ticked,
+			'Confirm that everyone filmed agreed to publication; the library cannot take it otherwise.'
+		),
 	consentDetails: z
 		.string()
 		.trim()
@@ -63,6 +55,9 @@ const schema = z.object({
 	noteToReviewer: z.string().trim().max(2000, 'Keep the note under 2,000 characters.')
 });
 
+export type SubmissionDraft = z.input<typeof submissionForm>;
+type CheckedDraft = z.output<typeof submissionForm>;
+
 export interface ParsedSubmission {
 	wording: { title: string; description: string; coachingCues: string[]; safetyNotes: string };
 	consentConfirmed: true;
@@ -72,19 +67,30 @@ export interface ParsedSubmission {
 	noteToReviewer: string;
 }
 
+/** A draft that passed the schema, as the library takes it. */
+export function toSubmission(d: CheckedDraft): ParsedSubmission {
+	return {
+		wording: {
+			title: d.title,
+			description: d.description,
+			coachingCues: cueLines(d.coachingCues),
+			safetyNotes: d.safetyNotes
+		},
+		consentConfirmed: true,
+		consentDetails: d.consentDetails,
+		licence: d.licence,
+		attribution: d.attribution,
+		noteToReviewer: d.noteToReviewer
+	};
+}
+
 export type ParseResult =
 	| { ok: true; input: ParsedSubmission }
 	| { ok: false; problems: { path: string; message: string }[] };
 
 /** Checks a draft; every problem is named by its field. */
 export function parseSubmission(draft: SubmissionDraft): ParseResult {
-	const parsed = schema.safeParse({
-		...draft,
-		coachingCues: draft.coachingCues
-			.split(/\r?\n/)
-			.map((l) => l.trim())
-			.filter(Boolean)
-	});
+	const parsed = submissionForm.safeParse(draft);
 	if (!parsed.success) {
 		return {
 			ok: false,
@@ -94,21 +100,5 @@ export function parseSubmission(draft: SubmissionDraft): ParseResult {
 			}))
 		};
 	}
-	const d = parsed.data;
-	return {
-		ok: true,
-		input: {
-			wording: {
-				title: d.title,
-				description: d.description,
-				coachingCues: d.coachingCues,
-				safetyNotes: d.safetyNotes
-			},
-			consentConfirmed: true,
-			consentDetails: d.consentDetails,
-			licence: d.licence,
-			attribution: d.attribution,
-			noteToReviewer: d.noteToReviewer
-		}
-	};
+	return { ok: true, input: toSubmission(parsed.data) };
 }

@@ -1,9 +1,17 @@
 import { error, fail, redirect } from '@sveltejs/kit';
 import { resolve } from '$app/paths';
+import { superValidate } from 'sveltekit-superforms';
+import { zod4 } from 'sveltekit-superforms/adapters';
+import { z } from 'zod';
 import { captionChangeRows, captionChangeSummary } from '$lib/library/caption-changes';
 import { computeCaptionChecklist, computeChecklist } from '$lib/library/checklist';
 import { isCueFix } from '$lib/library/cue-fixes';
-import { draftFromForm, parseSubmission, type SubmissionDraft } from '$lib/library/submission-form';
+import {
+	parseSubmission,
+	submissionForm,
+	toSubmission,
+	type SubmissionDraft
+} from '$lib/library/submission-form';
 import { requireRole } from '$lib/server/auth/guard';
 import type { Exercise, SegmentRow } from '$lib/server/db/schema';
 import { cueFixesFor, fixSegmentCue } from '$lib/server/library/cue-fixes';
@@ -83,7 +91,7 @@ function loadExercise(id: string) {
 	return { clinician, ...found };
 }
 
-export const load: PageServerLoad = ({ params, url }) => {
+export const load: PageServerLoad = async ({ params, url }) => {
 	const { clinician, exercise, segment } = loadExercise(params.id);
 	const history = exerciseSubmissions(clinician.clinicId, exercise.id);
 	const latest = history[0];
@@ -119,7 +127,11 @@ export const load: PageServerLoad = ({ params, url }) => {
 		cueCount: segment ? segmentCaptions(segment).cues.length : 0,
 		cueFixes: segment ? cueFixesFor(segment) : null,
 		revision: revisionView(exercise, segment),
-		draft,
+		form: await superValidate(draft, zod4(submissionForm), { id: 'submission', errors: false }),
+		captionsForm: await superValidate({ revisionNote: '' }, zod4(captionsForm), {
+			id: 'captions',
+			errors: false
+		}),
 		filledFrom: fromLatest ? { createdAt: latest.createdAt.toISOString() } : null,
 		checklist: previewChecklist(exercise, segment, { ...draft, consent: true }),
 		blocked,
@@ -140,15 +152,25 @@ export const load: PageServerLoad = ({ params, url }) => {
 	};
 };
 
+/** The caption changes' note: the same limit as the submission's note to the reviewer. */
+const captionsForm = z.object({ revisionNote: submissionForm.shape.noteToReviewer });
+
+/**
+ * The submission form as posted, unchecked: running the checks or fixing a caption says nothing
+ * of the form's own problems (an unticked consent is no problem until the form is sent).
+ */
+const typed = (posted: FormData) =>
+	superValidate(posted, zod4(submissionForm), { id: 'submission', errors: false });
+
 export const actions: Actions = {
 	/** Runs the reviewer's checks on what is typed, without sending anything. */
 	check: async ({ params, request }) => {
 		const { exercise, segment } = loadExercise(params.id);
-		const draft = draftFromForm(await request.formData());
+		const form = await typed(await request.formData());
 		return {
-			draft,
+			form,
 			checked: true,
-			checklist: previewChecklist(exercise, segment, { ...draft, consent: true })
+			checklist: previewChecklist(exercise, segment, { ...form.data, consent: true })
 		};
 	},
 	/**
@@ -157,24 +179,24 @@ export const actions: Actions = {
 	 */
 	fixCue: async ({ params, request }) => {
 		const { clinician, exercise, segment } = loadExercise(params.id);
-		const form = await request.formData();
-		const draft = draftFromForm(form);
-		const [index, fix] = String(form.get('fix') ?? '').split(':');
+		const posted = await request.formData();
+		const form = await typed(posted);
+		const [index, fix] = String(posted.get('fix') ?? '').split(':');
 		const input = {
-			trackId: String(form.get('captionsTrack') ?? ''),
-			baseVersion: Number(form.get('captionsVersion')),
+			trackId: String(posted.get('captionsTrack') ?? ''),
+			baseVersion: Number(posted.get('captionsVersion')),
 			trackIndex: Number(index),
 			fix
 		};
 		// The segment's captions are read afresh from the track, so this is after the fix.
-		const checked = () => previewChecklist(exercise, segment, { ...draft, consent: true });
+		const checked = () => previewChecklist(exercise, segment, { ...form.data, consent: true });
 		if (
 			!isCueFix(input.fix) ||
 			!Number.isInteger(input.trackIndex) ||
 			!Number.isInteger(input.baseVersion)
 		) {
 			return fail(400, {
-				draft,
+				form,
 				checked: true,
 				checklist: checked(),
 				fixed: { ok: false, message: 'That fix could not be read; nothing was saved.' }
@@ -187,7 +209,7 @@ export const actions: Actions = {
 			if (e instanceof LibraryError) {
 				if (e.status === 404) error(404, 'Not found.');
 				return fail(e.status, {
-					draft,
+					form,
 					checked: true,
 					checklist: checked(),
 					fixed: { ok: false, message: e.message }
@@ -201,24 +223,27 @@ export const actions: Actions = {
 					message: `Saved as version ${result.version} of the recording’s captions: ${result.label}. Your patients see it too.`
 				}
 			: { ok: false, message: result.message };
-		if (!result.ok) return fail(409, { draft, checked: true, checklist: checked(), fixed });
-		return { draft, checked: true, checklist: checked(), fixed };
+		if (!result.ok) return fail(409, { form, checked: true, checklist: checked(), fixed });
+		return { form, checked: true, checklist: checked(), fixed };
 	},
 	/** Sends the segment's captions as they are now as a caption revision of the library's version. */
 	sendCaptions: async ({ params, request }) => {
 		const { clinician, exercise } = loadExercise(params.id);
-		const form = await request.formData();
-		const note = String(form.get('revisionNote') ?? '').slice(0, 2000);
-		const seen = Number(form.get('captionsVersion') ?? Number.NaN);
+		const posted = await request.formData();
+		const form = await superValidate(posted, zod4(captionsForm), { id: 'captions' });
+		if (!form.valid) return fail(400, { form });
+		const seen = Number(posted.get('captionsVersion') ?? Number.NaN);
 		try {
 			submitCaptionRevision(clinician, exercise.id, {
 				captionsVersion: Number.isInteger(seen) ? seen : undefined,
-				noteToReviewer: note
+				noteToReviewer: form.data.revisionNote
 			});
 		} catch (e) {
 			if (e instanceof LibraryError) {
 				if (e.status === 404) error(404, 'Not found.');
-				return fail(e.status, { revisionNote: note, revisionProblem: e.message });
+				form.valid = false;
+				form.message = e.message;
+				return fail(e.status, { form });
 			}
 			throw e;
 		}
@@ -229,24 +254,17 @@ export const actions: Actions = {
 	},
 	submit: async ({ params, request }) => {
 		const { clinician, exercise, segment } = loadExercise(params.id);
-		const draft = draftFromForm(await request.formData());
-		const parsed = parseSubmission(draft);
-		if (!parsed.ok) {
-			return fail(400, {
-				draft,
-				problems: parsed.problems,
-				checklist: previewChecklist(exercise, segment, { ...draft, consent: true })
-			});
-		}
+		const form = await superValidate(request, zod4(submissionForm), { id: 'submission' });
+		const checklist = () => previewChecklist(exercise, segment, { ...form.data, consent: true });
+		if (!form.valid) return fail(400, { form, checklist: checklist() });
 		try {
-			submitExercise(clinician, exercise.id, parsed.input);
+			submitExercise(clinician, exercise.id, toSubmission(form.data));
 		} catch (e) {
 			if (e instanceof LibraryError) {
-				return fail(e.status, {
-					draft,
-					problems: [{ path: '', message: e.message }],
-					checklist: previewChecklist(exercise, segment, { ...draft, consent: true })
-				});
+				// A refusal of the whole submission (the exercise retired or its clip gone meanwhile).
+				form.valid = false;
+				form.message = e.message;
+				return fail(e.status, { form, checklist: checklist() });
 			}
 			throw e;
 		}
