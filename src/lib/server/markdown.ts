@@ -1,5 +1,6 @@
 import { Marked, type Token } from 'marked';
 import sanitizeHtml from 'sanitize-html';
+import escapeHtml from 'escape-html';
 
 /** Elements whose content is code or styling, never words: dropped with everything inside. */
 const NON_TEXT = [
@@ -26,24 +27,16 @@ const parser = new Marked({
 		},
 		// Nor images: keep their words.
 		image({ text }) {
-			return escapeText(text);
+			return escapeHtml(text);
 		},
 		// A link of any kind but http(s) or mailto keeps its words and loses the link.
 		link({ href, tokens }) {
 			const words = this.parser.parseInline(tokens);
 			if (!SAFE_LINK.test(href.trim())) return words;
-			return `<a href="${escapeText(href.trim())}">${words}</a>`;
+			return `<a href="${escapeHtml(href.trim())}">${words}</a>`;
 		}
 	}
 });
-
-function escapeText(value: string): string {
-	return value
-		.replaceAll('&', '&amp;')
-		.replaceAll('<', '&lt;')
-		.replaceAll('>', '&gt;')
-		.replaceAll('"', '&quot;');
-}
 
 function openedNonTextTag(raw: string): string | null {
 	const name = /^<([a-z]+)/i.exec(raw.trim())?.[1]?.toLowerCase();

@@ -5,15 +5,7 @@
  */
 import type { Decision, SubmissionKind } from '$lib/library/types';
 import type { MailContent } from '../mail/templates';
-
-function escapeHtml(value: string): string {
-	return value
-		.replaceAll('&', '&amp;')
-		.replaceAll('<', '&lt;')
-		.replaceAll('>', '&gt;')
-		.replaceAll('"', '&quot;')
-		.replaceAll("'", '&#39;');
-}
+import escapeHtml from 'escape-html';
 
 const HEADINGS: Record<Decision, (title: string) => string> = {
 	approved: (title) => `“${title}” is now in the public library`,

@@ -4,20 +4,12 @@
  */
 import { formatInstant } from '$lib/format/instants';
 import { formatDay } from '$lib/format/dates';
+import escapeHtml from 'escape-html';
 
 export interface MailContent {
 	subject: string;
 	text: string;
 	html: string;
-}
-
-function escapeHtml(value: string): string {
-	return value
-		.replaceAll('&', '&amp;')
-		.replaceAll('<', '&lt;')
-		.replaceAll('>', '&gt;')
-		.replaceAll('"', '&quot;')
-		.replaceAll("'", '&#39;');
 }
 
 function layout(
