@@ -30,26 +30,15 @@ const linkRequestAllowed = (email: string, now = Date.now()) =>
 	!attemptLockout('link-request', email, '192.0.2.200', now).locked;
 const { listInbox, readInboxMessage } = await import('../../src/lib/server/mail/inbox');
 const { getClinicTimeZone, setClinicTimeZone } = await import('../../src/lib/server/clinics');
+const factories = await import('./factories');
+const { makeClinic } = factories;
 
 type Principal = NonNullable<ReturnType<typeof loadPrincipal>>;
+type Role = import('./factories').Staff['role'];
 
-function makeClinic(name: string) {
-	return db().insert(schema.clinics).values({ name }).returning().get();
-}
-
-function makeStaff(
-	clinicId: string,
-	email: string,
-	role: 'admin' | 'clinician' | 'educator'
-): Principal {
-	const user = db()
-		.insert(schema.users)
-		.values({ email, name: email.split('@')[0] })
-		.returning()
-		.get();
-	db().insert(schema.memberships).values({ userId: user.id, clinicId, role }).run();
-	return loadPrincipal(user.id)!;
-}
+/** A staff member at `email`, as the app sees them signed in. */
+const makeStaff = (clinicId: string, email: string, role: Role): Principal =>
+	loadPrincipal(factories.makeStaff(clinicId, role, { email }).id)!;
 
 /** The invitation link's token, read back from the mail fake like a person reading their e-mail. */
 async function tokenMailedTo(email: string, clinicId = clinic.id): Promise<string> {

@@ -8,31 +8,15 @@ import { beforeAll, describe, expect, it } from 'vitest';
  */
 process.env.DATABASE_PATH = join(fakesDirectory, `captions-export-cache-${process.pid}.db`);
 
-const { db, schema } = await import('$lib/server/db');
 const captions = await import('$lib/server/captions');
 const { serializeVtt } = await import('$lib/captions/vtt');
 const { serializeSrt } = await import('$lib/captions/srt');
+const { makeClinic, makeRecording } = await import('./factories');
 
-const clinicId = crypto.randomUUID();
+let clinicId: string;
 
 function newTrack() {
-	const recording = db()
-		.insert(schema.recordings)
-		.values({
-			clinicId,
-			title: 'Heel slides',
-			originalFilename: 'heel.mp4',
-			contentType: 'video/mp4',
-			sizeBytes: 1,
-			durationSeconds: 10,
-			width: 2,
-			height: 2,
-			videoCodec: 'h264',
-			status: 'ready'
-		})
-		.returning()
-		.get();
-	return captions.createTrack(recording, { kind: 'captions', language: 'en-GB' });
+	return captions.createTrack(makeRecording(clinicId), { kind: 'captions', language: 'en-GB' });
 }
 
 const fresh = (id: string) => captions.findTrack(clinicId, id)!;
@@ -44,7 +28,7 @@ const SECOND = [
 ];
 
 beforeAll(() => {
-	db().insert(schema.clinics).values({ id: clinicId, name: 'Export clinic' }).run();
+	clinicId = makeClinic('Export clinic').id;
 });
 
 describe('exportTrack with files kept in memory', () => {

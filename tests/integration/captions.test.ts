@@ -9,9 +9,10 @@ const { db, schema } = await import('$lib/server/db');
 const captions = await import('$lib/server/captions');
 const { parseVtt } = await import('$lib/captions/vtt');
 const { parseSrt } = await import('$lib/captions/srt');
+const { makeClinic, makeRecording, makeStaff } = await import('./factories');
 
-const owner = { id: crypto.randomUUID(), clinicId: crypto.randomUUID() };
-const otherClinicId = crypto.randomUUID();
+let owner: import('./factories').Staff;
+let otherClinicId: string;
 const utf8 = (text: string) => new TextEncoder().encode(text);
 
 const GOOD_VTT = `WEBVTT
@@ -33,38 +34,18 @@ A comma where the full stop belongs.
 No arrow.
 `;
 
-function makeRecording(clinicId = owner.clinicId) {
-	return db()
-		.insert(schema.recordings)
-		.values({
-			clinicId,
-			title: 'Sit to stand',
-			originalFilename: 'sit.mp4',
-			contentType: 'video/mp4',
-			sizeBytes: 1,
-			durationSeconds: 10,
-			width: 2,
-			height: 2,
-			videoCodec: 'h264',
-			status: 'ready'
-		})
-		.returning()
-		.get();
-}
-
 function newTrack() {
-	return captions.createTrack(makeRecording(), { kind: 'captions', language: 'en-gb' });
+	return captions.createTrack(makeRecording(owner.clinicId), {
+		kind: 'captions',
+		language: 'en-gb'
+	});
 }
 
 const fresh = (track: { id: string }) => captions.findTrack(owner.clinicId, track.id)!;
 
 beforeAll(() => {
-	db().insert(schema.clinics).values({ id: owner.clinicId, name: 'Captions clinic' }).run();
-	db().insert(schema.clinics).values({ id: otherClinicId, name: 'Other clinic' }).run();
-	db()
-		.insert(schema.users)
-		.values({ id: owner.id, email: `${owner.id}@example.test`, name: 'Test clinician' })
-		.run();
+	owner = makeStaff(makeClinic('Captions clinic').id);
+	otherClinicId = makeClinic('Other clinic').id;
 });
 
 describe('caption tracks', () => {
@@ -77,7 +58,7 @@ describe('caption tracks', () => {
 	});
 
 	it('refuse a tag that is not BCP 47, and a second track of one kind and language', () => {
-		const recording = makeRecording();
+		const recording = makeRecording(owner.clinicId);
 		expect(() =>
 			captions.createTrack(recording, { kind: 'captions', language: 'not a tag' })
 		).toThrow(/not a language tag/);

@@ -6,15 +6,15 @@ import { describe, expect, it } from 'vitest';
 
 process.env.DATABASE_PATH = join(mkdtempSync(join(tmpdir(), 'kinelume-profile-')), 'profile.db');
 
-const { db, schema } = await import('../../src/lib/server/db');
+const { makeClinic } = await import('./factories');
 const { getClinicCaptionProfile, setClinicCaptionProfile } = await import(
 	'../../src/lib/server/clinics'
 );
 
 describe("a clinic's caption guideline", () => {
 	it('starts as the BBC profile, changes for that clinic only, and unknown clinics get the BBC', () => {
-		const a = db().insert(schema.clinics).values({ name: 'Clinic A' }).returning().get();
-		const b = db().insert(schema.clinics).values({ name: 'Clinic B' }).returning().get();
+		const a = makeClinic('Clinic A');
+		const b = makeClinic('Clinic B');
 		expect(getClinicCaptionProfile(a.id)).toBe('bbc');
 		setClinicCaptionProfile(a.id, 'dcmp');
 		expect(getClinicCaptionProfile(a.id)).toBe('dcmp');

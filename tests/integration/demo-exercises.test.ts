@@ -11,40 +11,12 @@ process.env.DATABASE_PATH = join(mkdtempSync(join(tmpdir(), 'kinelume-demo-ex-')
 const { db, schema } = await import('../../src/lib/server/db');
 const { seedDemo } = await import('../../src/scripts/demo/seed');
 const { seedDemoExercises } = await import('../../src/scripts/demo/exercises');
+const { makeRecording, makeSegment } = await import('./factories');
 
 const CLINICIAN = 'clinician@alder-street.example';
 
 function segmentFor(clinicId: string, title: string) {
-	const recording = db()
-		.insert(schema.recordings)
-		.values({
-			clinicId,
-			title: `Demo ${title}`,
-			originalFilename: `${title}.mp4`,
-			contentType: 'video/mp4',
-			sizeBytes: 10,
-			status: 'ready',
-			durationSeconds: 30,
-			width: 320,
-			height: 240,
-			videoCodec: 'h264'
-		})
-		.returning()
-		.get();
-	db()
-		.insert(schema.segments)
-		.values({
-			recordingId: recording.id,
-			clinicId,
-			position: 0,
-			title,
-			startSeconds: 0,
-			endSeconds: 30,
-			status: 'ready',
-			clipDurationSeconds: 30,
-			posterCount: 1
-		})
-		.run();
+	makeSegment(makeRecording(clinicId, { title: `Demo ${title}` }), { title });
 }
 
 describe('demo exercises', () => {

@@ -21,6 +21,7 @@ const { putObject } = await import('$lib/server/storage');
 const { recordingKeys } = await import('$lib/server/storage/keys');
 const library = await import('$lib/server/library/public');
 const { listQueue } = await import('$lib/server/library/submissions');
+const { makeRecording, makeSegment } = await import('./factories');
 
 const CLINICIAN = 'clinician@alder-street.example';
 const EDUCATOR = 'educator@alder-street.example';
@@ -33,42 +34,21 @@ async function cutDemoSegments(clinicId: string): Promise<void> {
 	for (const clip of DEMO_CLIPS) {
 		const plan = planDemoClip(clip);
 		const cues = plan.cues.map((c, i) => ({ id: String(i + 1), ...c }));
-		const recording = db()
-			.insert(schema.recordings)
-			.values({
-				clinicId,
-				title: clip.title,
-				originalFilename: `${clip.id}.mp4`,
-				contentType: 'video/mp4',
-				sizeBytes: 10,
-				status: 'ready',
-				durationSeconds: plan.durationSeconds,
-				width: 320,
-				height: 240,
-				videoCodec: 'h264'
-			})
-			.returning()
-			.get();
+		const recording = makeRecording(clinicId, {
+			title: clip.title,
+			durationSeconds: plan.durationSeconds
+		});
 		const sections = plan.sections.filter((s) => s.kind === 'exercise');
 		for (const [position, section] of sections.entries()) {
-			const segment = db()
-				.insert(schema.segments)
-				.values({
-					recordingId: recording.id,
-					clinicId,
-					position,
-					title: section.title,
-					startSeconds: section.start,
-					endSeconds: section.end,
-					status: 'ready',
-					clipDurationSeconds: section.end - section.start,
-					posterCount: 1,
-					cues: shiftAndClip(cues, section.start, section.end),
-					captionsVersion: 1,
-					captionsLanguage: 'en-GB'
-				})
-				.returning()
-				.get();
+			const segment = makeSegment(recording, {
+				position,
+				title: section.title,
+				startSeconds: section.start,
+				endSeconds: section.end,
+				cues: shiftAndClip(cues, section.start, section.end),
+				captionsVersion: 1,
+				captionsLanguage: 'en-GB'
+			});
 			const keys = recordingKeys(clinicId, recording.id);
 			await putObject(keys.segment(segment.id), 'demo clip bytes', 'video/mp4');
 			await putObject(keys.segmentPoster(segment.id, 0), 'demo poster bytes', 'image/jpeg');

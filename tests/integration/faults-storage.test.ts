@@ -1,5 +1,5 @@
 import { fakesDirectory, testEnv } from './env';
-import { mkdtemp, readFile, rm } from 'node:fs/promises';
+import { mkdtemp, rm } from 'node:fs/promises';
 import { createServer } from 'node:net';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -40,17 +40,15 @@ const queue = await import('$lib/server/jobs/queue');
 const { startWorker } = await import('$lib/server/jobs/sqlite');
 const { HANDLERS } = await import('$lib/server/jobs');
 const { STAGE_LABEL } = await import('$lib/recordings/status');
+const { makeClinic, makeStaff } = await import('./factories');
+const { uploadFile } = await import('./media-support');
 
-const owner = { id: crypto.randomUUID(), clinicId: crypto.randomUUID() };
+let owner: import('./factories').Staff;
 let dir: string;
 
 beforeAll(async () => {
 	dir = await mkdtemp(join(fakesDirectory, 'faults-storage-clip-'));
-	db().insert(schema.clinics).values({ id: owner.clinicId, name: 'Outage clinic' }).run();
-	db()
-		.insert(schema.users)
-		.values({ id: owner.id, email: `${owner.id}@example.test`, name: 'Outage clinician' })
-		.run();
+	owner = makeStaff(makeClinic('Outage clinic').id, 'clinician', { name: 'Outage clinician' });
 	await makeClip(join(dir, 'clip.mp4'));
 });
 afterAll(async () => {
@@ -69,20 +67,7 @@ async function until<T>(what: string, check: () => T | null | undefined | false)
 
 describe('storage stopped during processing', () => {
 	it('waits for storage without using up attempts, then makes the recording in full', async () => {
-		const bytes = new Uint8Array(await readFile(join(dir, 'clip.mp4')));
-		const session = await uploads.createUpload(owner, {
-			filename: 'clip.mp4',
-			contentType: 'video/mp4',
-			sizeBytes: bytes.length
-		});
-		for (const { partNumber, url } of await uploads.presignParts(owner, session.id, [1])) {
-			const start = (partNumber - 1) * session.partSize;
-			const sent = await fetch(url, {
-				method: 'PUT',
-				body: bytes.subarray(start, start + session.partSize)
-			});
-			expect(sent.status).toBe(200);
-		}
+		const session = await uploadFile(owner, join(dir, 'clip.mp4'), 'clip.mp4');
 		const recording = await uploads.completeUpload(owner, session.id);
 
 		// Storage goes away before the worker fetches the original.

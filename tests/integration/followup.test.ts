@@ -14,115 +14,51 @@ const { addRomMeasurement, deleteRomMeasurement, listCaseload, patientFollowup, 
 	await import('../../src/lib/server/followup');
 const { sendWeeklyDigests } = await import('../../src/lib/server/followup/digest');
 const { listInbox, readInboxMessage } = await import('../../src/lib/server/mail/inbox');
+const factories = await import('./factories');
+const { makeClinic, makeExercise, makeProgramme, makeSessionLog } = factories;
+
+type Staff = import('./factories').Staff;
+type Patient = import('$lib/server/db/schema').Patient;
+
+const makeClinician = (clinicId: string, name: string) =>
+	factories.makeStaff(clinicId, 'clinician', { name });
 
 // Monday 30 November 2026, 12:00 in London (GMT): the patients' today is 30 Nov.
 const NOW = new Date('2026-11-30T12:00:00Z');
 const SCHEDULE = { weekday: 1, hour: 7, timeZone: 'Europe/London' } as const;
-const tag = Math.random().toString(36).slice(2, 8);
 
-function makeClinic(name: string) {
-	return db().insert(schema.clinics).values({ name }).returning().get();
-}
-
-function makeClinician(clinicId: string, name: string) {
-	const email = `${name.toLowerCase().replace(/\W+/g, '.')}.${tag}@followup-test.example`;
-	const user = db().insert(schema.users).values({ email, name }).returning().get();
-	db().insert(schema.memberships).values({ userId: user.id, clinicId, role: 'clinician' }).run();
-	return { id: user.id, email, clinicId };
-}
-
+/** A patient after a knee replacement, looked after by `clinician`. */
 function makePatient(
-	clinician: { id: string; clinicId: string },
+	clinician: Staff,
 	fullName: string,
-	extra: Partial<typeof schema.patients.$inferInsert> = {}
+	extra: Parameters<typeof factories.makePatient>[2] = {}
 ) {
-	const patient = db()
-		.insert(schema.patients)
-		.values({
-			clinicId: clinician.clinicId,
-			fullName,
-			email: `${fullName.toLowerCase().replace(/\W+/g, '.')}.${tag}@followup-test.example`,
-			affectedSide: 'left',
-			condition: 'Left total knee replacement',
-			operationDate: '2026-10-19',
-			protocol: 'knee-replacement',
-			...extra
-		})
-		.returning()
-		.get();
-	db()
-		.insert(schema.patientClinicians)
-		.values({ patientId: patient.id, clinicianUserId: clinician.id })
-		.run();
-	return patient;
+	return factories.makePatient(clinician.clinicId, fullName, {
+		emailDomain: 'followup-test.example',
+		affectedSide: 'left',
+		condition: 'Left total knee replacement',
+		operationDate: '2026-10-19',
+		protocol: 'knee-replacement',
+		careOf: [clinician],
+		...extra
+	});
 }
 
 /** A published programme of one exercise done once a day, every day, from `startDate`. */
-function publishProgramme(patient: { id: string; clinicId: string }, startDate: string) {
-	const exercise = db()
-		.insert(schema.exercises)
-		.values({
-			clinicId: patient.clinicId,
-			title: 'Heel slides',
-			bodyRegion: 'knee',
-			position: 'supine',
-			movementType: 'active',
-			sets: 1,
-			reps: 10,
-			sessionsPerDay: 1,
-			daysPerWeek: 7,
-			status: 'ready'
-		})
-		.returning()
-		.get();
-	const programme = db()
-		.insert(schema.programmes)
-		.values({
-			clinicId: patient.clinicId,
-			patientId: patient.id,
-			title: 'Knee home programme',
-			status: 'published',
-			startDate,
-			publishedAt: new Date(`${startDate}T08:00:00Z`)
-		})
-		.returning()
-		.get();
-	const item = db()
-		.insert(schema.programmeItems)
-		.values({
-			programmeId: programme.id,
-			exerciseId: exercise.id,
-			position: 0,
-			sets: 1,
-			reps: 10,
-			sessionsPerDay: 1,
-			daysPerWeek: 7
-		})
-		.returning()
-		.get();
-	return { programme, item };
+function publishProgramme(patient: Patient, startDate: string) {
+	const exercise = makeExercise(patient.clinicId, 'Heel slides', { reps: 10, sessionsPerDay: 1 });
+	const { programme, items } = makeProgramme(patient, [exercise.id], {
+		title: 'Knee home programme',
+		startDate,
+		publishedAt: new Date(`${startDate}T08:00:00Z`),
+		item: { sets: 1, reps: 10, restSeconds: 0, sessionsPerDay: 1, progression: { kind: 'none' } }
+	});
+	return { programme, item: items[0] };
 }
 
-function logSessions(
-	patient: { id: string; clinicId: string },
-	itemId: string,
-	days: { date: string; pain: number }[]
-) {
+function logSessions(patient: Patient, itemId: string, days: { date: string; pain: number }[]) {
 	for (const { date, pain } of days) {
-		db()
-			.insert(schema.sessionLogs)
-			.values({
-				clinicId: patient.clinicId,
-				patientId: patient.id,
-				programmeItemId: itemId,
-				clientId: crypto.randomUUID(),
-				doneAt: new Date(`${date}T10:00:00Z`),
-				localDate: date,
-				setsDone: 1,
-				repsDone: 10,
-				pain
-			})
-			.run();
+		makeSessionLog(patient, itemId, { localDate: date, repsDone: 10, pain });
 	}
 }
 
@@ -137,12 +73,12 @@ const query = {
 };
 
 let clinicA: { id: string };
-let clinicianA: ReturnType<typeof makeClinician>;
-let colleagueA: ReturnType<typeof makeClinician>;
-let clinicianB: ReturnType<typeof makeClinician>;
-let rising: ReturnType<typeof makePatient>;
-let steady: ReturnType<typeof makePatient>;
-let otherClinicPatient: ReturnType<typeof makePatient>;
+let clinicianA: Staff;
+let colleagueA: Staff;
+let clinicianB: Staff;
+let rising: Patient;
+let steady: Patient;
+let otherClinicPatient: Patient;
 
 beforeAll(() => {
 	expect(testEnv.DEV_INBOX_URL).toMatch(/^http/);

@@ -1,12 +1,16 @@
 /**
- * Factories for the library tests: a clinic with a clinician and an educator, and exercises on
- * ready segments whose clip and posters are real objects in the storage fake.
+ * Factories for the library tests, on the shared ones (factories.ts): a clinic with a clinician
+ * and an educator, and exercises on ready segments whose clip and posters are real objects in
+ * the storage fake.
  */
 import { createTrack, saveVersion } from '$lib/server/captions';
-import { db, schema } from '$lib/server/db';
+import type { schema } from '$lib/server/db';
 import { putObject } from '$lib/server/storage';
 import { recordingKeys } from '$lib/server/storage/keys';
 import type { Cue } from '$lib/captions/types';
+import * as factories from './factories';
+
+const { makeClinic, makeRecording, makeStaff } = factories;
 
 export interface World {
 	clinicId: string;
@@ -15,20 +19,14 @@ export interface World {
 }
 
 export function makeWorld(name: string): World {
-	const clinicId = db().insert(schema.clinics).values({ name }).returning().get().id;
-	const person = (role: 'clinician' | 'educator') => {
-		const email = `${role}-${crypto.randomUUID()}@library.example`;
-		const user = db()
-			.insert(schema.users)
-			.values({ email, name: `Test ${role}` })
-			.returning()
-			.get();
-		db().insert(schema.memberships).values({ userId: user.id, clinicId, role }).run();
-		return { id: user.id, email, name: `Test ${role}` };
+	const clinicId = makeClinic(name).id;
+	const clinician = makeStaff(clinicId, 'clinician');
+	const educator = makeStaff(clinicId, 'educator');
+	return {
+		clinicId,
+		clinician: { id: clinician.id, clinicId, email: clinician.email },
+		educator: { id: educator.id, name: educator.name!, email: educator.email }
 	};
-	const clinician = person('clinician');
-	const educator = person('educator');
-	return { clinicId, clinician: { ...clinician, clinicId }, educator };
 }
 
 export const GOOD_CUES: Cue[] = [
@@ -49,45 +47,19 @@ export async function makeSegment(
 	world: World,
 	{ cues = GOOD_CUES, posters = 2, track }: { cues?: Cue[]; posters?: number; track?: Cue[] } = {}
 ) {
-	const recording = db()
-		.insert(schema.recordings)
-		.values({
-			clinicId: world.clinicId,
-			title: 'Knee class',
-			originalFilename: 'knee.mp4',
-			contentType: 'video/mp4',
-			sizeBytes: 1,
-			durationSeconds: 30,
-			width: 2,
-			height: 2,
-			videoCodec: 'h264',
-			status: 'ready'
-		})
-		.returning()
-		.get();
+	const recording = makeRecording(world.clinicId);
 	if (track) {
 		const made = createTrack(recording, { kind: 'captions', language: 'en-GB' });
 		saveVersion(made, { baseVersion: 0, cues: track, source: 'import' });
 	}
-	const segment = db()
-		.insert(schema.segments)
-		.values({
-			recordingId: recording.id,
-			clinicId: world.clinicId,
-			position: 0,
-			title: 'Heel slides',
-			startSeconds: 0,
-			endSeconds: 9,
-			status: 'ready',
-			clipDurationSeconds: 9,
-			clipSize: CLIP_BYTES.length,
-			posterCount: posters,
-			cues,
-			captionsVersion: 1,
-			captionsLanguage: 'en-GB'
-		})
-		.returning()
-		.get();
+	const segment = factories.makeSegment(recording, {
+		endSeconds: 9,
+		clipSize: CLIP_BYTES.length,
+		posterCount: posters,
+		cues,
+		captionsVersion: 1,
+		captionsLanguage: 'en-GB'
+	});
 	const keys = recordingKeys(world.clinicId, recording.id);
 	await putObject(keys.segment(segment.id), CLIP_BYTES, 'video/mp4');
 	for (let i = 0; i < posters; i++) {
@@ -102,31 +74,16 @@ export async function makeExercise(
 	segmentOptions: Parameters<typeof makeSegment>[1] = {}
 ) {
 	const segment = await makeSegment(world, segmentOptions);
-	return db()
-		.insert(schema.exercises)
-		.values({
-			clinicId: world.clinicId,
-			segmentId: segment.id,
-			title: 'Heel slides',
-			description: 'Lying on your back, slide the heel towards you and back.',
-			bodyRegion: 'Knee',
-			position: 'supine',
-			movementType: 'active-assisted',
-			equipment: ['Towel'],
-			phase: 1,
-			coachingCues: [{ text: 'Keep the heel on the bed', atSeconds: 3 }],
-			safetyNotes: 'Tightness at the end of the bend is normal. **Stop** if pain is sharp.',
-			sets: 1,
-			reps: 8,
-			holdSeconds: 0,
-			restSeconds: 30,
-			sessionsPerDay: 3,
-			daysPerWeek: 7,
-			status: 'ready',
-			...changes
-		})
-		.returning()
-		.get();
+	return factories.makeExercise(world.clinicId, 'Heel slides', {
+		segmentId: segment.id,
+		description: 'Lying on your back, slide the heel towards you and back.',
+		movementType: 'active-assisted',
+		equipment: ['Towel'],
+		coachingCues: [{ text: 'Keep the heel on the bed', atSeconds: 3 }],
+		safetyNotes: 'Tightness at the end of the bend is normal. **Stop** if pain is sharp.',
+		restSeconds: 30,
+		...changes
+	});
 }
 
 /** The submission form's input with the exercise's own words. */

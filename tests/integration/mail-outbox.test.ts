@@ -55,16 +55,10 @@ describe('the mail outbox', () => {
 				'$lib/server/mail'
 			);
 			const { sendInvitation } = await import('$lib/server/invitations');
-			const clinic = db()
-				.insert(schema.clinics)
-				.values({ name: `Outbox clinic ${Date.now()}` })
-				.returning()
-				.get();
-			const admin = db()
-				.insert(schema.users)
-				.values({ email: `outbox.admin.${Date.now()}@example.test`, name: 'Outbox Admin' })
-				.returning()
-				.get();
+			// Read afresh like the app's modules, so that they write to the same database.
+			const { makeClinic, makeStaff } = await import('./factories');
+			const clinic = makeClinic(`Outbox clinic ${Date.now()}`);
+			const admin = makeStaff(clinic.id, 'admin', { name: 'Outbox Admin' });
 			const email = `outbox.${Date.now()}@example.test`;
 
 			// Down: the invitation is made, and the answer says its e-mail is waiting.
@@ -122,6 +116,7 @@ describe('the mail outbox', () => {
 			const { db, schema } = await import('$lib/server/db');
 			const { sendDueMail } = await import('$lib/server/mail');
 			const subject = `Claimed once ${Date.now()}`;
+			// A due message written straight into the outbox: the claim is under test, not sendMail.
 			db()
 				.insert(schema.mailOutbox)
 				.values({

@@ -22,6 +22,7 @@ const { config } = await import('$lib/server/config');
 const submissions = await import('$lib/server/library/submissions');
 const publishing = await import('$lib/server/library/publishing');
 const support = await import('./library-support');
+const factories = await import('./factories');
 const segmentClip = await import('../../src/routes/api/segments/[id=id]/clip.mp4/+server');
 const segmentPoster = await import('../../src/routes/api/segments/[id=id]/poster-[n].jpg/+server');
 const recordingMedia = await import(
@@ -74,56 +75,19 @@ const educatorOf = (w: World) => principal(w.educator, 'educator', w.clinicId);
 
 /** A patient of the world's clinic, with a published programme using `segmentId` if given. */
 function makePatient(w: World, segmentId?: string): Principal {
-	const email = `patient-${crypto.randomUUID()}@media-redirect.example`;
-	const patient = db()
-		.insert(schema.patients)
-		.values({ clinicId: w.clinicId, fullName: 'Test patient', email })
-		.returning()
-		.get();
+	const patient = factories.makePatient(w.clinicId, 'Test patient', {
+		emailDomain: 'media-redirect.example'
+	});
 	if (segmentId) {
-		const exercise = db()
-			.insert(schema.exercises)
-			.values({
-				clinicId: w.clinicId,
-				segmentId,
-				title: 'Heel slides',
-				bodyRegion: 'knee',
-				position: 'supine',
-				movementType: 'active',
-				sets: 1,
-				reps: 10,
-				sessionsPerDay: 1,
-				daysPerWeek: 7,
-				status: 'ready'
-			})
-			.returning()
-			.get();
-		const programme = db()
-			.insert(schema.programmes)
-			.values({
-				clinicId: w.clinicId,
-				patientId: patient.id,
-				title: 'Knee home programme',
-				status: 'published',
-				startDate: '2026-11-02',
-				publishedAt: new Date()
-			})
-			.returning()
-			.get();
-		db()
-			.insert(schema.programmeItems)
-			.values({
-				programmeId: programme.id,
-				exerciseId: exercise.id,
-				position: 0,
-				sets: 1,
-				reps: 10,
-				sessionsPerDay: 1,
-				daysPerWeek: 7
-			})
-			.run();
+		const exercise = factories.makeExercise(w.clinicId, 'Heel slides', { segmentId });
+		factories.makeProgramme(patient, [exercise.id], { startDate: '2026-11-02' });
 	}
-	return principal({ id: crypto.randomUUID(), email }, 'patient', w.clinicId, patient.id);
+	return principal(
+		{ id: crypto.randomUUID(), email: patient.email },
+		'patient',
+		w.clinicId,
+		patient.id
+	);
 }
 
 type Handler = (event: never) => Response | Promise<Response>;

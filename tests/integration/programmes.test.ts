@@ -23,67 +23,27 @@ const { ExerciseError, createExercise, findExercise, listExercises, setExerciseS
 const { ProgrammeError, createProgramme, findProgramme, publishProgramme, saveProgramme } =
 	programmesModule;
 
+const factories = await import('./factories');
+const { makeClinic, makeSessionLog } = factories;
+
 type Principal = NonNullable<ReturnType<typeof loadPrincipal>>;
 
-function makeClinic(name: string) {
-	return db().insert(schema.clinics).values({ name }).returning().get();
-}
+const makeClinician = (clinicId: string, email: string): Principal =>
+	loadPrincipal(factories.makeStaff(clinicId, 'clinician', { email }).id)!;
 
-function makeClinician(clinicId: string, email: string): Principal {
-	const user = db()
-		.insert(schema.users)
-		.values({ email, name: email.split('@')[0] })
-		.returning()
-		.get();
-	db().insert(schema.memberships).values({ userId: user.id, clinicId, role: 'clinician' }).run();
-	return loadPrincipal(user.id)!;
-}
-
-function makePatient(
+const makePatient = (
 	clinicId: string,
 	email: string,
-	over: Partial<typeof schema.patients.$inferInsert> = {}
-) {
-	return db()
-		.insert(schema.patients)
-		.values({ clinicId, fullName: 'Nell Harrow', email, ...over })
-		.returning()
-		.get();
-}
+	over: Parameters<typeof factories.makePatient>[2] = {}
+) => factories.makePatient(clinicId, 'Nell Harrow', { email, ...over });
 
-/** A ready segment on a ready recording of the clinic (rows only; no media is needed here). */
+/** A segment (0–40 s) on a ready recording of the clinic (rows only; no media is needed here). */
 function makeSegment(clinicId: string, title: string, status: 'ready' | 'cutting' = 'ready') {
-	const recording = db()
-		.insert(schema.recordings)
-		.values({
-			clinicId,
-			title: `${title} recording`,
-			originalFilename: 'x.mp4',
-			contentType: 'video/mp4',
-			sizeBytes: 10,
-			status: 'ready',
-			durationSeconds: 60,
-			width: 320,
-			height: 240,
-			videoCodec: 'h264'
-		})
-		.returning()
-		.get();
-	return db()
-		.insert(schema.segments)
-		.values({
-			recordingId: recording.id,
-			clinicId,
-			position: 0,
-			title,
-			startSeconds: 0,
-			endSeconds: 40,
-			status,
-			clipDurationSeconds: 40,
-			posterCount: 1
-		})
-		.returning()
-		.get();
+	const recording = factories.makeRecording(clinicId, {
+		title: `${title} recording`,
+		durationSeconds: 60
+	});
+	return factories.makeSegment(recording, { title, endSeconds: 40, status });
 }
 
 function input(over: Partial<ExerciseInput> = {}): ExerciseInput {
@@ -298,20 +258,10 @@ describe('programmes', () => {
 			note: '',
 			items: [{ exerciseId: readyId, dosage: dose, progression: { kind: 'none' } }]
 		});
-		db()
-			.insert(schema.sessionLogs)
-			.values({
-				clinicId: alder.id,
-				patientId,
-				programmeItemId: saved.items[0].id,
-				clientId: crypto.randomUUID(),
-				doneAt: new Date(),
-				localDate: '2026-11-18',
-				setsDone: 1,
-				repsDone: 8,
-				pain: 2
-			})
-			.run();
+		makeSessionLog({ id: patientId, clinicId: alder.id }, saved.items[0].id, {
+			localDate: '2026-11-18',
+			pain: 2
+		});
 		expect(() =>
 			saveProgramme(clinician, programme.id, {
 				title: 'Logged',

@@ -7,7 +7,7 @@
  */
 import { fakesDirectory } from './env';
 import { spawn, type ChildProcess } from 'node:child_process';
-import { mkdtemp, readFile, rm } from 'node:fs/promises';
+import { mkdtemp, rm } from 'node:fs/promises';
 import { join, resolve } from 'node:path';
 import { eq } from 'drizzle-orm';
 import { Redis } from 'ioredis';
@@ -21,10 +21,10 @@ const queue = await import('$lib/server/jobs/queue');
 const { sqliteEngine } = await import('$lib/server/jobs/sqlite');
 const { bullmqEngine } = await import('$lib/server/jobs/bullmq');
 const { HANDLERS } = await import('$lib/server/jobs');
-const { putObject } = await import('$lib/server/storage');
 const { recordingKeys } = await import('$lib/server/storage/keys');
-const { makeClinic } = await import('./factories');
-const { makeClip } = await import('./recordings-support');
+const { makeClinic, makeRecording } = await import('./factories');
+const { CLIP_FIGURES, makeClip } = await import('./recordings-support');
+const { storeMedia } = await import('./media-support');
 const { noteHandler, startRedis } = await import('./queue-support');
 type QueueEngine = import('$lib/server/jobs/engine').QueueEngine;
 type Worker = import('$lib/server/jobs/engine').Worker;
@@ -35,23 +35,8 @@ const CHILD = resolve('tests/integration/queue-worker-child.ts');
 
 const clinic = makeClinic('Queue clinic');
 
-function recording(title: string) {
-	return db()
-		.insert(schema.recordings)
-		.values({
-			clinicId: clinic.id,
-			title,
-			originalFilename: 'clip.mp4',
-			contentType: 'video/mp4',
-			sizeBytes: 1,
-			durationSeconds: 4,
-			width: 320,
-			height: 180,
-			videoCodec: 'h264'
-		})
-		.returning()
-		.get();
-}
+/** A recording waiting for its processing job. */
+const recording = (title: string) => makeRecording(clinic.id, { title, status: 'processing' });
 
 function readRecording(id: string) {
 	return db().select().from(schema.recordings).where(eq(schema.recordings.id, id)).get()!;
@@ -296,27 +281,9 @@ describe('BullMQ workers with the media handlers', () => {
 		})!;
 		try {
 			await makeClip(join(dir, 'clip.mp4'));
-			const r = db()
-				.insert(schema.recordings)
-				.values({
-					clinicId: clinic.id,
-					title: 'Sit to stand',
-					originalFilename: 'clip.mp4',
-					contentType: 'video/mp4',
-					sizeBytes: 1,
-					durationSeconds: 4,
-					width: 320,
-					height: 240,
-					videoCodec: 'h264',
-					audioCodec: 'aac',
-					frameRate: 25,
-					hasAudio: true
-				})
-				.returning()
-				.get();
+			const r = makeRecording(clinic.id, { ...CLIP_FIGURES, status: 'processing' });
+			await storeMedia(r, join(dir, 'clip.mp4'), 'original');
 			const keys = recordingKeys(clinic.id, r.id);
-			const bytes = await readFile(join(dir, 'clip.mp4'));
-			await putObject(keys.original, bytes, 'video/mp4', bytes.byteLength);
 			const job = queue.enqueue({ kind: 'process-recording', recordingId: r.id });
 			expect(
 				await waitFor(

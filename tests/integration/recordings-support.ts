@@ -2,6 +2,7 @@ import { execFile } from 'node:child_process';
 import { accessSync, constants } from 'node:fs';
 import { createRequire } from 'node:module';
 import { promisify } from 'node:util';
+import type { Recording } from '../../src/lib/server/db/schema';
 import { chooseTool } from '../../src/lib/server/media/tools';
 
 const run = promisify(execFile);
@@ -23,6 +24,17 @@ export const FFMPEG = chooseTool('ffmpeg', {
 	},
 	bundled: () => (require('@ffmpeg-installer/ffmpeg') as { path: string }).path
 }).path;
+
+/** What makeClip's clip is by default, as its recording row says (for makeRecording). */
+export const CLIP_FIGURES = {
+	durationSeconds: 4,
+	width: 320,
+	height: 240,
+	videoCodec: 'h264',
+	audioCodec: 'aac',
+	frameRate: 25,
+	hasAudio: true
+} satisfies Partial<Recording>;
 
 /**
  * Makes an MP4 clip with the chosen ffmpeg (a moving test pattern and a tone), without

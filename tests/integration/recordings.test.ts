@@ -22,13 +22,16 @@ const { getObjectStream, headObject, storage, bucketName } = await import('$lib/
 const { recordingKeys } = await import('$lib/server/storage/keys');
 const multipart = await import('$lib/server/storage/multipart');
 const { ListObjectsCommand } = await import('@aws-sdk/client-s3');
+const { makeClinic, makeRecording, makeStaff } = await import('./factories');
+const { sendThroughPresignedParts, uploadFile } = await import('./media-support');
 
 const MiB = 1024 * 1024;
 let dir: string;
-const owner = { id: crypto.randomUUID(), clinicId: crypto.randomUUID() };
+type Staff = import('./factories').Staff;
+let owner: Staff;
 /** Another clinician of the same clinic, and one of another clinic. */
-const colleague = { id: crypto.randomUUID(), clinicId: owner.clinicId };
-const otherClinic = { id: crypto.randomUUID(), clinicId: crypto.randomUUID() };
+let colleague: Staff;
+let otherClinic: Staff;
 
 function sha256(data: Uint8Array): string {
 	return createHash('sha256').update(data).digest('hex');
@@ -47,37 +50,6 @@ async function clinicObjects(): Promise<string[]> {
 
 async function openUploadsInStorage(): Promise<number> {
 	return (await multipart.listMultipartUploads(`clinics/${owner.clinicId}/`)).length;
-}
-
-/** Sends a file the way the browser does: presigned part URLs and plain fetch PUTs. */
-async function sendThroughPresignedParts(
-	session: { id: string; partSize: number; partCount: number },
-	bytes: Uint8Array<ArrayBuffer>,
-	skip: number[] = []
-) {
-	const numbers = Array.from({ length: session.partCount }, (_, i) => i + 1).filter(
-		(n) => !skip.includes(n)
-	);
-	const urls = await uploads.presignParts(owner, session.id, numbers);
-	for (const { partNumber, url } of urls) {
-		const start = (partNumber - 1) * session.partSize;
-		const response = await fetch(url, {
-			method: 'PUT',
-			body: bytes.subarray(start, start + session.partSize)
-		});
-		expect(response.status, `part ${partNumber}`).toBe(200);
-	}
-}
-
-async function uploadFile(path: string, filename: string, contentType = 'video/mp4') {
-	const bytes = new Uint8Array(await readFile(path));
-	const session = await uploads.createUpload(owner, {
-		filename,
-		contentType,
-		sizeBytes: bytes.length
-	});
-	await sendThroughPresignedParts(session, bytes);
-	return session;
 }
 
 async function waitFor<T>(
@@ -107,17 +79,10 @@ function jobFinished(recordingId: string) {
 
 beforeAll(async () => {
 	dir = await mkdtemp(join(fakesDirectory, 'recordings-'));
-	db().insert(schema.clinics).values({ id: owner.clinicId, name: 'Test clinic' }).run();
-	db()
-		.insert(schema.users)
-		.values({ id: owner.id, email: `${owner.id}@example.test`, name: 'Test clinician' })
-		.run();
-	db().insert(schema.clinics).values({ id: otherClinic.clinicId, name: 'Other clinic' }).run();
-	for (const who of [colleague, otherClinic])
-		db()
-			.insert(schema.users)
-			.values({ id: who.id, email: `${who.id}@example.test`, name: 'Another clinician' })
-			.run();
+	const clinicId = makeClinic('Test clinic').id;
+	owner = makeStaff(clinicId);
+	colleague = makeStaff(clinicId);
+	otherClinic = makeStaff(makeClinic('Other clinic').id);
 	await makeClip(join(dir, 'clip.mp4'), { seconds: 4 });
 	await makeClip(join(dir, 'long.mp4'), { seconds: 30, size: '1280x720' });
 }, 120_000);
@@ -138,10 +103,10 @@ describe('multipart upload through presigned URLs', () => {
 		expect(session.partCount).toBe(4);
 		expect(session.resumed).toBe(false);
 
-		await sendThroughPresignedParts(session, bytes, [2, 3, 4]);
+		await sendThroughPresignedParts(owner, session, bytes, [2, 3, 4]);
 		const half = await uploads.uploadState(owner, session.id);
 		expect(half.parts.map((p) => p.partNumber)).toEqual([1]);
-		await sendThroughPresignedParts(session, bytes, [1]);
+		await sendThroughPresignedParts(owner, session, bytes, [1]);
 		const full = await uploads.uploadState(owner, session.id);
 		expect(full.parts.map((p) => p.size)).toEqual([
 			5 * MiB,
@@ -187,7 +152,7 @@ describe('multipart upload through presigned URLs', () => {
 		};
 		const bytes = new Uint8Array(randomBytes(declared.sizeBytes));
 		const first = await uploads.createUpload(owner, declared);
-		await sendThroughPresignedParts(first, bytes, [2, 3]);
+		await sendThroughPresignedParts(owner, first, bytes, [2, 3]);
 
 		// The same file chosen again (another browser: only name, size and fingerprint in common).
 		const again = await uploads.createUpload(owner, { ...declared, contentType: '' });
@@ -240,7 +205,7 @@ describe('multipart upload through presigned URLs', () => {
 			contentType: '',
 			sizeBytes: 1000
 		});
-		await sendThroughPresignedParts(session, new Uint8Array(1000));
+		await sendThroughPresignedParts(owner, session, new Uint8Array(1000));
 		await uploads.abortUpload(owner, session.id);
 		expect(await openUploadsInStorage()).toBe(0);
 		expect(db().select().from(schema.uploads).all()).toEqual([]);
@@ -252,7 +217,7 @@ describe('multipart upload through presigned URLs', () => {
 			contentType: 'video/mp4',
 			sizeBytes: 500
 		});
-		await sendThroughPresignedParts(session, new Uint8Array(500));
+		await sendThroughPresignedParts(owner, session, new Uint8Array(500));
 		const later = new Date(Date.now() + 25 * 3600 * 1000);
 		expect(await uploads.sweepUploads(later)).toBeGreaterThanOrEqual(1);
 		expect(db().select().from(schema.uploads).all()).toEqual([]);
@@ -262,7 +227,7 @@ describe('multipart upload through presigned URLs', () => {
 
 describe('refusals leave nothing behind', () => {
 	async function expectRefused(path: string, filename: string, pattern: RegExp) {
-		const session = await uploadFile(path, filename);
+		const session = await uploadFile(owner, path, filename);
 		await expect(uploads.completeUpload(owner, session.id)).rejects.toMatchObject({
 			status: 422,
 			message: expect.stringMatching(pattern)
@@ -314,7 +279,7 @@ describe('refusals leave nothing behind', () => {
 
 describe('processing', () => {
 	it('accepts a real clip and its job makes rendition, three posters, sprite and waveform', async () => {
-		const session = await uploadFile(join(dir, 'clip.mp4'), 'Heel slides.mp4');
+		const session = await uploadFile(owner, join(dir, 'clip.mp4'), 'Heel slides.mp4');
 		const recording = await uploads.completeUpload(owner, session.id);
 		expect(recording.status).toBe('processing');
 		expect(recording.durationSeconds).toBeCloseTo(4, 0);
@@ -375,7 +340,7 @@ describe('processing', () => {
 	}, 120_000);
 
 	it('retries a job whose ffmpeg is killed mid-run, and finishes', async () => {
-		const session = await uploadFile(join(dir, 'long.mp4'), 'long.mp4');
+		const session = await uploadFile(owner, join(dir, 'long.mp4'), 'long.mp4');
 		const recording = await uploads.completeUpload(owner, session.id);
 		const worker = startWorker({
 			handlers: HANDLERS,
@@ -423,21 +388,7 @@ describe('processing', () => {
 	}, 240_000);
 
 	it('queues a running job again when its heartbeat went stale (its process died)', () => {
-		const recording = db()
-			.insert(schema.recordings)
-			.values({
-				clinicId: owner.clinicId,
-				title: 'Orphan',
-				originalFilename: 'orphan.mp4',
-				contentType: 'video/mp4',
-				sizeBytes: 1,
-				durationSeconds: 1,
-				width: 2,
-				height: 2,
-				videoCodec: 'h264'
-			})
-			.returning()
-			.get();
+		const recording = makeRecording(owner.clinicId, { title: 'Orphan', status: 'processing' });
 		const job = queue.enqueue({ kind: 'process-recording', recordingId: recording.id });
 		const claimed = queue.claim('dead-worker');
 		expect(claimed?.id).toBe(job.id);
@@ -455,21 +406,7 @@ describe('processing', () => {
 	});
 
 	it('cancels a queued job and re-queues it on retry', () => {
-		const recording = db()
-			.insert(schema.recordings)
-			.values({
-				clinicId: owner.clinicId,
-				title: 'C',
-				originalFilename: 'c.mp4',
-				contentType: 'video/mp4',
-				sizeBytes: 1,
-				durationSeconds: 1,
-				width: 2,
-				height: 2,
-				videoCodec: 'h264'
-			})
-			.returning()
-			.get();
+		const recording = makeRecording(owner.clinicId, { title: 'C', status: 'processing' });
 		queue.enqueue({ kind: 'process-recording', recordingId: recording.id });
 		expect(recordings.cancelProcessing(recording)).toBe(true);
 		const cancelled = recordings.findRecording(owner.clinicId, recording.id)!;

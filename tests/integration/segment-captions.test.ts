@@ -11,6 +11,8 @@ const { shiftAndClip } = await import('$lib/captions/segment');
 const captions = await import('$lib/server/captions');
 const segments = await import('$lib/server/segments');
 const { recordSession, transcriptLines } = await import('$lib/server/sessions');
+const { makeClinic, makeExercise, makePatient, makeProgramme, makeRecording, makeSegment } =
+	await import('./factories');
 
 type Cue = import('$lib/captions/types').Cue;
 type Recording = import('$lib/server/db/schema').Recording;
@@ -22,8 +24,7 @@ type SegmentRow = import('$lib/server/db/schema').SegmentRow;
  * nothing is cut again. Real SQLite; no media is needed, since the clip does not change.
  */
 
-const clinic = { id: crypto.randomUUID(), name: 'Segment captions clinic' };
-const uploader = crypto.randomUUID();
+let clinic: { id: string };
 const FIRST: Cue[] = [
 	{ id: 'a', start: 10, end: 12.5, text: 'Lie on your back.' },
 	{ id: 'b', start: 12.5, end: 15, text: 'Slide the heel up.' },
@@ -34,54 +35,23 @@ let segment: SegmentRow;
 let track: import('$lib/server/captions').CaptionTrack;
 
 beforeAll(() => {
-	db().insert(schema.clinics).values(clinic).run();
-	db()
-		.insert(schema.users)
-		.values({ id: uploader, email: `${uploader}@captions.example` })
-		.run();
-	recording = db()
-		.insert(schema.recordings)
-		.values({
-			clinicId: clinic.id,
-			uploadedBy: uploader,
-			title: 'Heel slides and ankle pumps',
-			originalFilename: 'knee.mp4',
-			contentType: 'video/mp4',
-			sizeBytes: 1,
-			status: 'ready',
-			durationSeconds: 60,
-			width: 320,
-			height: 180,
-			videoCodec: 'h264',
-			audioCodec: 'aac',
-			frameRate: 25,
-			hasAudio: true,
-			posterCount: 0,
-			readyAt: new Date()
-		})
-		.returning()
-		.get();
+	clinic = makeClinic('Segment captions clinic');
+	recording = makeRecording(clinic.id, {
+		title: 'Heel slides and ankle pumps',
+		durationSeconds: 60
+	});
 	track = captions.createTrack(recording, { kind: 'captions', language: 'en-GB' });
 	expect(captions.saveVersion(track, { baseVersion: 0, cues: FIRST, source: 'import' }).ok).toBe(
 		true
 	);
 	// Confirmed on version 1: the first exercise runs from 10 s to 30 s.
-	segment = db()
-		.insert(schema.segments)
-		.values({
-			recordingId: recording.id,
-			clinicId: clinic.id,
-			position: 0,
-			title: 'Heel slides',
-			startSeconds: 10,
-			endSeconds: 30,
-			status: 'ready',
-			cues: shiftAndClip(FIRST, 10, 30),
-			captionsVersion: 1,
-			captionsLanguage: 'en-GB'
-		})
-		.returning()
-		.get();
+	segment = makeSegment(recording, {
+		startSeconds: 10,
+		endSeconds: 30,
+		cues: shiftAndClip(FIRST, 10, 30),
+		captionsVersion: 1,
+		captionsLanguage: 'en-GB'
+	});
 });
 
 const current = () =>
@@ -120,53 +90,10 @@ describe("a segment's captions follow the recording's track", () => {
 	});
 
 	it('records with each logged session the captions version the patient was shown', () => {
-		const patient = db()
-			.insert(schema.patients)
-			.values({ clinicId: clinic.id, fullName: 'Ida Caption', email: 'ida@captions.example' })
-			.returning()
-			.get();
-		const exercise = db()
-			.insert(schema.exercises)
-			.values({
-				clinicId: clinic.id,
-				segmentId: segment.id,
-				title: 'Heel slides',
-				bodyRegion: 'Knee',
-				position: 'supine',
-				movementType: 'active',
-				sets: 1,
-				reps: 8,
-				sessionsPerDay: 1,
-				daysPerWeek: 7,
-				status: 'ready'
-			})
-			.returning()
-			.get();
-		const programme = db()
-			.insert(schema.programmes)
-			.values({
-				clinicId: clinic.id,
-				patientId: patient.id,
-				title: 'Home programme',
-				status: 'published',
-				startDate: '2026-12-01',
-				publishedAt: new Date('2026-12-01T08:00:00Z')
-			})
-			.returning()
-			.get();
-		const item = db()
-			.insert(schema.programmeItems)
-			.values({
-				programmeId: programme.id,
-				exerciseId: exercise.id,
-				position: 0,
-				sets: 1,
-				reps: 8,
-				sessionsPerDay: 1,
-				daysPerWeek: 7
-			})
-			.returning()
-			.get();
+		const patient = makePatient(clinic.id, 'Ida Caption');
+		const exercise = makeExercise(clinic.id, 'Heel slides', { segmentId: segment.id });
+		const { items } = makeProgramme(patient, [exercise.id], { startDate: '2026-12-01' });
+		const item = items[0];
 		const { log } = recordSession(patient, {
 			clientId: crypto.randomUUID(),
 			programmeItemId: item.id,

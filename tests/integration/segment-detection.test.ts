@@ -4,7 +4,7 @@ import { mkdtempSync, writeFileSync } from 'node:fs';
 import { readFile, rm } from 'node:fs/promises';
 import { join, resolve } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { FFMPEG, makeClip } from './recordings-support';
+import { CLIP_FIGURES, FFMPEG, makeClip } from './recordings-support';
 
 /*
  * Segment detection runs once per rendition whoever asks: app processes asking at the same
@@ -33,17 +33,16 @@ const { db, schema } = await import('$lib/server/db');
 const { and, eq } = await import('drizzle-orm');
 const { startWorker } = await import('$lib/server/jobs/sqlite');
 const { HANDLERS } = await import('$lib/server/jobs');
-const { putObject } = await import('$lib/server/storage');
-const { recordingKeys } = await import('$lib/server/storage/keys');
 const segments = await import('$lib/server/segments');
 const { detectionKey } = await import('$lib/server/segments/detection');
+const { makeClinic, makeRecording } = await import('./factories');
+const { storeMedia } = await import('./media-support');
 
 type SuggestionsAnswer = import('$lib/server/segments').SuggestionsAnswer;
 
 const TSX = resolve('node_modules/.bin/tsx');
 const CHILD = resolve('tests/integration/suggest-child.ts');
-const clinic = { id: crypto.randomUUID(), name: 'Detection test clinic' };
-const clinician = { id: crypto.randomUUID(), email: `${crypto.randomUUID()}@example.test` };
+let clinicId: string;
 
 async function readLines(path: string): Promise<string[]> {
 	const text = await readFile(path, 'utf8').catch(() => '');
@@ -53,30 +52,8 @@ async function readLines(path: string): Promise<string[]> {
 async function readyRecording(title: string) {
 	const clip = join(work, `${title}.mp4`);
 	await makeClip(clip, { seconds: 4 });
-	const recording = db()
-		.insert(schema.recordings)
-		.values({
-			clinicId: clinic.id,
-			uploadedBy: clinician.id,
-			title,
-			originalFilename: `${title}.mp4`,
-			contentType: 'video/mp4',
-			sizeBytes: 1,
-			status: 'ready',
-			durationSeconds: 4,
-			width: 320,
-			height: 240,
-			videoCodec: 'h264',
-			audioCodec: 'aac',
-			frameRate: 25,
-			hasAudio: true,
-			posterCount: 0,
-			readyAt: new Date()
-		})
-		.returning()
-		.get();
-	const keys = recordingKeys(recording.clinicId, recording.id);
-	await putObject(keys.rendition, await readFile(clip), 'video/mp4');
+	const recording = makeRecording(clinicId, { ...CLIP_FIGURES, title });
+	await storeMedia(recording, clip);
 	return recording;
 }
 
@@ -112,8 +89,7 @@ const detectionJobs = (recordingId: string) =>
 		.all();
 
 beforeAll(() => {
-	db().insert(schema.clinics).values(clinic).run();
-	db().insert(schema.users).values({ id: clinician.id, email: clinician.email }).run();
+	clinicId = makeClinic('Detection test clinic').id;
 });
 
 afterAll(async () => {

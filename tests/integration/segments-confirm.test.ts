@@ -1,5 +1,5 @@
 import { fakesDirectory } from './env';
-import { mkdtemp, readFile, rm } from 'node:fs/promises';
+import { mkdtemp, rm } from 'node:fs/promises';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 
@@ -22,11 +22,12 @@ const { cutSegmentHandler, SEGMENT_POSTER_COUNT } = await import('$lib/server/se
 const queue = await import('$lib/server/jobs/queue');
 const { startWorker } = await import('$lib/server/jobs/sqlite');
 const { HANDLERS } = await import('$lib/server/jobs');
-const { headObject, putObject, getObjectStream, deleteObject } = await import(
-	'$lib/server/storage'
-);
+const { headObject, getObjectStream, deleteObject } = await import('$lib/server/storage');
 const { recordingKeys } = await import('$lib/server/storage/keys');
 const { downloadToFile } = await import('$lib/server/storage/multipart');
+const { makeClinic, makeExercise, makePatient, makeProgramme, makeRecording, makeStaff } =
+	await import('./factories');
+const { storeMedia } = await import('./media-support');
 
 type Cue = import('$lib/captions/types').Cue;
 type Recording = import('$lib/server/db/schema').Recording;
@@ -59,45 +60,28 @@ const STRADDLE: Cue = {
 };
 const cues: Cue[] = [...script, STRADDLE].sort((a, b) => a.start - b.start);
 
-const clinic = { id: crypto.randomUUID(), name: 'Segments test clinic' };
-const otherClinic = { id: crypto.randomUUID(), name: 'Another clinic' };
-const clinician = { id: crypto.randomUUID(), clinicId: clinic.id };
+let clinic: { id: string };
+let otherClinic: { id: string };
+let clinician: import('./factories').Staff;
 let dir: string;
 let rendition: string;
 let recording: Recording;
 
-function insertRecording(title: string): Recording {
-	return db()
-		.insert(schema.recordings)
-		.values({
-			clinicId: clinic.id,
-			uploadedBy: clinician.id,
-			title,
-			originalFilename: `${title}.mp4`,
-			contentType: 'video/mp4',
-			sizeBytes: 1,
-			status: 'ready',
-			durationSeconds: plan.durationSeconds,
-			width: 320,
-			height: 180,
-			videoCodec: 'h264',
-			audioCodec: 'aac',
-			frameRate: FPS,
-			hasAudio: true,
-			posterCount: 0,
-			readyAt: new Date()
-		})
-		.returning()
-		.get();
-}
+/** A ready recording of the clip this file renders (its figures), by the clinician. */
+const insertRecording = (title: string, changes: Parameters<typeof makeRecording>[1] = {}) =>
+	makeRecording(clinic.id, {
+		uploadedBy: clinician.id,
+		title,
+		durationSeconds: plan.durationSeconds,
+		width: 320,
+		height: 180,
+		audioCodec: 'aac',
+		frameRate: FPS,
+		hasAudio: true,
+		...changes
+	});
 
-async function storeRendition(r: Recording) {
-	await putObject(
-		recordingKeys(r.clinicId, r.id).rendition,
-		await readFile(rendition),
-		'video/mp4'
-	);
-}
+const storeRendition = (r: Recording) => storeMedia(r, rendition);
 
 function giveCaptions(r: Recording, list: Cue[]) {
 	const track = captions.createTrack(r, { kind: 'captions', language: 'en-GB' });
@@ -160,11 +144,9 @@ const exercisePlan = () => [
 
 beforeAll(async () => {
 	dir = await mkdtemp(join(fakesDirectory, 'segments-confirm-'));
-	db().insert(schema.clinics).values([clinic, otherClinic]).run();
-	db()
-		.insert(schema.users)
-		.values({ id: clinician.id, email: `${clinician.id}@example.test`, name: 'Test clinician' })
-		.run();
+	clinic = makeClinic('Segments test clinic');
+	otherClinic = makeClinic('Another clinic');
+	clinician = makeStaff(clinic.id);
 	const drawn = join(dir, 'clip.mp4');
 	await renderDemoClip(CLIP, drawn, { width: 320, height: 180, fps: FPS });
 	rendition = join(dir, 'rendition.mp4');
@@ -302,12 +284,7 @@ describe('confirming and cutting', () => {
 				exercisePlan()
 			)
 		).toThrow(expect.objectContaining({ status: 404 }));
-		const waiting = insertRecording('Still processing');
-		db()
-			.update(schema.recordings)
-			.set({ status: 'processing' })
-			.where(eq(schema.recordings.id, waiting.id))
-			.run();
+		const waiting = insertRecording('Still processing', { status: 'processing' });
 		expect(() => segments.confirmSegments(clinician, waiting.id, exercisePlan())).toThrow(
 			expect.objectContaining({ status: 409 })
 		);
@@ -416,22 +393,7 @@ describe('confirming and cutting', () => {
 		expect(before).toHaveLength(2);
 		const keys = recordingKeys(clinic.id, recording.id);
 		expect(await headObject(keys.segmentPoster(before[1].id, 0))).not.toBeNull();
-		const exercise = db()
-			.insert(schema.exercises)
-			.values({
-				clinicId: clinic.id,
-				segmentId: before[0].id,
-				title: FIRST.title,
-				bodyRegion: 'knee',
-				position: 'supine',
-				movementType: 'active',
-				sets: 1,
-				reps: 8,
-				sessionsPerDay: 3,
-				daysPerWeek: 7
-			})
-			.returning()
-			.get();
+		const exercise = makeExercise(clinic.id, FIRST.title, { segmentId: before[0].id });
 		const confirmed = segments.confirmSegments(clinician, recording.id, [
 			{ title: `${FIRST.title} and ${SECOND.title}`, start: FIRST.start, end: plan.durationSeconds }
 		]);
@@ -470,6 +432,7 @@ describe('confirming and cutting', () => {
 		expect(segments.findSegment(otherClinic.id, next[0].id)).toBeNull();
 
 		// A segment sent to the library stays too, though no exercise of the clinic uses it now.
+		// A bare submission row, written by hand: all that matters is that it names the segment.
 		db()
 			.insert(schema.librarySubmissions)
 			.values({
@@ -664,56 +627,13 @@ describe('when cutting goes wrong', () => {
 describe('who may watch a segment', () => {
 	it('a patient with a published programme using it; not a draft, not another patient', () => {
 		const [segment] = current(recording.id);
-		const patient = (name: string) =>
-			db()
-				.insert(schema.patients)
-				.values({
-					clinicId: clinic.id,
-					fullName: name,
-					email: `${crypto.randomUUID()}@example.test`
-				})
-				.returning()
-				.get();
-		const mine = patient('Patient with a programme');
-		const other = patient('Patient without one');
-		const exercise = db()
-			.insert(schema.exercises)
-			.values({
-				clinicId: clinic.id,
-				segmentId: segment.id,
-				title: segment.title,
-				bodyRegion: 'knee',
-				position: 'supine',
-				movementType: 'active',
-				sets: 1,
-				reps: 8,
-				sessionsPerDay: 3,
-				daysPerWeek: 7
-			})
-			.returning()
-			.get();
-		const programme = db()
-			.insert(schema.programmes)
-			.values({
-				clinicId: clinic.id,
-				patientId: mine.id,
-				title: 'Home programme',
-				startDate: '2030-01-01'
-			})
-			.returning()
-			.get();
-		db()
-			.insert(schema.programmeItems)
-			.values({
-				programmeId: programme.id,
-				exerciseId: exercise.id,
-				position: 0,
-				sets: 1,
-				reps: 8,
-				sessionsPerDay: 3,
-				daysPerWeek: 7
-			})
-			.run();
+		const mine = makePatient(clinic.id, 'Patient with a programme');
+		const other = makePatient(clinic.id, 'Patient without one');
+		const exercise = makeExercise(clinic.id, segment.title, { segmentId: segment.id });
+		const { programme } = makeProgramme(mine, [exercise.id], {
+			status: 'draft',
+			startDate: '2030-01-01'
+		});
 		expect(segments.patientCanSeeSegment(mine.id, segment.id)).toBe(false);
 		db()
 			.update(schema.programmes)

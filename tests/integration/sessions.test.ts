@@ -50,7 +50,9 @@ beforeAll(() => {
 	walter = makePatient(clinic.id, 'Walter Test');
 	edna = makePatient(clinic.id, 'Edna Test');
 	greta = makePatient(otherClinic.id, 'Greta Test');
-	const heel = makeExercise(clinic.id, 'Heel slides', '**Stop** if the knee swells.');
+	const heel = makeExercise(clinic.id, 'Heel slides', {
+		safetyNotes: '**Stop** if the knee swells.'
+	});
 	const pumps = makeExercise(clinic.id, 'Ankle pumps');
 	walterItems = makeProgramme(walter, [heel.id, pumps.id]).items;
 	ednaItem = makeProgramme(edna, [pumps.id]).items[0];

@@ -1,6 +1,6 @@
 import { fakesDirectory, testEnv } from './env';
 import { execFile } from 'node:child_process';
-import { mkdtemp, readFile, rm } from 'node:fs/promises';
+import { mkdtemp, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { promisify } from 'node:util';
@@ -11,12 +11,12 @@ process.env.DATABASE_PATH = join(fakesDirectory, `speech-draft-${process.pid}.db
 
 const { db, schema } = await import('$lib/server/db');
 const captions = await import('$lib/server/captions');
-const { putObject } = await import('$lib/server/storage');
-const { recordingKeys } = await import('$lib/server/storage/keys');
 const { ffmpegPath } = await import('$lib/server/media/ffmpeg');
 const { readConfig } = await import('$lib/server/config');
 const { checkCues, profiles } = await import('$lib/captions/checks');
 const speech = await import('$lib/server/speech');
+const { makeClinic, makeRecording } = await import('./factories');
+const { storeMedia } = await import('./media-support');
 
 type Recording = import('$lib/server/db/schema').Recording;
 type SpeechDraft = import('$lib/captions/speech-draft').SpeechDraft;
@@ -93,39 +93,24 @@ async function makeClip(path: string, withSound = true): Promise<void> {
 	]);
 }
 
-const clinic = { id: crypto.randomUUID(), name: 'Speech draft clinic' };
-const uploader = crypto.randomUUID();
+let clinic: { id: string };
 
-function insertRecording(title: string, values: Partial<Recording> = {}): Recording {
-	return db()
-		.insert(schema.recordings)
-		.values({
-			clinicId: clinic.id,
-			uploadedBy: uploader,
-			title,
-			originalFilename: 'narrated.mp4',
-			contentType: 'video/mp4',
-			sizeBytes: 1,
-			status: 'ready',
-			durationSeconds: SECONDS,
-			width: 160,
-			height: 120,
-			videoCodec: 'h264',
-			audioCodec: 'aac',
-			frameRate: 10,
-			hasAudio: true,
-			posterCount: 0,
-			readyAt: new Date(),
-			...values
-		})
-		.returning()
-		.get();
-}
+/** A ready recording of one of makeClip's clips (its figures), under `title`. */
+const insertRecording = (title: string, changes: Parameters<typeof makeRecording>[1] = {}) =>
+	makeRecording(clinic.id, {
+		title,
+		durationSeconds: SECONDS,
+		width: 160,
+		height: 120,
+		audioCodec: 'aac',
+		frameRate: 10,
+		hasAudio: true,
+		...changes
+	});
 
 async function recordingWithClip(title: string, clip: string): Promise<Recording> {
 	const recording = insertRecording(title);
-	const keys = recordingKeys(clinic.id, recording.id);
-	await putObject(keys.rendition, await readFile(clip), 'video/mp4');
+	await storeMedia(recording, clip);
 	return recording;
 }
 
@@ -168,11 +153,7 @@ let narratedTrack: import('$lib/server/captions').CaptionTrack;
 
 beforeAll(async () => {
 	dir = await mkdtemp(join(tmpdir(), 'kinelume-speech-draft-'));
-	db().insert(schema.clinics).values(clinic).run();
-	db()
-		.insert(schema.users)
-		.values({ id: uploader, email: `${uploader}@speech.example` })
-		.run();
+	clinic = makeClinic('Speech draft clinic');
 	clip = join(dir, 'narrated.mp4');
 	await makeClip(clip);
 	narrated = await recordingWithClip('Heel slides, narrated', clip);
@@ -202,6 +183,7 @@ describe('drafts timed from the sound (no speech-to-text service)', () => {
 	it('uses the silences stored for segment suggestions when every stretch fits, reading no media', async () => {
 		// No rendition in storage at all: only the stored silences can make this draft.
 		const recording = insertRecording('Stored silences only');
+		// Written as segment detection stores them (no factory makes these rows).
 		db()
 			.insert(schema.recordingSignals)
 			.values({
@@ -228,6 +210,7 @@ describe('drafts timed from the sound (no speech-to-text service)', () => {
 	});
 
 	it('measures again when a stored stretch is longer than one cue', async () => {
+		// Written as segment detection stores them, but from a coarser detector.
 		db()
 			.insert(schema.recordingSignals)
 			.values({
@@ -317,7 +300,7 @@ describe('what a draft is not made for', () => {
 		await expect(
 			speech.speechDraftFor(recording, emptyTrack(recording, 'chapters'), { settings: noService })
 		).rejects.toMatchObject({ status: 409 });
-		const waiting = insertRecording('Still processing', { status: 'processing', readyAt: null });
+		const waiting = insertRecording('Still processing', { status: 'processing' });
 		await expect(
 			speech.speechDraftFor(waiting, emptyTrack(waiting), { settings: noService })
 		).rejects.toThrow('The recording is not ready yet');

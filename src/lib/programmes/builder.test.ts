@@ -5,36 +5,12 @@ import {
 	draftToInput,
 	itemFromExercise,
 	parseIntent,
-	type BuilderExercise,
 	type ProgrammeDraft
 } from './builder';
+import { builderExercise } from './builder-fixtures';
 import { programmeSaveSchema } from './schema';
 
-const exercise: BuilderExercise = {
-	id: '11111111-1111-4111-8111-111111111111',
-	title: 'Heel slides',
-	bodyRegion: 'Knee',
-	position: 'supine',
-	movementType: 'active-assisted',
-	phase: 2,
-	equipment: [],
-	precautionTags: [],
-	dosageBounds: null,
-	secondsPerRep: null,
-	segmentSeconds: 40,
-	defaultDosage: {
-		sets: 1,
-		reps: 8,
-		holdSeconds: 0,
-		restSeconds: 30,
-		sessionsPerDay: 3,
-		daysPerWeek: 7
-	},
-	defaultProgression: { kind: 'reps', addPerWeek: 2, ceiling: 15 },
-	posterUrl: null,
-	status: 'ready',
-	hasSegment: true
-};
+const exercise = builderExercise();
 
 const draft = (): ProgrammeDraft => ({
 	title: 'Knee',

@@ -4,39 +4,16 @@ import {
 	type BuilderExercise,
 	type ProgrammeDraft
 } from '$lib/programmes/builder';
+import { builderExercise } from '$lib/programmes/builder-fixtures';
 import {
 	ProgrammeBuilderState,
 	type BuilderInputs,
 	type BuilderProgramme
 } from './builder-state.svelte';
 
+// Each with a ceiling of 12 reps, so that typing more raises a flag.
 const exercise = (id: string, title: string, changes: Partial<BuilderExercise> = {}) =>
-	({
-		id,
-		title,
-		bodyRegion: 'Knee',
-		position: 'supine',
-		movementType: 'active-assisted',
-		phase: 2,
-		equipment: [],
-		precautionTags: [],
-		dosageBounds: { reps: { max: 12 } },
-		secondsPerRep: null,
-		segmentSeconds: 40,
-		defaultDosage: {
-			sets: 1,
-			reps: 8,
-			holdSeconds: 0,
-			restSeconds: 30,
-			sessionsPerDay: 3,
-			daysPerWeek: 7
-		},
-		defaultProgression: { kind: 'reps', addPerWeek: 2, ceiling: 15 },
-		posterUrl: null,
-		status: 'ready',
-		hasSegment: true,
-		...changes
-	}) as BuilderExercise;
+	builderExercise({ id, title, dosageBounds: { reps: { max: 12 } }, ...changes });
 
 const catalogue = [
 	exercise('e1', 'Heel slides'),
