@@ -1,8 +1,10 @@
-import { expect, test } from '@playwright/test';
+import { expect, request, test } from '@playwright/test';
 import {
 	ACCOUNTS,
 	database,
+	expectNoAxeViolations,
 	firstLink,
+	signedInRequest,
 	signInWithPassword,
 	waitForMail,
 	open,
@@ -162,4 +164,52 @@ test('a malformed invitation form keeps what was typed and says what is wrong', 
 	const html = await response.text();
 	expect(html).toContain('Enter a valid e-mail address.');
 	expect(html).toContain('value="Someone"');
+});
+
+test('accepting an invitation with two problems says each beside its field, with and without scripts', async ({
+	browser
+}) => {
+	const email = `two.problems.${Date.now()}@alder-street.example`;
+	const since = Date.now();
+	const admin = await signedInRequest(ACCOUNTS.admin);
+	const sent = await admin.post('/clinic?/invite', {
+		form: { email, role: 'clinician' },
+		headers: { Origin: E2E.origin, Accept: 'text/html' },
+		maxRedirects: 0
+	});
+	expect(sent.status()).toBe(200);
+	await admin.dispose();
+	const link = firstLink((await waitForMail(email, since)).text, '/invite/');
+
+	for (const javaScriptEnabled of [true, false]) {
+		const context = await browser.newContext({ baseURL: E2E.origin, javaScriptEnabled });
+		const page = await context.newPage();
+		if (javaScriptEnabled) await open(page, link);
+		else await page.goto(link);
+		await page.getByLabel('Your name').fill('   ');
+		await page.getByLabel('Choose a password').fill('a-long-enough-secret');
+		await page.getByLabel('Type the password again').fill('a-long-enough-secreT');
+		await page.getByRole('button', { name: 'Accept and create my account' }).click();
+
+		await expect(page.getByRole('alert')).toContainText('Not saved: 2 problems.');
+		const box = (label: string) =>
+			page.locator('.field').filter({ has: page.getByLabel(label, { exact: true }) });
+		await expect(page.getByLabel('Your name')).toHaveAccessibleDescription('Enter your name.');
+		await expect(box('Your name')).toContainText('Enter your name.');
+		await expect(box('Your name')).not.toContainText('differ');
+		await expect(page.getByLabel('Type the password again')).toHaveAccessibleDescription(
+			'The two passwords differ.'
+		);
+		await expect(box('Type the password again')).toContainText('The two passwords differ.');
+		await expect(page.getByLabel('Choose a password')).not.toHaveAttribute('aria-invalid');
+		// What was typed stays, except the passwords.
+		await expect(page.getByLabel('Your name')).toHaveValue('   ');
+		await expect(page.getByLabel('Choose a password')).toHaveValue('');
+		if (javaScriptEnabled) await expectNoAxeViolations(page);
+		await context.close();
+	}
+	// Refused, the link is still good.
+	const anyone = await request.newContext({ baseURL: E2E.origin });
+	expect((await anyone.get(new URL(link).pathname)).status()).toBe(200);
+	await anyone.dispose();
 });

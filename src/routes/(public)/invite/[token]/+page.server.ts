@@ -1,8 +1,11 @@
 import { error, fail, redirect } from '@sveltejs/kit';
 import { resolve } from '$app/paths';
+import { message, setError, superValidate } from 'sveltekit-superforms';
+import { zod4 } from 'sveltekit-superforms/adapters';
 import { z } from 'zod';
 import { ROLE_LABELS } from '$lib/auth/roles';
 import { recordAudit } from '$lib/server/audit';
+import { newPassword } from '$lib/server/auth/credentials';
 import { PASSWORD_MIN_LENGTH } from '$lib/server/auth/passwords';
 import { startSession } from '$lib/server/auth/session';
 import {
@@ -20,7 +23,7 @@ function pendingInvitation(token: string) {
 	return found;
 }
 
-export const load: PageServerLoad = ({ params }) => {
+export const load: PageServerLoad = async ({ params }) => {
 	const found = pendingInvitation(params.token);
 	return {
 		email: found.invitation.email,
@@ -29,10 +32,13 @@ export const load: PageServerLoad = ({ params }) => {
 		clinicName: found.clinicName,
 		accountExists: found.accountExists,
 		passwordRequired: found.invitation.role !== 'patient',
-		passwordMinLength: PASSWORD_MIN_LENGTH
+		passwordMinLength: PASSWORD_MIN_LENGTH,
+		form: await superValidate(zod4(acceptForm), { errors: false })
 	};
 };
 
+// A patient may go without a password and sign in by e-mailed links; staff must choose one
+// (the action says so on the field).
 const acceptForm = z
 	.object({
 		name: z
@@ -40,41 +46,42 @@ const acceptForm = z
 			.trim()
 			.min(1, 'Enter your name.')
 			.max(120, 'Keep your name under 120 characters.'),
-		password: z.string().max(1024),
-		confirm: z.string().max(1024)
+		password: newPassword.optional(),
+		confirm: z.string().optional()
 	})
 	.refine((f) => f.password === f.confirm, {
 		message: 'The two passwords differ.',
-		path: ['confirm']
+		path: ['confirm'],
+		// Said even when another field is wrong too, so one try shows every problem.
+		when: (payload) => {
+			const value = payload.value as Record<string, unknown>;
+			const text = (v: unknown) => v === undefined || typeof v === 'string';
+			return text(value.password) && text(value.confirm);
+		}
 	});
 
 export const actions: Actions = {
 	default: async ({ params, request, cookies, url }) => {
 		const found = pendingInvitation(params.token);
-		const raw = Object.fromEntries(await request.formData());
-		const parsed = acceptForm.safeParse({
-			name: raw.name ?? '',
-			password: raw.password ?? '',
-			confirm: raw.confirm ?? ''
-		});
-		const name = String(raw.name ?? '');
-		if (!parsed.success) return fail(400, { name, message: parsed.error.issues[0].message });
-		const { password } = parsed.data;
-		const required = found.invitation.role !== 'patient';
-		if ((required || password) && password.length < PASSWORD_MIN_LENGTH) {
-			return fail(400, {
-				name,
-				message: `Choose a password of at least ${PASSWORD_MIN_LENGTH} characters.`
-			});
-		}
+		const form = await superValidate(request, zod4(acceptForm));
+		const { password } = form.data;
+		// Passwords are never sent back to the page, refused or not.
+		form.data = { ...form.data, password: '', confirm: '' };
+		if (found.invitation.role !== 'patient' && !password)
+			setError(
+				form,
+				'password',
+				`Choose a password of at least ${PASSWORD_MIN_LENGTH} characters.`
+			);
+		if (!form.valid) return fail(400, { form });
 		let accepted: { userId: string; email: string };
 		try {
 			accepted = await acceptInvitation(params.token, {
-				name: parsed.data.name,
+				name: form.data.name,
 				password: password || null
 			});
 		} catch (thrown) {
-			if (thrown instanceof InvitationError) return fail(409, { name, message: thrown.message });
+			if (thrown instanceof InvitationError) return message(form, thrown.message, { status: 409 });
 			throw thrown;
 		}
 		if (found.invitation.role === 'patient') {
@@ -83,7 +90,7 @@ export const actions: Actions = {
 			await startSession(cookies, url, {
 				id: accepted.userId,
 				email: accepted.email,
-				name: parsed.data.name,
+				name: form.data.name,
 				role: 'patient'
 			});
 			recordAudit({
