@@ -5,10 +5,10 @@
  * `next`/`redirectTo`/`callbackUrl` can send anyone off the site.
  */
 import { spawn, type ChildProcess } from 'node:child_process';
-import { createServer, type AddressInfo } from 'node:net';
 import { resolve } from 'node:path';
 import { expect, request, test, type APIRequestContext } from '@playwright/test';
 import { E2E } from './ports';
+import getPort from 'get-port';
 import { seedProgramme, seedSignInPatient } from './programme-fixtures';
 import {
 	ACCOUNTS,
@@ -513,25 +513,13 @@ test.describe('the smaller holes', () => {
 	});
 });
 
-/** A port nobody listens on now (a rerun must not wait for the last server to let go of its own). */
-function freePort(): Promise<number> {
-	return new Promise((resolvePort, reject) => {
-		const probe = createServer();
-		probe.once('error', reject);
-		probe.listen(0, '127.0.0.1', () => {
-			const { port } = probe.address() as AddressInfo;
-			probe.close(() => resolvePort(port));
-		});
-	});
-}
-
 test.describe('served over https', () => {
 	const origin = 'https://kinelume-tls.example';
 	let port: number;
 	let server: ChildProcess;
 
 	test.beforeAll(async () => {
-		port = await freePort();
+		port = await getPort({ host: '127.0.0.1' });
 		// The same build, data and fakes as the main stack, told that it is served over https
 		// (as behind a TLS proxy); it shares the database, so it runs no background work.
 		server = spawn(process.execPath, [resolve(import.meta.dirname, '../../build')], {

@@ -1,25 +1,16 @@
 import { fakesDirectory, testEnv } from './env';
 import { mkdtemp, rm } from 'node:fs/promises';
-import { createServer } from 'node:net';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startStorageFake, type StorageFake } from '../../fakes/storage/server';
 import { makeClip } from './recordings-support';
+import getPort from 'get-port';
 
 // Storage stopped while a recording is processed: the job waits for it without using up its
 // attempts, the page's words say so, and once storage is back the recording is made in full.
 // A storage fake of this file's own (the shared one serves the other files) and a database.
 
-async function freePort(): Promise<number> {
-	const server = createServer();
-	await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
-	const address = server.address();
-	await new Promise<void>((resolve) => server.close(() => resolve()));
-	if (typeof address !== 'object' || !address) throw new Error('no port');
-	return address.port;
-}
-
-const port = await freePort();
+const port = await getPort({ host: '127.0.0.1' });
 const storageDir = await mkdtemp(join(fakesDirectory, 'faults-storage-'));
 const fakeOptions = {
 	port,

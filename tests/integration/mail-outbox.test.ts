@@ -1,30 +1,21 @@
 import { withEnv } from './env';
 import { mkdtemp, rm } from 'node:fs/promises';
-import { createServer } from 'node:net';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { eq } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { startMailFake, type MailFake, type MessageSummary } from '../../fakes/mail/server';
+import getPort from 'get-port';
 
 // Mail down when an invitation or a sign-in link goes out: the message waits in the outbox and
 // goes once the mail server answers again; nothing is lost and nothing is sent twice.
-
-async function freePort(): Promise<number> {
-	const server = createServer();
-	await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
-	const address = server.address();
-	await new Promise<void>((resolve) => server.close(() => resolve()));
-	if (typeof address !== 'object' || !address) throw new Error('no port');
-	return address.port;
-}
 
 let scratch: string;
 let smtpPort: number;
 let fake: MailFake | undefined;
 beforeAll(async () => {
 	scratch = await mkdtemp(join(tmpdir(), 'kinelume-outbox-test-'));
-	smtpPort = await freePort();
+	smtpPort = await getPort({ host: '127.0.0.1' });
 });
 afterAll(async () => {
 	await fake?.close();

@@ -12,6 +12,7 @@ import { join, resolve } from 'node:path';
 import { eq } from 'drizzle-orm';
 import { Redis } from 'ioredis';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
+import { waitFor } from './waiting';
 
 // A database of this file's own, chosen before any app module reads the configuration.
 process.env.DATABASE_PATH = join(fakesDirectory, `queue-engines-${process.pid}.db`);
@@ -44,22 +45,6 @@ function readRecording(id: string) {
 
 function readJob(id: string) {
 	return db().select().from(schema.jobs).where(eq(schema.jobs.id, id)).get()!;
-}
-
-/** Waits for `check` to answer; on giving up, says `what` (a function: read at that moment). */
-async function waitFor<T>(
-	what: string | (() => string),
-	check: () => T | false | undefined | null,
-	ms = 15_000
-) {
-	const deadline = Date.now() + ms;
-	for (;;) {
-		const value = check();
-		if (value) return value;
-		if (Date.now() > deadline)
-			throw new Error(`Gave up waiting for ${typeof what === 'string' ? what : what()}.`);
-		await new Promise((done) => setTimeout(done, 25));
-	}
 }
 
 /** A worker in a process of its own (queue-worker-child.ts), its output kept as it comes. */

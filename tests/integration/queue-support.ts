@@ -4,10 +4,10 @@
  */
 import { spawn, type ChildProcess } from 'node:child_process';
 import { existsSync } from 'node:fs';
-import { createServer } from 'node:net';
 import { eq } from 'drizzle-orm';
 import { db, schema } from '../../src/lib/server/db';
 import type { JobHandler } from '../../src/lib/server/jobs/engine';
+import getPort from 'get-port';
 
 export interface NoteInput {
 	recordingId: string;
@@ -73,17 +73,6 @@ export function noteHandler(
 	};
 }
 
-function freePort(): Promise<number> {
-	return new Promise((resolve, reject) => {
-		const server = createServer();
-		server.once('error', reject);
-		server.listen(0, '127.0.0.1', () => {
-			const { port } = server.address() as { port: number };
-			server.close(() => resolve(port));
-		});
-	});
-}
-
 export const REDIS_SERVER = process.env.REDIS_SERVER_PATH ?? '/usr/bin/redis-server';
 
 /**
@@ -96,7 +85,7 @@ export async function startRedis(): Promise<{ url: string; stop(): Promise<void>
 			`The BullMQ queue tests need redis-server at ${REDIS_SERVER}: install it (apt-get install -y redis-server) or set REDIS_SERVER_PATH. .ci/run installs it.`
 		);
 	}
-	const port = await freePort();
+	const port = await getPort({ host: '127.0.0.1' });
 	const server: ChildProcess = spawn(
 		REDIS_SERVER,
 		['--port', String(port), '--bind', '127.0.0.1', '--save', '', '--appendonly', 'no'],

@@ -5,6 +5,7 @@ import { mkdtemp, readFile, rm, stat, truncate, writeFile } from 'node:fs/promis
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { makeClip } from './recordings-support';
+import { waitFor } from './waiting';
 
 // A database of this file's own, chosen before any app module reads the configuration.
 process.env.DATABASE_PATH = join(fakesDirectory, `recordings-${process.pid}.db`);
@@ -50,20 +51,6 @@ async function clinicObjects(): Promise<string[]> {
 
 async function openUploadsInStorage(): Promise<number> {
 	return (await multipart.listMultipartUploads(`clinics/${owner.clinicId}/`)).length;
-}
-
-async function waitFor<T>(
-	what: string,
-	check: () => T | null | undefined | false,
-	ms = 60_000
-): Promise<T> {
-	const until = Date.now() + ms;
-	for (;;) {
-		const value = check();
-		if (value) return value;
-		if (Date.now() > until) throw new Error(`Timed out waiting for ${what}`);
-		await new Promise((r) => setTimeout(r, 100));
-	}
 }
 
 /**

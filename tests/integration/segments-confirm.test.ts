@@ -2,6 +2,7 @@ import { fakesDirectory } from './env';
 import { mkdtemp, rm } from 'node:fs/promises';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { waitFor } from './waiting';
 
 // A database of this file's own, chosen before any app module reads the configuration.
 process.env.DATABASE_PATH = join(fakesDirectory, `segments-confirm-${process.pid}.db`);
@@ -87,16 +88,6 @@ function giveCaptions(r: Recording, list: Cue[]) {
 	const track = captions.createTrack(r, { kind: 'captions', language: 'en-GB' });
 	const saved = captions.saveVersion(track, { baseVersion: 0, cues: list, source: 'import' });
 	expect(saved.ok).toBe(true);
-}
-
-async function waitFor<T>(what: string, check: () => T | null | undefined | false, ms = 90_000) {
-	const until = Date.now() + ms;
-	for (;;) {
-		const value = check();
-		if (value) return value;
-		if (Date.now() > until) throw new Error(`Timed out waiting for ${what}`);
-		await new Promise((r) => setTimeout(r, 100));
-	}
 }
 
 function current(recordingId: string) {
