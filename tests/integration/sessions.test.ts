@@ -12,7 +12,7 @@ const { calendarFile } = await import('$lib/server/sessions/calendar');
 const { sessionLogSchema } = await import('$lib/sessions/log');
 const { DEFAULT_CAPTION_STYLE } = await import('$lib/sessions/caption-style');
 const factories = await import('./factories');
-const { makeClinic, makeExercise, makeProgramme } = factories;
+const { makeClinic, makeExercise, makeProgramme, makeRecording, makeSegment } = factories;
 
 type Patient = typeof schema.patients.$inferSelect;
 
@@ -226,6 +226,23 @@ describe('Today', () => {
 		const view = sessions.todayFor(patient, NOW);
 		expect(view.restDay).toEqual({ kind: 'paused', reason: 'Review visit', resumes: '2026-03-07' });
 		expect(view.summary).toEqual({ done: 0, due: 0, next: null });
+	});
+
+	it("draws each exercise in its own clip's shape, and says no shape for one without a clip", () => {
+		const patient = makePatient(clinic.id, 'Clip Shapes');
+		const upright = makeRecording(clinic.id, { width: 180, height: 320 });
+		const wide = makeRecording(clinic.id, { width: 640, height: 360 });
+		const withUpright = makeExercise(clinic.id, 'Upright clip', {
+			segmentId: makeSegment(upright).id
+		});
+		const withWide = makeExercise(clinic.id, 'Wide clip', { segmentId: makeSegment(wide).id });
+		const withoutClip = makeExercise(clinic.id, 'No clip');
+		makeProgramme(patient, [withUpright.id, withWide.id, withoutClip.id]);
+		expect(sessions.todayFor(patient, NOW).items.map((i) => [i.title, i.shape])).toEqual([
+			['Upright clip', { width: 180, height: 320 }],
+			['Wide clip', { width: 640, height: 360 }],
+			['No clip', { width: null, height: null }]
+		]);
 	});
 
 	it('shows nothing for a patient without a published programme', () => {

@@ -108,6 +108,8 @@ interface ItemRow {
 	item: ProgrammeItem;
 	exercise: Exercise;
 	segment: SegmentRow | null;
+	/** The segment's clip shape, read in the same query (see clipShape); null without one. */
+	shape: { width: number; height: number } | null;
 }
 
 function itemsOf(programmeId: string): ItemRow[] {
@@ -115,11 +117,13 @@ function itemsOf(programmeId: string): ItemRow[] {
 		.select({
 			item: schema.programmeItems,
 			exercise: schema.exercises,
-			segment: schema.segments
+			segment: schema.segments,
+			shape: { width: schema.recordings.width, height: schema.recordings.height }
 		})
 		.from(schema.programmeItems)
 		.innerJoin(schema.exercises, eq(schema.exercises.id, schema.programmeItems.exerciseId))
 		.leftJoin(schema.segments, eq(schema.segments.id, schema.exercises.segmentId))
+		.leftJoin(schema.recordings, eq(schema.recordings.id, schema.segments.recordingId))
 		.where(eq(schema.programmeItems.programmeId, programmeId))
 		.orderBy(schema.programmeItems.position)
 		.all();
@@ -260,7 +264,7 @@ export function todayFor(patient: Patient, now: number = Date.now()): TodayView 
 	);
 
 	const days = { startDate: programme.startDate, endDate: programme.endDate, pauses };
-	const items: TodayItem[] = rows.map(({ item, exercise, segment }) => {
+	const items: TodayItem[] = rows.map(({ item, exercise, segment, shape }) => {
 		const dosage = dosageOn(programme, item, today);
 		const schedule = itemSchedule(days, dosage, item.weekdays);
 		const status = itemDayStatus(schedule, today, sessionDates.get(item.id) ?? []);
@@ -277,7 +281,7 @@ export function todayFor(patient: Patient, now: number = Date.now()): TodayView 
 			days: describeExerciseDays(schedule),
 			rangeGuides: rangeGuideWords(patient, item, exercise, today),
 			poster: ready && segment ? segmentMedia(segment).poster : null,
-			shape: segment ? clipShape(segment) : { width: null, height: null },
+			shape: shape ?? { width: null, height: null },
 			hasVideo: ready
 		};
 	});
