@@ -5,7 +5,7 @@
  * the same with scripts off.
  */
 import { expect, test, type Browser, type Page } from '@playwright/test';
-import { seedExercise } from './library-support';
+import { seedCollection, seedExercise, seedSubmission } from './library-support';
 import { seedReadySegment } from './segments-support';
 import {
 	ACCOUNTS,
@@ -41,11 +41,12 @@ async function open(page: Page, path: string, javaScriptEnabled: boolean) {
 }
 
 let exerciseId: string;
+let segmentId: string;
 
 test.beforeAll(async () => {
 	test.setTimeout(120_000);
 	const recordingId = await seedReadyRecording(ACCOUNTS.clinician);
-	const segmentId = await seedReadySegment(recordingId, {
+	segmentId = await seedReadySegment(recordingId, {
 		title: 'Form checks',
 		start: 0,
 		end: 1,
@@ -82,6 +83,78 @@ test('a submission with a short title and too many key points says both, beside 
 		await expect(page.getByLabel('Title')).toHaveValue('x');
 		await expect(page.getByLabel('Key points (one a line)')).toHaveValue(cues);
 		await expect(page.getByLabel(/Everyone who can be seen or heard/)).toBeChecked();
+		if (scripts) await expectNoAxeViolations(page);
+	});
+});
+
+test('an approval with judgement unconfirmed and a check failing says each beside its own choice', async ({
+	browser
+}) => {
+	await withAndWithoutScripts(browser, ACCOUNTS.educator, async (page, scripts) => {
+		// A submission whose public words carry a telephone number: its patient data check fails.
+		const submissionId = seedSubmission(
+			seedExercise(segmentId, { title: `Heel slides, ring 0161 496 0${scripts ? 123 : 456}` }),
+			ACCOUNTS.clinician
+		);
+		await open(page, `/curate/submissions/${submissionId}`, scripts);
+		await page
+			.getByLabel('The demonstration is safe to copy at home and matches its words')
+			.check();
+		await page.getByLabel('Approve and publish').check();
+		await page.getByLabel('Comment to the clinician').fill('Looks good.');
+		await page.getByRole('button', { name: 'Record the decision' }).click();
+
+		await expect(page.getByRole('alert')).toContainText('Not saved:');
+		const judgement = page.getByRole('group', { name: 'Your own judgement (needed to approve)' });
+		const decision = page.getByRole('group', { name: 'Decision' });
+		await expect(judgement).toContainText(
+			'Confirm: the words suit the public: nothing only one clinic or one patient would follow.'
+		);
+		await expect(judgement).toContainText(
+			'Confirm: nothing on screen or in the sound identifies a patient.'
+		);
+		await expect(judgement).not.toContainText('Confirm: the demonstration is safe');
+		await expect(judgement).not.toContainText('Not yet met');
+		await expect(decision).toContainText('Not yet met: no patient data');
+		await expect(decision).not.toContainText('Confirm:');
+		await expect(decision).toHaveAccessibleDescription(/Not yet met: no patient data/);
+		// What was chosen and typed stays.
+		await expect(
+			page.getByLabel('The demonstration is safe to copy at home and matches its words')
+		).toBeChecked();
+		await expect(page.getByLabel('Approve and publish')).toBeChecked();
+		await expect(page.getByLabel('Comment to the clinician')).toHaveValue('Looks good.');
+		await expect(page.getByRole('heading', { name: /Review: Heel slides, ring/ })).toBeVisible();
+		if (scripts) await expectNoAxeViolations(page);
+	});
+});
+
+test("a collection's title too short and introduction too long are said together, beside them", async ({
+	browser
+}) => {
+	const tooLong = 'Slowly. '.repeat(760);
+	await withAndWithoutScripts(browser, ACCOUNTS.educator, async (page, scripts) => {
+		const run = crypto.randomUUID().slice(0, 8);
+		const { id } = seedCollection(`Form checks ${run}`, `form-checks-${run}`, 'draft', []);
+		await open(page, `/curate/collections/${id}`, scripts);
+		await page.getByLabel('Title', { exact: true }).fill('ab');
+		// Longer than the box takes when typed, as a client without the limit would post it.
+		await page
+			.getByLabel('Introduction', { exact: true })
+			.evaluate((box) => box.removeAttribute('maxlength'));
+		await page.getByLabel('Introduction', { exact: true }).fill(tooLong);
+		await page.getByRole('button', { name: 'Save', exact: true }).click();
+
+		await expect(page.getByRole('alert')).toContainText('Not saved: 2 problems.');
+		await expect(page.getByLabel('Title', { exact: true })).toHaveAccessibleDescription(
+			'Give the collection a title of at least 3 characters.'
+		);
+		await expect(fieldBox(page, 'Title')).not.toContainText('introduction');
+		await expect(fieldBox(page, 'Introduction')).toContainText(
+			'Keep the introduction under 6,000 characters.'
+		);
+		await expect(page.getByLabel('Title', { exact: true })).toHaveValue('ab');
+		await expect(page.getByRole('heading', { name: `Form checks ${run}`, level: 1 })).toBeVisible();
 		if (scripts) await expectNoAxeViolations(page);
 	});
 });

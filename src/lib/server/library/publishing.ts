@@ -51,20 +51,41 @@ export interface DecisionResult {
 	mailed: boolean;
 }
 
+/**
+ * The reasons an approval cannot go ahead, in words for the educator, by what would answer them:
+ * the checks that do not pass, and the educator's own judgement not yet confirmed.
+ */
+export function approvalProblems(
+	checklist: Checklist,
+	judgement: readonly string[],
+	kind: SubmissionKind = 'exercise'
+): { checks: string[]; judgement: string[] } {
+	const ticked = judgementTicked(judgement, kind);
+	return {
+		checks: checklist.items
+			.filter((i) => !i.passed)
+			.map((i) => `Not yet met: ${i.label.toLowerCase()}.`),
+		judgement: judgementItemsFor(kind)
+			.filter((item) => !ticked.includes(item.id))
+			.map((item) => `Confirm: ${item.label.toLowerCase()}.`)
+	};
+}
+
 /** The reasons an approval cannot go ahead, in words for the educator; empty when it can. */
 export function approvalBlockers(
 	checklist: Checklist,
 	judgement: readonly string[],
 	kind: SubmissionKind = 'exercise'
 ): string[] {
-	const blockers = checklist.items
-		.filter((i) => !i.passed)
-		.map((i) => `Not yet met: ${i.label.toLowerCase()}.`);
-	const ticked = judgementTicked(judgement, kind);
-	for (const item of judgementItemsFor(kind)) {
-		if (!ticked.includes(item.id)) blockers.push(`Confirm: ${item.label.toLowerCase()}.`);
-	}
-	return blockers;
+	const problems = approvalProblems(checklist, judgement, kind);
+	return [...problems.checks, ...problems.judgement];
+}
+
+/** Why the comment cannot go with this decision as it is, or null: the clinician needs a reason. */
+export function commentProblem(decision: Decision, comment: string): string | null {
+	return decision !== 'approved' && comment.trim().length < 5
+		? 'Write the clinician a comment: say what to change or why.'
+		: null;
 }
 
 /**
@@ -119,9 +140,8 @@ export async function decideSubmission(
 		throw new LibraryError(409, 'This submission was already decided; reload to see the decision.');
 	}
 	const comment = input.comment.trim();
-	if (input.decision !== 'approved' && comment.length < 5) {
-		throw new LibraryError(400, 'Write the clinician a comment: say what to change or why.');
-	}
+	const uncommented = commentProblem(input.decision, comment);
+	if (uncommented) throw new LibraryError(400, uncommented);
 	const judgement = judgementTicked(input.judgement, kind);
 
 	let published: { version: LibraryVersion; entry: LibraryExercise } | null = null;

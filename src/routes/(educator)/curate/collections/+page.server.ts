@@ -2,7 +2,7 @@ import { fail, redirect } from '@sveltejs/kit';
 import { resolve } from '$app/paths';
 import { superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
-import { z } from 'zod';
+import { collectionDetails } from '$lib/library/collection-form';
 import { requireRole } from '$lib/server/auth/guard';
 import { createCollection, listCollections } from '$lib/server/library/collections';
 import type { Actions, PageServerLoad } from './$types';
@@ -15,13 +15,7 @@ export const load: PageServerLoad = async () => {
 	};
 };
 
-const newCollection = z.object({
-	title: z
-		.string()
-		.trim()
-		.min(3, 'Give the collection a title of at least 3 characters.')
-		.max(120, 'Keep the title under 120 characters.')
-});
+const newCollection = collectionDetails.pick({ title: true });
 
 export const actions: Actions = {
 	create: async ({ request }) => {

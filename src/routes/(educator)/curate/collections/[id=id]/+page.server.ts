@@ -1,5 +1,7 @@
 import { error, fail } from '@sveltejs/kit';
-import { z } from 'zod';
+import { superValidate } from 'sveltekit-superforms';
+import { zod4 } from 'sveltekit-superforms/adapters';
+import { collectionDetails } from '$lib/library/collection-form';
 import { requireRole } from '$lib/server/auth/guard';
 import {
 	addableExercises,
@@ -17,7 +19,7 @@ import { LibraryError } from '$lib/server/library/submissions';
 import { renderSafetyNotes } from '$lib/server/markdown';
 import type { Actions, PageServerLoad } from './$types';
 
-export const load: PageServerLoad = ({ params }) => {
+export const load: PageServerLoad = async ({ params }) => {
 	requireRole('educator');
 	const collection = findCollection(params.id);
 	if (!collection) error(404, 'Not found.');
@@ -46,18 +48,18 @@ export const load: PageServerLoad = ({ params }) => {
 					}))
 				: []
 		})),
-		addable: addableExercises(collection.id)
+		addable: addableExercises(collection.id),
+		detailsForm: await superValidate(
+			{ title: collection.title, introduction: collection.introduction },
+			zod4(collectionDetails),
+			{ id: 'details', errors: false }
+		)
 	};
 };
 
-const details = z.object({
-	title: z.string().trim().min(3, 'Give the collection a title of at least 3 characters.').max(120),
-	introduction: z.string().max(6000, 'Keep the introduction under 6,000 characters.')
-});
-
 type Step = (collectionId: string, form: FormData) => unknown;
 
-/** Runs one change, answering a refusal as a form message that keeps what was typed. */
+/** Runs one change of the buttons' forms, answering a refusal as a message. */
 async function run(params: { id: string }, request: Request, step: Step, done: string) {
 	requireRole('educator');
 	const form = await request.formData();
@@ -67,12 +69,7 @@ async function run(params: { id: string }, request: Request, step: Step, done: s
 		return { message: done };
 	} catch (e) {
 		if (e instanceof LibraryError) {
-			return fail(e.status, {
-				message: e.message,
-				problem: true,
-				title: String(form.get('title') ?? ''),
-				introduction: String(form.get('introduction') ?? '')
-			});
+			return fail(e.status, { message: e.message, problem: true });
 		}
 		throw e;
 	}
@@ -81,20 +78,23 @@ async function run(params: { id: string }, request: Request, step: Step, done: s
 const entry = (form: FormData) => String(form.get('entryId') ?? '');
 
 export const actions: Actions = {
-	save: ({ params, request }) =>
-		run(
-			params,
-			request,
-			(id, form) => {
-				const parsed = details.safeParse({
-					title: String(form.get('title') ?? ''),
-					introduction: String(form.get('introduction') ?? '')
-				});
-				if (!parsed.success) throw new LibraryError(400, parsed.error.issues[0].message);
-				updateCollection(id, parsed.data);
-			},
-			'Saved.'
-		),
+	save: async ({ params, request }) => {
+		requireRole('educator');
+		if (!findCollection(params.id)) error(404, 'Not found.');
+		const form = await superValidate(request, zod4(collectionDetails), { id: 'details' });
+		if (!form.valid) return fail(400, { form });
+		try {
+			updateCollection(params.id, form.data);
+		} catch (e) {
+			if (e instanceof LibraryError) {
+				form.valid = false;
+				form.message = e.message;
+				return fail(e.status, { form });
+			}
+			throw e;
+		}
+		return { form, message: 'Saved.' };
+	},
 	add: ({ params, request }) =>
 		run(params, request, (id, form) => addToCollection(id, entry(form)), 'Added.'),
 	up: ({ params, request }) =>

@@ -1,5 +1,7 @@
 import { error, fail, redirect } from '@sveltejs/kit';
 import { resolve } from '$app/paths';
+import { setError, superValidate } from 'sveltekit-superforms';
+import { zod4 } from 'sveltekit-superforms/adapters';
 import { z } from 'zod';
 import { diffCues } from '$lib/captions/diff';
 import { plainText } from '$lib/captions/text';
@@ -13,6 +15,8 @@ import { libraryVersions } from '$lib/server/db/schema';
 import { submissionUrls } from '$lib/server/library/media';
 import {
 	approvalBlockers,
+	approvalProblems,
+	commentProblem,
 	decideSubmission,
 	revisionProblem
 } from '$lib/server/library/publishing';
@@ -43,7 +47,7 @@ function changedFields(before: ExerciseSnapshot, after: ExerciseSnapshot): strin
 		.map(([name]) => name);
 }
 
-export const load: PageServerLoad = ({ params }) => {
+export const load: PageServerLoad = async ({ params }) => {
 	requireRole('educator');
 	const found = submissionForReview(params.id);
 	if (!found) error(404, 'Not found.');
@@ -111,6 +115,9 @@ export const load: PageServerLoad = ({ params }) => {
 			s.kind
 		),
 		judgementItems,
+		form: await superValidate({ judgement: [], decision: '', comment: '' }, zod4(decisionForm), {
+			errors: false
+		}),
 		reviews: found.reviews.map((r) => ({
 			id: r.id,
 			decision: r.decision,
@@ -130,37 +137,47 @@ export const load: PageServerLoad = ({ params }) => {
 };
 
 const decisionForm = z.object({
-	decision: z.enum(DECISIONS, { error: 'Choose approve, request changes or reject.' }),
+	/** The educator's own judgement: the ids of the items ticked. */
+	judgement: z.array(z.string()),
+	// Posted as text so that no choice made is read as no choice: nothing is approved by default.
+	decision: z
+		.string()
+		.pipe(z.enum(DECISIONS, { error: 'Choose approve, request changes or reject.' })),
 	comment: z.string().max(4000, 'Keep the comment under 4,000 characters.')
 });
 
 export const actions: Actions = {
 	decide: async ({ params, request }) => {
 		const educator = requireRole('educator');
-		const form = await request.formData();
-		const judgement = form.getAll('judgement').map(String);
-		const raw = {
-			decision: String(form.get('decision') ?? ''),
-			comment: String(form.get('comment') ?? '')
-		};
-		const parsed = decisionForm.safeParse(raw);
-		if (!parsed.success) {
-			return fail(400, { ...raw, judgement, message: parsed.error.issues[0].message });
+		const form = await superValidate(request, zod4(decisionForm));
+		if (!form.valid) return fail(400, { form });
+		const found = submissionForReview(params.id);
+		if (!found) error(404, 'Not found.');
+		// Everything that keeps this decision back, each beside what would answer it, in one go.
+		// (A submission decided meanwhile is said by decideSubmission.)
+		const { decision, comment, judgement } = form.data;
+		const waiting = found.submission.status === 'waiting';
+		const uncommented = commentProblem(decision, comment);
+		if (waiting && uncommented) setError(form, 'comment', uncommented);
+		if (waiting && decision === 'approved') {
+			const problems = approvalProblems(found.checklist, judgement, found.submission.kind);
+			for (const problem of problems.judgement) setError(form, 'judgement._errors', problem);
+			for (const problem of problems.checks) setError(form, 'decision', problem);
 		}
+		if (!form.valid) return fail(400, { form });
 		let result;
 		try {
 			result = await decideSubmission(
 				params.id,
 				{ id: educator.id, name: educator.name },
-				{
-					...parsed.data,
-					judgement
-				}
+				form.data
 			);
 		} catch (e) {
 			if (e instanceof LibraryError) {
 				if (e.status === 404) error(404, 'Not found.');
-				return fail(e.status, { ...raw, judgement, message: e.message });
+				form.valid = false;
+				form.message = e.message;
+				return fail(e.status, { form });
 			}
 			throw e;
 		}
