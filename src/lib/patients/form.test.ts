@@ -1,5 +1,13 @@
 import { describe, expect, it } from 'vitest';
-import { detailsDraftFrom, detailsDraftFromForm, emptyDetailsDraft, parseDetails } from './form';
+import {
+	checkDetails,
+	detailsDraftFrom,
+	detailsDraftFromForm,
+	detailsFormOf,
+	draftOfDetailsForm,
+	emptyDetailsDraft,
+	parseDetails
+} from './form';
 
 describe('patient details', () => {
 	it('accepts a knee replacement patient with a date, protocol and precautions', () => {
@@ -108,6 +116,38 @@ describe('patient details', () => {
 		expect(
 			parseDetails({ ...base, precautions: [], precautionUntil: { 'biceps-repair': '6' } })
 		).toMatchObject({ ok: true, details: { precautionDetails: {} } });
+	});
+
+	it('says every problem at once, each on its own field', () => {
+		const checked = checkDetails({
+			...emptyDetailsDraft(),
+			fullName: '  ',
+			precautions: ['biceps-repair'],
+			precautionUntil: { 'biceps-repair': 'soon' },
+			birthYear: '61',
+			otherPrecautions: 'x'.repeat(161)
+		});
+		expect(checked.ok).toBe(false);
+		expect(checked.ok ? [] : checked.problems.map((p) => p.path)).toEqual([
+			'precaution-until-biceps-repair',
+			'fullName',
+			'precautions.1',
+			'birthYear'
+		]);
+	});
+
+	it('carries a draft through the posted form unchanged', () => {
+		const draft = {
+			...emptyDetailsDraft('Europe/Dublin'),
+			fullName: 'D',
+			precautions: ['biceps-repair', 'falls-risk'],
+			precautionUntil: { 'biceps-repair': '6' },
+			otherPrecautions: 'Mind the stairs'
+		};
+		const form = detailsFormOf(draft);
+		expect(form['precaution-until-biceps-repair']).toBe('6');
+		expect(form.precaution).toEqual(['biceps-repair', 'falls-risk']);
+		expect(draftOfDetailsForm(form)).toEqual(draft);
 	});
 
 	it('stores no operation date when none is given', () => {

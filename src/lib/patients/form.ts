@@ -161,30 +161,24 @@ function distinctPrecautions(list: readonly string[]): string[] {
 	return out;
 }
 
-/** The details part of a submitted form. */
-export function detailsDraftFromForm(form: FormData): PatientDetailsDraft {
-	const get = (name: string) => {
-		const v = form.get(name);
-		return typeof v === 'string' ? v : '';
-	};
+/** A draft from the form's fields, however they arrived: by name, and the ticked precautions. */
+function draftFromFields(
+	get: (name: string) => string,
+	ticked: readonly string[]
+): PatientDetailsDraft {
 	return {
 		fullName: get('fullName'),
 		affectedSide: get('affectedSide'),
 		condition: get('condition'),
 		operationDate: get('operationDate'),
 		protocol: get('protocol'),
-		precautions: form
-			.getAll('precaution')
-			.map(String)
-			.filter((p) => known.has(p)),
+		precautions: ticked.filter((p) => known.has(p)),
 		otherPrecautions: get('otherPrecautions'),
 		precautionUntil: Object.fromEntries(
-			[...known].map((id) => [id, get(`precaution-until-${id}`)]).filter(([, v]) => v !== '')
+			[...known].map((id) => [id, get(untilName(id))]).filter(([, v]) => v !== '')
 		),
 		precautionDegrees: Object.fromEntries(
-			PRECAUTIONS_WITH_DEGREES.map((id) => [id, get(`precaution-degrees-${id}`)]).filter(
-				([, v]) => v !== ''
-			)
+			PRECAUTIONS_WITH_DEGREES.map((id) => [id, get(degreesName(id))]).filter(([, v]) => v !== '')
 		),
 		protocolShiftWeeks: get('protocolShiftWeeks'),
 		slingUntil: get('slingUntil'),
@@ -192,6 +186,14 @@ export function detailsDraftFromForm(form: FormData): PatientDetailsDraft {
 		sex: get('sex'),
 		timeZone: get('timeZone') || DEFAULT_TIME_ZONE
 	};
+}
+
+/** The details part of a submitted form. */
+export function detailsDraftFromForm(form: FormData): PatientDetailsDraft {
+	return draftFromFields((name) => {
+		const v = form.get(name);
+		return typeof v === 'string' ? v : '';
+	}, form.getAll('precaution').map(String));
 }
 
 /** The form filled from stored details (precautions split into ticked ones and free text). */
@@ -244,56 +246,155 @@ export function emptyDetailsDraft(timeZone = DEFAULT_TIME_ZONE): PatientDetailsD
 	};
 }
 
+/** A refused detail: its sentence, and the form field it is about. */
+export interface DetailProblem {
+	path: string;
+	message: string;
+}
+
 /**
- * The ends and degrees of the ticked precautions, read from what was typed; a refusal names the
- * precaution. Details of unticked precautions are dropped.
+ * The ends and degrees of the ticked precautions, read from what was typed; each refusal names
+ * the precaution. Details of unticked precautions are dropped.
  */
-function precautionDetailsFrom(
-	draft: PatientDetailsDraft
-):
-	| { ok: true; details: Record<string, PrecautionDetail> }
-	| { ok: false; message: string; path: string } {
+function precautionDetailsFrom(draft: PatientDetailsDraft): {
+	details: Record<string, PrecautionDetail>;
+	problems: DetailProblem[];
+} {
 	const details: Record<string, PrecautionDetail> = {};
+	const problems: DetailProblem[] = [];
 	for (const id of draft.precautions) {
 		const label = PRECAUTIONS[id as PrecautionId];
 		const until = parseUntil(draft.precautionUntil[id] ?? '');
-		if (!until.ok) {
-			return { ok: false, message: `${label}: ${until.message}`, path: `precaution-until-${id}` };
-		}
+		if (!until.ok) problems.push({ message: `${label}: ${until.message}`, path: untilName(id) });
 		const degreesText = (draft.precautionDegrees[id] ?? '').trim();
 		let degrees: number | null = null;
 		if (degreesText !== '') {
 			degrees = /^\d{1,3}$/.test(degreesText) ? Number(degreesText) : NaN;
 			if (!Number.isInteger(degrees) || degrees < 0 || degrees > 180) {
-				return {
-					ok: false,
+				problems.push({
 					message: `${label}: give whole degrees from 0 to 180, e.g. 20.`,
-					path: `precaution-degrees-${id}`
-				};
+					path: degreesName(id)
+				});
+				continue;
 			}
 		}
+		if (!until.ok) continue;
 		if (until.until.untilWeek !== null || until.until.untilDate !== null || degrees !== null) {
 			details[id] = { ...until.until, degrees };
 		}
 	}
-	return { ok: true, details };
+	return { details, problems };
 }
 
-/** Checks a draft; the first problem's sentence on refusal. */
-export function parseDetails(
+/** Checks a draft: the details, or every problem on the field it belongs to. */
+export function checkDetails(
 	draft: PatientDetailsDraft
-): { ok: true; details: PatientDetails } | { ok: false; message: string; path: string } {
-	const details = precautionDetailsFrom(draft);
-	if (!details.ok) return details;
+): { ok: true; details: PatientDetails } | { ok: false; problems: DetailProblem[] } {
+	const { details, problems } = precautionDetailsFrom(draft);
 	const result = detailsSchema.safeParse({
 		...draft,
 		precautions: distinctPrecautions([
 			...draft.precautions.map((p) => p as PrecautionId),
 			...splitLines(draft.otherPrecautions)
 		]),
-		precautionDetails: details.details
+		precautionDetails: details
 	});
-	if (result.success) return { ok: true, details: result.data };
-	const issue = result.error.issues[0];
-	return { ok: false, message: issue.message, path: issue.path.join('.') };
+	if (!result.success) {
+		for (const issue of result.error.issues) {
+			problems.push({ message: issue.message, path: issue.path.join('.') });
+		}
+	}
+	if (problems.length > 0 || !result.success) return { ok: false, problems };
+	return { ok: true, details: result.data };
+}
+
+/** Checks a draft; the first problem's sentence on refusal. */
+export function parseDetails(
+	draft: PatientDetailsDraft
+): { ok: true; details: PatientDetails } | { ok: false; message: string; path: string } {
+	const checked = checkDetails(draft);
+	return checked.ok ? checked : { ok: false, ...checked.problems[0] };
+}
+
+const untilName = (id: string) => `precaution-until-${id}` as const;
+const degreesName = (id: string) => `precaution-degrees-${id}` as const;
+
+type TextField = {
+	[K in keyof PatientDetailsDraft]: PatientDetailsDraft[K] extends string ? K : never;
+}[keyof PatientDetailsDraft];
+type DegreesId = (typeof PRECAUTIONS_WITH_DEGREES)[number];
+
+const blankDraft = emptyDetailsDraft();
+const textField = (name: string) =>
+	typeof blankDraft[name as keyof PatientDetailsDraft] === 'string';
+
+/**
+ * The details form as it is posted (superforms' schema): every field as typed, the ticks as
+ * `precaution`, and each precaution's end and degrees under its own name. A draft's fields, so
+ * the shape is written once (PatientDetailsDraft); the checks are the stored details' own, in
+ * `withDetailChecks`.
+ */
+export const detailsFormFields = z.object({
+	...(Object.fromEntries(
+		Object.keys(blankDraft)
+			.filter(textField)
+			.map((name) => [name, z.string()])
+	) as Record<TextField, z.ZodString>),
+	precaution: z.array(z.string()),
+	...(Object.fromEntries([...known].map((id) => [untilName(id), z.string()])) as Record<
+		`precaution-until-${PrecautionId}`,
+		z.ZodString
+	>),
+	...(Object.fromEntries(
+		PRECAUTIONS_WITH_DEGREES.map((id) => [degreesName(id), z.string()])
+	) as Record<`precaution-degrees-${DegreesId}`, z.ZodString>)
+});
+
+export type DetailsForm = z.infer<typeof detailsFormFields>;
+
+/** The form's fields from a draft (the stored details, or a new patient's). */
+export function detailsFormOf(draft: PatientDetailsDraft): DetailsForm {
+	const { precautions, precautionUntil, precautionDegrees, ...text } = draft;
+	return {
+		...text,
+		precaution: precautions,
+		...Object.fromEntries([...known].map((id) => [untilName(id), precautionUntil[id] ?? ''])),
+		...Object.fromEntries(
+			PRECAUTIONS_WITH_DEGREES.map((id) => [degreesName(id), precautionDegrees[id] ?? ''])
+		)
+	} as DetailsForm;
+}
+
+/** The draft the form's fields hold. */
+export function draftOfDetailsForm(form: DetailsForm): PatientDetailsDraft {
+	const fields = form as unknown as Record<string, unknown>;
+	return draftFromFields((name) => {
+		const value = fields[name];
+		return typeof value === 'string' ? value : '';
+	}, form.precaution);
+}
+
+/** The form field a problem of the stored details belongs to. */
+function fieldOf(path: string): string {
+	// The stored list joins the ticks and the free text; only the free text can be refused.
+	if (path.startsWith('precautions')) return 'otherPrecautions';
+	return path.startsWith('precautionDetails') ? '' : path;
+}
+
+/**
+ * The stored details' checks on the form's fields, every problem on its own field, even when
+ * another field of the schema (the invitation's e-mail address) is wrong too.
+ */
+export function withDetailChecks<S extends z.ZodType<DetailsForm>>(schema: S): S {
+	return schema.superRefine(
+		(form, ctx) => {
+			const checked = checkDetails(draftOfDetailsForm(form));
+			if (checked.ok) return;
+			for (const problem of checked.problems) {
+				const path = fieldOf(problem.path);
+				ctx.addIssue({ code: 'custom', message: problem.message, path: path ? [path] : [] });
+			}
+		},
+		{ when: (payload) => detailsFormFields.safeParse(payload.value).success }
+	);
 }

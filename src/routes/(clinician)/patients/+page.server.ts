@@ -1,23 +1,42 @@
 import type { Delivery } from '$lib/server/mail';
 import { fail } from '@sveltejs/kit';
+import { setError, superValidate } from 'sveltekit-superforms';
+import { zod4 } from 'sveltekit-superforms/adapters';
 import { z } from 'zod';
 import { requireRole } from '$lib/server/auth/guard';
+import { emailAddress } from '$lib/server/auth/credentials';
 import { emailHasRoleIn } from '$lib/server/members';
-import { normaliseEmail } from '$lib/server/invitations';
 import {
 	invitePatient,
 	listPatients,
 	PatientError,
 	resendPatientInvitation
 } from '$lib/server/patients';
-import { detailsDraftFromForm, emptyDetailsDraft, parseDetails } from '$lib/patients/form';
+import {
+	detailsFormFields,
+	detailsFormOf,
+	draftOfDetailsForm,
+	emptyDetailsDraft,
+	parseDetails,
+	withDetailChecks
+} from '$lib/patients/form';
 import type { Actions, PageServerLoad } from './$types';
 
-export const load: PageServerLoad = () => {
+/** A new patient's details and the address their invitation goes to. */
+const inviteForm = withDetailChecks(detailsFormFields.extend({ email: emailAddress }));
+
+/** The invitation form as it first shows: empty, in the clinician's time zone. */
+const blankInvitation = (timeZone: string) =>
+	superValidate({ ...detailsFormOf(emptyDetailsDraft(timeZone)), email: '' }, zod4(inviteForm), {
+		id: 'invite',
+		errors: false
+	});
+
+export const load: PageServerLoad = async () => {
 	const clinician = requireRole('clinician');
 	return {
 		clinicName: clinician.clinicName,
-		blank: emptyDetailsDraft(clinician.timeZone),
+		inviteForm: await blankInvitation(clinician.timeZone),
 		patients: listPatients(clinician.clinicId).map((p) => ({
 			id: p.id,
 			fullName: p.fullName,
@@ -32,46 +51,29 @@ export const load: PageServerLoad = () => {
 	};
 };
 
-const emailField = z.email('Enter a valid e-mail address.').max(320).transform(normaliseEmail);
-
 export const actions: Actions = {
 	invite: async ({ request }) => {
 		const clinician = requireRole('clinician');
-		const form = await request.formData();
-		const details = detailsDraftFromForm(form);
-		const email = String(form.get('email') ?? '');
-		const values = { ...details, email };
-		const parsedEmail = emailField.safeParse(email);
-		if (!parsedEmail.success)
-			return fail(400, {
-				action: 'invite',
-				message: parsedEmail.error.issues[0].message,
-				path: 'email',
-				values
-			});
-		const parsed = parseDetails(details);
-		if (!parsed.ok)
-			return fail(400, { action: 'invite', message: parsed.message, path: parsed.path, values });
-		if (emailHasRoleIn(parsedEmail.data, clinician.clinicId)) {
-			return fail(409, {
-				action: 'invite',
-				message: 'That address already has an account in your clinic.',
-				path: 'email',
-				values
+		const form = await superValidate(request, zod4(inviteForm), { id: 'invite' });
+		if (!form.valid) return fail(400, { form });
+		const { email } = form.data;
+		if (emailHasRoleIn(email, clinician.clinicId)) {
+			return setError(form, 'email', 'That address already has an account in your clinic.', {
+				status: 409
 			});
 		}
+		const parsed = parseDetails(draftOfDetailsForm(form.data));
+		// The form's checks are these very checks: a refusal here would be a fault of ours.
+		if (!parsed.ok) throw new Error(`Checked patient details refused: ${parsed.message}`);
 		let mail: Delivery['status'];
 		try {
-			({ invitationMail: mail } = await invitePatient(clinician, {
-				...parsed.details,
-				email: parsedEmail.data
-			}));
+			({ invitationMail: mail } = await invitePatient(clinician, { ...parsed.details, email }));
 		} catch (e) {
-			if (e instanceof PatientError)
-				return fail(409, { action: 'invite', message: e.message, path: 'email', values });
+			if (e instanceof PatientError) return setError(form, 'email', e.message, { status: 409 });
 			throw e;
 		}
-		return { action: 'invite', sent: parsedEmail.data, mail };
+		// Sent: the form starts empty for the next patient, with scripts or without.
+		return { form: await blankInvitation(clinician.timeZone), action: 'invite', sent: email, mail };
 	},
 	resend: async ({ request }) => {
 		const clinician = requireRole('clinician');
