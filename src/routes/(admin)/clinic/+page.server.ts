@@ -1,5 +1,5 @@
 import { fail } from '@sveltejs/kit';
-import { setError, superValidate } from 'sveltekit-superforms';
+import { message, setError, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { z } from 'zod';
 import { STAFF_ROLES } from '$lib/server/db/schema/clinics';
@@ -25,12 +25,27 @@ import {
 } from '$lib/server/members';
 import type { Actions, PageServerLoad } from './$types';
 
+/** The forms of a table, one a row, by row id; each form's id names its row. */
+async function rowForms<Row, Form>(
+	rows: Row[],
+	key: (row: Row) => string,
+	form: (row: Row) => Promise<Form>
+): Promise<Record<string, Form>> {
+	return Object.fromEntries(await Promise.all(rows.map(async (r) => [key(r), await form(r)])));
+}
+
 export const load: PageServerLoad = async () => {
 	const admin = requireRole('admin');
+	const members = listMembers(admin.clinicId);
+	const invitations = listStaffInvitations(admin.clinicId);
 	return {
 		clinicName: admin.clinicName,
 		selfId: admin.id,
-		captionProfile: getClinicCaptionProfile(admin.clinicId),
+		profileForm: await superValidate(
+			{ profile: getClinicCaptionProfile(admin.clinicId) },
+			zod4(profileForm),
+			{ id: 'captionProfile', errors: false }
+		),
 		inviteForm: await superValidate({ email: '', role: 'clinician' }, zod4(inviteForm), {
 			id: 'invite',
 			errors: false
@@ -46,8 +61,31 @@ export const load: PageServerLoad = async () => {
 			label: p.label,
 			summary: `${p.maxCharsPerLine.value} characters a line, ${p.maxLines.value} lines, about ${p.targetWordsPerMinute.value} words a minute, at least ${p.minSeconds.value} s on screen`
 		})),
-		members: listMembers(admin.clinicId),
-		invitations: listStaffInvitations(admin.clinicId).map((i) => ({
+		members,
+		roleForms: await rowForms(
+			members,
+			(m) => m.membershipId,
+			(m) =>
+				superValidate({ membershipId: m.membershipId, role: m.role }, zod4(roleForm), {
+					id: `role-${m.membershipId}`,
+					errors: false
+				})
+		),
+		removeForms: await rowForms(
+			members,
+			(m) => m.membershipId,
+			(m) =>
+				superValidate({ id: m.membershipId }, zod4(idForm), {
+					id: `remove-${m.membershipId}`,
+					errors: false
+				})
+		),
+		revokeForms: await rowForms(
+			invitations,
+			(i) => i.id,
+			(i) => superValidate({ id: i.id }, zod4(idForm), { id: `revoke-${i.id}`, errors: false })
+		),
+		invitations: invitations.map((i) => ({
 			id: i.id,
 			email: i.email,
 			role: i.role,
@@ -61,7 +99,7 @@ const inviteForm = z.object({
 	email: z.email('Enter a valid e-mail address.').max(320).transform(normaliseEmail),
 	role: z.enum(STAFF_ROLES, 'Choose a role.')
 });
-const roleForm = z.object({ membershipId: z.uuid(), role: z.enum(STAFF_ROLES) });
+const roleForm = z.object({ membershipId: z.uuid(), role: z.enum(STAFF_ROLES, 'Choose a role.') });
 const idForm = z.object({ id: z.uuid() });
 const profileForm = z.object({ profile: z.enum(['bbc', 'dcmp'], 'Choose a caption guideline.') });
 const timeZoneForm = z.object({
@@ -71,6 +109,7 @@ const timeZoneForm = z.object({
 		.refine(isTimeZone, 'Choose a time zone from the list, e.g. Europe/London.')
 });
 
+/** A refusal that belongs to no row on the page (a row's id that is not one), said at its top. */
 function failed(action: string, message: string, status = 400) {
 	return fail(status, { action, message });
 }
@@ -94,34 +133,38 @@ export const actions: Actions = {
 	},
 	role: async ({ request }) => {
 		const admin = requireRole('admin');
-		const parsed = roleForm.safeParse(Object.fromEntries(await request.formData()));
-		if (!parsed.success) return failed('role', 'Choose a member and a role.');
+		const form = await superValidate(request, zod4(roleForm));
+		if (form.errors.membershipId) return failed('role', 'Choose a member and a role.');
+		// Without scripts no form id is posted: the row is the member's.
+		form.id = `role-${form.data.membershipId}`;
+		if (!form.valid) return fail(400, { form });
 		try {
-			changeRole(admin, parsed.data.membershipId, parsed.data.role);
+			changeRole(admin, form.data.membershipId, form.data.role);
 		} catch (e) {
-			if (e instanceof MemberError) return failed('role', e.message, 409);
+			if (e instanceof MemberError) return setError(form, 'role', e.message, { status: 409 });
 			throw e;
 		}
-		return { action: 'role', saved: true };
+		return { form, action: 'role', saved: true };
 	},
 	remove: async ({ request }) => {
 		const admin = requireRole('admin');
-		const parsed = idForm.safeParse(Object.fromEntries(await request.formData()));
-		if (!parsed.success) return failed('remove', 'Choose a member to remove.');
+		const form = await superValidate(request, zod4(idForm));
+		if (!form.valid) return failed('remove', 'Choose a member to remove.');
+		form.id = `remove-${form.data.id}`;
 		try {
-			removeMember(admin, parsed.data.id);
+			removeMember(admin, form.data.id);
 		} catch (e) {
-			if (e instanceof MemberError) return failed('remove', e.message, 409);
+			if (e instanceof MemberError) return message(form, e.message, { status: 409 });
 			throw e;
 		}
-		return { action: 'remove', saved: true };
+		return { form, action: 'remove', saved: true };
 	},
 	captionProfile: async ({ request }) => {
 		const admin = requireRole('admin');
-		const parsed = profileForm.safeParse(Object.fromEntries(await request.formData()));
-		if (!parsed.success) return failed('captionProfile', parsed.error.issues[0].message);
-		setClinicCaptionProfile(admin.clinicId, parsed.data.profile);
-		return { action: 'captionProfile', saved: true };
+		const form = await superValidate(request, zod4(profileForm), { id: 'captionProfile' });
+		if (!form.valid) return fail(400, { form });
+		setClinicCaptionProfile(admin.clinicId, form.data.profile);
+		return { form, action: 'captionProfile', saved: true };
 	},
 	timeZone: async ({ request }) => {
 		const admin = requireRole('admin');
@@ -132,14 +175,15 @@ export const actions: Actions = {
 	},
 	revoke: async ({ request }) => {
 		const admin = requireRole('admin');
-		const parsed = idForm.safeParse(Object.fromEntries(await request.formData()));
-		if (!parsed.success) return failed('revoke', 'Choose an invitation.');
+		const form = await superValidate(request, zod4(idForm));
+		if (!form.valid) return failed('revoke', 'Choose an invitation.');
+		form.id = `revoke-${form.data.id}`;
 		try {
-			revokeInvitation(admin, parsed.data.id);
+			revokeInvitation(admin, form.data.id);
 		} catch (e) {
-			if (e instanceof MemberError) return failed('revoke', e.message, 409);
+			if (e instanceof MemberError) return message(form, e.message, { status: 409 });
 			throw e;
 		}
-		return { action: 'revoke', saved: true };
+		return { form, action: 'revoke', saved: true };
 	}
 };
