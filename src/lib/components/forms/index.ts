@@ -1,2 +1,3 @@
 export { default as Field, type FieldControl } from './Field.svelte';
+export { default as FieldGroup } from './FieldGroup.svelte';
 export { default as FormProblems } from './FormProblems.svelte';
