@@ -204,6 +204,32 @@ describe('reviewing', () => {
 		);
 	});
 
+	it('says what keeps an approval back apart: failing checks, unconfirmed judgement, a missing comment', async () => {
+		const exercise = await support.makeExercise(world, {
+			description: 'Ring the clinic on 0161 496 0000 if it swells.'
+		});
+		const submission = submissions.submitExercise(
+			world.clinician,
+			exercise.id,
+			support.submissionInput(exercise)
+		);
+		const checklist = submissions.checklistOf(submission);
+		const problems = publishing.approvalProblems(checklist, ['safe-demonstration']);
+		expect(problems.checks).toEqual([expect.stringMatching(/^Not yet met: no patient data/)]);
+		expect(problems.judgement).toEqual([
+			'Confirm: the words suit the public: nothing only one clinic or one patient would follow.',
+			'Confirm: nothing on screen or in the sound identifies a patient.'
+		]);
+		expect(publishing.approvalBlockers(checklist, ['safe-demonstration'])).toEqual([
+			...problems.checks,
+			...problems.judgement
+		]);
+		expect(publishing.commentProblem('rejected', '  ok  ')).toBe(
+			'Write the clinician a comment: say what to change or why.'
+		);
+		expect(publishing.commentProblem('approved', '')).toBeNull();
+	});
+
 	it('needs every judgement item ticked to approve', async () => {
 		const exercise = await support.makeExercise(world);
 		const submission = submissions.submitExercise(
