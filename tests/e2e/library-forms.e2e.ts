@@ -66,7 +66,8 @@ test('a submission with a short title and too many key points says both, beside 
 		await page.getByLabel(/Everyone who can be seen or heard/).check();
 		await page.getByRole('button', { name: 'Submit for review' }).click();
 
-		await expect(page.getByRole('alert')).toContainText('Not saved: 2 problems.');
+		await expect(page.getByRole('alert')).toContainText('Nothing was sent yet.');
+		await expect(page.getByRole('alert')).toContainText('Key points (one a line): At most 20');
 		await expect(page.getByLabel('Title')).toHaveAccessibleDescription(
 			'Give the exercise a title of at least 3 characters.'
 		);
