@@ -117,6 +117,44 @@ describe('parseDraft', () => {
 		]);
 	});
 
+	it('says every problem at once: the checks across fields too, when other fields are wrong', () => {
+		const draft = {
+			...filled(),
+			segmentId: '',
+			status: 'ready',
+			title: '',
+			secondsPerRep: 'soon',
+			cues: [{ text: ' ', at: 'later' }]
+		};
+		draft.bounds.reps = { min: '10', max: '15' };
+		draft.progression = { kind: 'reps', addPerWeek: '2', ceiling: '6', addAfterWeeks: '', add: '' };
+		const parsed = parseDraft(draft);
+		expect(parsed.ok).toBe(false);
+		if (parsed.ok) return;
+		expect(parsed.problems.map((p) => p.path)).toEqual([
+			'title',
+			'coachingCues.0.text',
+			'coachingCues.0.atSeconds',
+			'secondsPerRep',
+			'progression.ceiling',
+			'dosage.reps',
+			'segmentId'
+		]);
+	});
+
+	it('leaves a check across fields out while a field it reads is wrong itself', () => {
+		const draft = { ...filled(), segmentId: 'not a segment', status: 'ready' };
+		draft.dosage.reps = 'many';
+		draft.bounds.reps = { min: '10', max: '' };
+		draft.progression = { kind: 'reps', addPerWeek: '2', ceiling: '6', addAfterWeeks: '', add: '' };
+		const parsed = parseDraft(draft);
+		expect(parsed.ok).toBe(false);
+		if (parsed.ok) return;
+		// Only each field's own problem: no range or ceiling compared with reps that are no number,
+		// and no "choose the segment" on top of the segment's own refusal.
+		expect(parsed.problems.map((p) => p.path)).toEqual(['segmentId', 'dosage.reps']);
+	});
+
 	it('refuses a default dosage outside the exercise’s own range', () => {
 		const draft = filled();
 		draft.bounds.reps = { min: '10', max: '15' };

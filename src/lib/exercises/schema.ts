@@ -123,9 +123,22 @@ function inputShape(stored: StoredShape): InputShape {
 	return Object.fromEntries(entries) as InputShape;
 }
 
+const inputShapeOf = inputShape(exerciseFieldsSchema.shape);
+
+/**
+ * A check across fields runs whenever the fields it reads are right, even if another field is
+ * wrong (zod skips it otherwise), so one try shows every problem.
+ */
+const whenRight = (parts: z.ZodType) => ({
+	when: (payload: { value: unknown }) => parts.safeParse(payload.value).success
+});
+const plan = z.object({ dosage: dosageSchema, progression: progressionSchema });
+const ranged = z.object({ dosage: dosageSchema, bounds: dosageBoundsSchema });
+const readiness = z.object({ status: inputShapeOf.status, segmentId: inputShapeOf.segmentId });
+
 /** An exercise as a form or an endpoint sends it, checked whole. */
 export const exerciseInputSchema = z
-	.object(inputShape(exerciseFieldsSchema.shape))
+	.object(inputShapeOf)
 	.superRefine((e, ctx) => {
 		const field = PROGRESSED_FIELD[e.progression.kind];
 		if (field && e.progression.kind !== 'none' && e.progression.ceiling < e.dosage[field]) {
@@ -135,6 +148,8 @@ export const exerciseInputSchema = z
 				message: `The most it rises to (${e.progression.ceiling}) is below where it starts (${e.dosage[field]}). Raise the most, or lower the starting ${DOSAGE_FIELD_LABELS[field].toLowerCase()}.`
 			});
 		}
+	}, whenRight(plan))
+	.superRefine((e, ctx) => {
 		for (const issue of outOfBounds(e.dosage, e.bounds)) {
 			ctx.addIssue({
 				code: 'custom',
@@ -142,6 +157,8 @@ export const exerciseInputSchema = z
 				message: `The starting dosage is outside the exercise's own range: ${issue.message}`
 			});
 		}
+	}, whenRight(ranged))
+	.superRefine((e, ctx) => {
 		if (e.status === 'ready' && !e.segmentId) {
 			ctx.addIssue({
 				code: 'custom',
@@ -150,6 +167,6 @@ export const exerciseInputSchema = z
 					'Choose the demonstration segment before marking the exercise ready: patients replay it.'
 			});
 		}
-	});
+	}, whenRight(readiness));
 
 export type ExerciseInput = z.infer<typeof exerciseInputSchema>;
