@@ -97,3 +97,22 @@ test("a patient's details with two problems say each beside its field, with and 
 		}
 	);
 });
+
+test('once a patient is invited the form is empty again, with and without scripts', async ({
+	browser
+}) => {
+	await withAndWithoutScripts(browser, '/patients', async (page, javaScriptEnabled) => {
+		const name = `Emptied Form ${javaScriptEnabled ? 'S' : 'N'}${Date.now()}`;
+		const invite = page.locator('form[action="?/invite"]');
+		await invite.getByLabel('Full name').fill(name);
+		await invite.getByLabel('E-mail address').fill(`emptied.${Date.now()}@alder-street.example`);
+		await invite.getByLabel('Operation or injury', { exact: true }).fill('Right knee arthroscopy');
+		await invite.getByRole('button', { name: 'Send invitation' }).click();
+		await expect(
+			page.getByRole('row').filter({ hasText: name }).getByText('Invited')
+		).toBeVisible();
+		await expect(invite.getByLabel('Full name')).toHaveValue('');
+		await expect(invite.getByLabel('E-mail address')).toHaveValue('');
+		await expect(invite.getByLabel('Operation or injury', { exact: true })).toHaveValue('');
+	});
+});
