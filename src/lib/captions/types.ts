@@ -44,6 +44,11 @@ export function canonicalLanguage(tag: string): string | null {
 	}
 }
 
+/** The refusal of something typed as a language that is not a language tag, in words. */
+export function notALanguageTag(typed: string): string {
+	return `“${typed}” is not a language tag. Use a BCP 47 tag such as en, en-GB or cy.`;
+}
+
 export interface Track {
 	kind: TrackKind;
 	/** BCP 47 language tag, e.g. "en-GB". */

@@ -10,6 +10,7 @@ import { parseSrt, serializeSrt } from '$lib/captions/srt';
 import { plainText } from '$lib/captions/text';
 import {
 	canonicalLanguage,
+	notALanguageTag,
 	type CaptionProblem,
 	type Cue,
 	type TrackKind
@@ -136,10 +137,7 @@ export function createTrack(
 ): CaptionTrack {
 	const language = canonicalLanguage(input.language);
 	if (!language) {
-		throw new CaptionError(
-			422,
-			`“${input.language}” is not a language tag. Use a BCP 47 tag such as en, en-GB or cy.`
-		);
+		throw new CaptionError(422, notALanguageTag(input.language));
 	}
 	const existing = db()
 		.select({ id: captionTracks.id })
@@ -538,10 +536,7 @@ export function importIntoCaptions(
 	if (!read.ok) return read;
 	const language = canonicalLanguage(input.language);
 	if (!language) {
-		throw new CaptionError(
-			422,
-			`“${input.language}” is not a language tag. Use a BCP 47 tag such as en, en-GB or cy.`
-		);
+		throw new CaptionError(422, notALanguageTag(input.language));
 	}
 	const existing = db()
 		.select()

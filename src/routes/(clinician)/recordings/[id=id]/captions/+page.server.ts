@@ -1,9 +1,11 @@
-import { error, fail, redirect } from '@sveltejs/kit';
+import { error, redirect } from '@sveltejs/kit';
 import { resolve } from '$app/paths';
+import { fail, message, superValidate, withFiles } from 'sveltekit-superforms';
+import { zod4 } from 'sveltekit-superforms/adapters';
 import { z } from 'zod';
 import { checkCues, profiles } from '$lib/captions/checks';
 import { diffCues } from '$lib/captions/diff';
-import { TRACK_KINDS } from '$lib/captions/types';
+import { captionFile, trackDetails } from '$lib/captions/track-form';
 import {
 	CaptionError,
 	createTrack,
@@ -27,7 +29,7 @@ function ownTrack(clinicId: string, recordingId: string, trackId: unknown) {
 // The studio is where findings get fixed; this page only shows enough to know where to start.
 const MAX_FINDINGS_SHOWN = 30;
 
-export const load: PageServerLoad = ({ params, url }) => {
+export const load: PageServerLoad = async ({ params, url }) => {
 	const { clinician, recording } = requireOwnRecording(params.id);
 	const profile = profiles[getClinicCaptionProfile(clinician.clinicId)];
 	const tracks = listTracks(clinician.clinicId, recording.id).map((summary) => {
@@ -65,43 +67,38 @@ export const load: PageServerLoad = ({ params, url }) => {
 		selectedId: selected?.id ?? null,
 		versions: track ? listVersions(track) : [],
 		findings,
-		changes
+		changes,
+		newTrackForm: await superValidate(
+			{ kind: 'captions', language: 'en-GB', label: '' },
+			zod4(trackDetails),
+			{ id: 'new-track', errors: false }
+		),
+		importForm: await superValidate(zod4(importForm), { id: 'import' }),
+		restoreForm: await superValidate(zod4(restoreForm), { id: 'restore' })
 	};
 };
 
-const createForm = z.object({
-	kind: z.enum(TRACK_KINDS),
-	language: z.string().trim().min(1, 'Give the language as a tag, such as en-GB.').max(35),
-	label: z.string().trim().max(100)
+const importForm = z.object({ file: captionFile });
+
+/** The restore buttons' form: which version to copy, and the current one when the page was drawn. */
+const restoreForm = z.object({
+	version: z.int().min(1),
+	baseVersion: z.int().min(0).optional()
 });
 
 export const actions: Actions = {
 	create: async ({ params, request }) => {
 		const { recording } = requireOwnRecording(params.id);
-		const form = await request.formData();
-		const values = {
-			kind: String(form.get('kind') ?? ''),
-			language: String(form.get('language') ?? ''),
-			label: String(form.get('label') ?? '')
-		};
-		const parsed = createForm.safeParse(values);
-		if (!parsed.success) {
-			return fail(400, {
-				action: 'create' as const,
-				message: parsed.error.issues[0]?.message ?? 'Check the new track’s details.',
-				values
-			});
-		}
+		const form = await superValidate(request, zod4(trackDetails), { id: 'new-track' });
+		if (!form.valid) return fail(400, { form });
 		let id: string;
 		try {
-			id = createTrack(recording, parsed.data).id;
+			id = createTrack(recording, form.data).id;
 		} catch (problem) {
 			if (problem instanceof CaptionError) {
-				return fail(problem.status, {
-					action: 'create' as const,
-					message: problem.message,
-					values
-				});
+				// The same kind in the same language again: a refusal of the pair, so of the form.
+				form.message = problem.message;
+				return fail(problem.status, { form });
 			}
 			throw problem;
 		}
@@ -112,72 +109,54 @@ export const actions: Actions = {
 	},
 	import: async ({ params, request }) => {
 		const { clinician, recording } = requireOwnRecording(params.id);
-		const form = await request.formData();
-		const track = ownTrack(clinician.clinicId, recording.id, form.get('track'));
-		const file = form.get('file');
-		if (!(file instanceof File) || file.size === 0) {
-			return fail(400, {
-				action: 'import' as const,
-				trackId: track.id,
-				message: 'Choose a .vtt or .srt file to import.',
-				problems: []
-			});
-		}
+		const posted = await request.formData();
+		const track = ownTrack(clinician.clinicId, recording.id, posted.get('track'));
+		const form = await superValidate(posted, zod4(importForm), { id: 'import' });
+		if (!form.valid) return fail(400, { form, problems: [] });
+		const file = form.data.file;
 		const result = importFile(track, new Uint8Array(await file.arrayBuffer()), file.name, {
 			userId: clinician.id
 		});
 		if (!result.ok) {
-			const message =
-				'conflict' in result
-					? 'Someone saved this track at the same moment; import the file again.'
-					: result.message;
-			const problems = 'conflict' in result ? [] : result.errors;
-			return fail('conflict' in result ? 409 : 422, {
-				action: 'import' as const,
-				trackId: track.id,
-				filename: file.name,
-				message,
-				problems
-			});
+			if ('conflict' in result) {
+				form.message = 'Someone saved this track at the same moment; import the file again.';
+				return fail(409, { form, problems: [] });
+			}
+			// The file's refusal sits on its field; each problem in it is listed by line beside it.
+			form.errors.file = [result.message];
+			return fail(422, { form, problems: result.errors });
 		}
-		return {
-			action: 'import' as const,
-			trackId: track.id,
+		return withFiles({
+			form,
 			imported: { filename: file.name, version: result.version, cueCount: result.cueCount },
 			warnings: result.warnings
-		};
+		});
 	},
 	restore: async ({ params, request }) => {
 		const { clinician, recording } = requireOwnRecording(params.id);
-		const form = await request.formData();
-		const track = ownTrack(clinician.clinicId, recording.id, form.get('track'));
-		const version = Number(form.get('version'));
-		const base = Number(form.get('baseVersion'));
-		try {
-			const result = restoreVersion(track, {
-				version,
-				baseVersion: Number.isInteger(base) ? base : undefined,
-				userId: clinician.id
+		const posted = await request.formData();
+		const track = ownTrack(clinician.clinicId, recording.id, posted.get('track'));
+		const form = await superValidate(posted, zod4(restoreForm), { id: 'restore' });
+		if (!form.valid) {
+			return message(form, 'That version could not be read, so nothing was restored.', {
+				status: 400
 			});
+		}
+		const { version, baseVersion } = form.data;
+		try {
+			const result = restoreVersion(track, { version, baseVersion, userId: clinician.id });
 			if (!result.ok) {
-				return fail(409, {
-					action: 'restore' as const,
-					trackId: track.id,
-					message: `Version ${result.conflict.current.version} was saved while this page was open, so nothing was restored. Look at it first, then restore again if you still want to.`
-				});
+				return message(
+					form,
+					`Version ${result.conflict.current.version} was saved while this page was open, so nothing was restored. Look at it first, then restore again if you still want to.`,
+					{ status: 409 }
+				);
 			}
-			return {
-				action: 'restore' as const,
-				trackId: track.id,
-				restored: { version, as: result.version }
-			};
+			return { form, restored: { version, as: result.version } };
 		} catch (problem) {
 			if (problem instanceof CaptionError) {
-				return fail(problem.status, {
-					action: 'restore' as const,
-					trackId: track.id,
-					message: problem.message
-				});
+				form.message = problem.message;
+				return fail(problem.status, { form });
 			}
 			throw problem;
 		}
