@@ -5,6 +5,7 @@ import { setError, superValidate } from 'sveltekit-superforms';
 import { zod4 } from 'sveltekit-superforms/adapters';
 import { z } from 'zod';
 import { ROLE_LABELS } from '$lib/auth/roles';
+import { newPassword } from '$lib/server/auth/credentials';
 import { requireUser } from '$lib/server/auth/guard';
 import { hashPassword, PASSWORD_MIN_LENGTH, verifyPassword } from '$lib/server/auth/passwords';
 import { endSessionsOf, sessionCountOf } from '$lib/server/auth/sessions';
@@ -35,10 +36,7 @@ export const load: PageServerLoad = async () => {
 const passwordForm = z
 	.object({
 		current: z.string().max(1024),
-		password: z
-			.string()
-			.min(PASSWORD_MIN_LENGTH, `Choose a password of at least ${PASSWORD_MIN_LENGTH} characters.`)
-			.max(1024),
+		password: newPassword,
 		confirm: z.string()
 	})
 	.refine((f) => f.password === f.confirm, {
