@@ -67,6 +67,11 @@ const FORM_PAGES: FormPage[] = [
 		as: 'clinician',
 		path: (s) => `/recordings/${s.recordingId}/captions`
 	},
+	{
+		name: 'recording: rename, import captions',
+		as: 'clinician',
+		path: (s) => `/recordings/${s.recordingId}`
+	},
 	{ name: 'caseload search', as: 'clinician', path: () => '/caseload' },
 	{ name: 'recordings search', as: 'clinician', path: () => '/recordings' },
 	{ name: 'review', as: 'educator', path: (s) => `/curate/submissions/${s.submissionId}` },

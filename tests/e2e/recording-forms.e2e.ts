@@ -1,8 +1,8 @@
 /**
- * The recording pages' forms written with superforms and the Field components (the captions
- * page's new track and file import): a refusal shows every problem beside its own field (tied to
- * it, so a screen reader reads it with the field), keeps what was typed, and works the same with
- * scripts off.
+ * The recording pages' forms written with superforms and the Field components (a recording's
+ * rename and caption import, its captions page's new track and file import): a refusal shows
+ * every problem beside its own field (tied to it, so a screen reader reads it with the field),
+ * keeps what was typed, and works the same with scripts off.
  */
 import { expect, test, type Browser, type Page } from '@playwright/test';
 import {
@@ -95,6 +95,48 @@ test('a file that is no caption file is refused beside the file field', async ({
 		await expect(page.getByRole('alert')).toContainText('Not saved: one problem.');
 		await expect(fieldBox(page, 'Caption file')).toContainText(problem);
 		await expect(page.getByLabel('Caption file')).toHaveAccessibleDescription(problem);
+		if (scripts) await expectNoAxeViolations(page);
+	});
+});
+
+test('a blank title is refused beside the title field', async ({ browser }) => {
+	await withAndWithoutScripts(browser, async (page, scripts) => {
+		await open(page, `/recordings/${recordingId}`, scripts);
+		await page.getByText('Rename', { exact: true }).click();
+		await page.getByLabel('Title').fill('   ');
+		await page.getByRole('button', { name: 'Save title' }).click();
+
+		await expect(page.getByRole('alert')).toContainText('Not saved: one problem.');
+		await expect(fieldBox(page, 'Title')).toContainText('Give the recording a title.');
+		await expect(page.getByLabel('Title')).toHaveAccessibleDescription(
+			'Give the recording a title.'
+		);
+		if (scripts) await expectNoAxeViolations(page);
+	});
+});
+
+test('a caption import with no file and a wrong language says both, beside their fields', async ({
+	browser
+}) => {
+	await withAndWithoutScripts(browser, async (page, scripts) => {
+		await open(page, `/recordings/${recordingId}`, scripts);
+		await page.getByLabel('Language of the captions').fill(NOT_A_TAG);
+		await page.getByRole('button', { name: 'Import captions' }).click();
+
+		await expect(page.getByRole('alert')).toContainText('Not saved: 2 problems.');
+		const file = 'Import a caption file (.vtt or .srt)';
+		await expect(fieldBox(page, file)).toContainText('Choose a .vtt or .srt file to import.');
+		await expect(fieldBox(page, file)).not.toContainText('language tag');
+		await expect(page.getByLabel(file)).toHaveAccessibleDescription(
+			'Choose a .vtt or .srt file to import.'
+		);
+		await expect(fieldBox(page, 'Language of the captions')).toContainText(NOT_A_TAG_PROBLEM);
+		await expect(fieldBox(page, 'Language of the captions')).not.toContainText('Choose a');
+		await expect(page.getByLabel('Language of the captions')).toHaveAccessibleDescription(
+			new RegExp(NOT_A_TAG_PROBLEM.replace(/[.()]/g, '\\$&'))
+		);
+		// What was typed stays.
+		await expect(page.getByLabel('Language of the captions')).toHaveValue(NOT_A_TAG);
 		if (scripts) await expectNoAxeViolations(page);
 	});
 });

@@ -1,5 +1,10 @@
 import { fail, redirect } from '@sveltejs/kit';
 import { resolve } from '$app/paths';
+// superforms' fail takes the file out of a refused form, which cannot go back to the page.
+import { fail as refuse, superValidate, withFiles } from 'sveltekit-superforms';
+import { zod4 } from 'sveltekit-superforms/adapters';
+import { z } from 'zod';
+import { captionFile, languageTag } from '$lib/captions/track-form';
 import { parseRecordingTitle } from '$lib/recordings/formats';
 import {
 	CaptionError,
@@ -19,7 +24,21 @@ import {
 import { requireOwnRecording } from '$lib/server/recordings/guard';
 import type { Actions, PageServerLoad } from './$types';
 
-export const load: PageServerLoad = ({ params }) => {
+/** A recording's new title, read as parseRecordingTitle reads it (trimmed, spaces run together). */
+const renameForm = z.object({
+	title: z.string().transform((typed, ctx) => {
+		const parsed = parseRecordingTitle(typed);
+		if (parsed.ok) return parsed.title;
+		ctx.addIssue({ code: 'custom', message: parsed.message });
+		return z.NEVER;
+	})
+});
+
+/** A caption file for the captions track of its language; a blank language is British English. */
+const importCaptionsForm = z.object({ file: captionFile, language: languageTag });
+const DEFAULT_LANGUAGE = 'en-GB';
+
+export const load: PageServerLoad = async ({ params }) => {
 	const { recording: r } = requireOwnRecording(params.id);
 	const captions = firstCaptionsTrack(r.clinicId, r.id);
 	return {
@@ -50,7 +69,19 @@ export const load: PageServerLoad = ({ params }) => {
 			createdAt: r.createdAt.toISOString(),
 			readyAt: r.readyAt?.toISOString() ?? null
 		},
-		status: statusView(r)
+		status: statusView(r),
+		renameForm: await superValidate({ title: r.title }, zod4(renameForm), {
+			id: 'rename',
+			errors: false
+		}),
+		importCaptionsForm: await superValidate(
+			{ language: DEFAULT_LANGUAGE },
+			zod4(importCaptionsForm),
+			{
+				id: 'import-captions',
+				errors: false
+			}
+		)
 	};
 };
 
@@ -71,54 +102,42 @@ export const actions: Actions = {
 	},
 	rename: async ({ params, request }) => {
 		const { recording } = requireOwnRecording(params.id);
-		const typed = String((await request.formData()).get('title') ?? '');
-		const parsed = parseRecordingTitle(typed);
-		if (!parsed.ok) return fail(400, { action: 'rename' as const, message: parsed.message, typed });
-		renameRecording(recording, parsed.title);
-		return { action: 'rename' as const, renamed: parsed.title };
+		const form = await superValidate(request, zod4(renameForm), { id: 'rename' });
+		if (!form.valid) return fail(400, { form });
+		renameRecording(recording, form.data.title);
+		return { form, renamed: form.data.title };
 	},
 	/** A .vtt or .srt file straight into the captions track of its language (made when missing). */
 	importCaptions: async ({ params, request }) => {
 		const { clinician, recording } = requireOwnRecording(params.id);
-		const form = await request.formData();
-		const file = form.get('file');
-		const language = String(form.get('language') ?? '').trim() || 'en-GB';
-		if (!(file instanceof File) || file.size === 0) {
-			return fail(400, {
-				action: 'importCaptions' as const,
-				message: 'Choose a .vtt or .srt file to import.',
-				language
-			});
-		}
+		const form = await superValidate(request, zod4(importCaptionsForm), { id: 'import-captions' });
+		if (!form.valid) return refuse(400, { form });
+		const { file } = form.data;
 		try {
 			const result = importIntoCaptions(recording, {
-				language,
+				language: form.data.language || DEFAULT_LANGUAGE,
 				bytes: new Uint8Array(await file.arrayBuffer()),
 				filename: file.name,
 				userId: clinician.id
 			});
 			if (!result.ok) {
-				return fail('conflict' in result ? 409 : 422, {
-					action: 'importCaptions' as const,
-					message:
-						'conflict' in result
-							? 'Someone saved the captions at the same moment; import the file again.'
-							: `${file.name} was not imported: ${result.message}`,
-					language
-				});
+				if ('conflict' in result) {
+					form.message = 'Someone saved the captions at the same moment; import the file again.';
+					return refuse(409, { form });
+				}
+				// What is wrong with the file goes on its field.
+				form.errors.file = [`${file.name} was not imported: ${result.message}`];
+				return refuse(422, { form });
 			}
-			return {
-				action: 'importCaptions' as const,
+			return withFiles({
+				form,
 				imported: `${result.cueCount} cues imported from ${file.name} as version ${result.version}.`,
 				warnings: result.warnings.length
-			};
+			});
 		} catch (problem) {
 			if (problem instanceof CaptionError) {
-				return fail(problem.status, {
-					action: 'importCaptions' as const,
-					message: problem.message,
-					language
-				});
+				form.message = problem.message;
+				return refuse(problem.status, { form });
 			}
 			throw problem;
 		}
