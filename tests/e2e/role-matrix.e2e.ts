@@ -1,4 +1,4 @@
-import { expect, test, type APIRequestContext } from '@playwright/test';
+import { expect, test, type APIRequestContext, type Browser, type Page } from '@playwright/test';
 import { readdirSync, statSync } from 'node:fs';
 import { join, relative, resolve, sep } from 'node:path';
 import {
@@ -8,6 +8,7 @@ import {
 	MATRIX_ROLES,
 	seedCaptionTrack,
 	seedReadyRecording,
+	open,
 	type MatrixRole
 } from './support';
 import { E2E } from './ports';
@@ -374,6 +375,27 @@ test.describe('role matrix', () => {
 		for (const context of contexts.values()) await context.dispose();
 	});
 
+	/**
+	 * Every page each role may open, at a phone's width (390 × 844), scrolls only up and down:
+	 * a wide table or a long word scrolls inside its own box, never the whole page sideways.
+	 */
+	test('every page a role may open fits a phone’s width', async ({ browser }) => {
+		test.setTimeout(15 * 60_000);
+		const wider: string[] = [];
+		for (const role of MATRIX_ROLES) {
+			const phone = await phoneFor(browser, contexts.get(role)!);
+			const page = await phone.newPage();
+			for (const row of MATRIX.filter((r) => r.expect[role] === 200 && !isEndpoint(r.route))) {
+				const path = row.path(fixture);
+				await open(page, path);
+				const width = await page.evaluate(() => document.documentElement.scrollWidth);
+				if (width > 390) wider.push(`${role} ${path}: ${width} px (${await widest(page)})`);
+			}
+			await phone.close();
+		}
+		expect(wider, 'pages wider than the phone').toEqual([]);
+	});
+
 	for (const row of MATRIX) {
 		test(`${row.route}${row.note ? ` (${row.note})` : ''}`, async () => {
 			const path = row.path(fixture);
@@ -389,3 +411,34 @@ test.describe('role matrix', () => {
 		});
 	}
 });
+
+/** A phone-sized browser signed in as the request context is (its cookies carried over). */
+async function phoneFor(browser: Browser, signedIn: APIRequestContext) {
+	return browser.newContext({
+		viewport: { width: 390, height: 844 },
+		isMobile: true,
+		hasTouch: true,
+		storageState: await signedIn.storageState()
+	});
+}
+
+/** Endpoints and files (an `api/` route, or a route serving a file by its name) are not pages. */
+function isEndpoint(route: string): boolean {
+	return route.startsWith('/api/') || /\.[a-z0-9]+$/.test(route);
+}
+
+/** The outermost elements that reach past the screen's right edge, named for the message. */
+function widest(page: Page): Promise<string> {
+	return page.evaluate(() => {
+		// A phone widens its layout to fit what is too wide, so the edge is the screen's 390 px.
+		const past = (el: Element) => el.getBoundingClientRect().right > 391;
+		return [...document.body.querySelectorAll('*')]
+			.filter((el) => past(el) && el.parentElement && !past(el.parentElement))
+			.map((el) => {
+				const classes = [...el.classList].slice(0, 3).join('.');
+				const words = (el.textContent ?? '').trim().replace(/\s+/g, ' ').slice(0, 30);
+				return `${el.tagName.toLowerCase()}${el.id ? `#${el.id}` : ''}${classes ? `.${classes}` : ''} “${words}”`;
+			})
+			.join('; ');
+	});
+}
