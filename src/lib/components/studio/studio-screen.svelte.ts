@@ -17,16 +17,7 @@ import { plural } from '$lib/captions/editor/format';
 import { Autosave } from './autosave.svelte';
 import type { Draft } from './drafts';
 import { Studio, type ProfileId } from './studio.svelte';
-
-/** The recording's thumbnail strip: one sprite sheet of tiles, one every `intervalSeconds`. */
-export interface SpriteLayout {
-	columns: number;
-	rows: number;
-	intervalSeconds: number;
-	tileWidth: number;
-	tileHeight: number;
-	count: number;
-}
+import type { SpriteLayout } from '$lib/media/sprite';
 
 /** The loudness of the recording's sound, `peaksPerSecond` values a second, for the timeline. */
 export interface Peaks {

@@ -4,6 +4,7 @@ import { LADDER, TOP_LONG, TOP_SHORT, type PlannedVersion, type Rung } from '../
 import { MediaError, runFfmpeg } from './ffmpeg';
 import { probeFile } from './probe';
 import { grabStill } from './stills';
+import type { SpriteLayout } from '../../media/sprite';
 
 /** What every output maker accepts besides its own options. */
 export interface JobControl {
@@ -315,16 +316,6 @@ export interface SpriteOptions extends JobControl {
 	 * originals, whose keyframes can be seconds apart.
 	 */
 	keyframesOnly?: boolean;
-}
-
-export interface SpriteLayout {
-	columns: number;
-	rows: number;
-	intervalSeconds: number;
-	tileWidth: number;
-	tileHeight: number;
-	/** Tiles in reading order; tile i shows the picture at i × intervalSeconds. */
-	count: number;
 }
 
 const SPRITE_TARGET_TILES = 100;

@@ -3,6 +3,7 @@ import { timestampNow, uuidPrimaryKey } from './columns';
 import type { StoredVersion } from '../../../media/ladder';
 import { users } from './auth';
 import { clinics } from './clinics';
+import type { SpriteLayout } from '../../../media/sprite';
 
 export const RECORDING_STATUSES = ['processing', 'ready', 'failed'] as const;
 export type RecordingStatus = (typeof RECORDING_STATUSES)[number];
@@ -46,16 +47,6 @@ export const uploads = sqliteTable(
 	]
 );
 
-/** Thumbnail strip layout, enough for a timeline to pick the tile for a time. */
-export interface SpriteMeta {
-	columns: number;
-	rows: number;
-	intervalSeconds: number;
-	tileWidth: number;
-	tileHeight: number;
-	count: number;
-}
-
 /** A stored video that passed validation; its web outputs appear as its job runs. */
 export const recordings = sqliteTable(
 	'recording',
@@ -82,7 +73,7 @@ export const recordings = sqliteTable(
 		/** The rendition's smaller versions (src/lib/media/ladder.ts); null when made before the ladder. */
 		renditionVersions: text('rendition_versions', { mode: 'json' }).$type<StoredVersion[]>(),
 		posterCount: integer('poster_count').notNull().default(0),
-		sprite: text('sprite', { mode: 'json' }).$type<SpriteMeta>(),
+		sprite: text('sprite', { mode: 'json' }).$type<SpriteLayout>(),
 		waveformKey: text('waveform_key'),
 		failureReason: text('failure_reason'),
 		createdAt: timestampNow('created_at'),
