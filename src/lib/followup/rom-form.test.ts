@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { degreesHint, romEntryDefaults, romEntrySchema } from './rom-form';
+import { degreesHint, romEntryDefaults, romEntryForm, romEntrySchema } from './rom-form';
 
 const base = {
 	motion: 'knee-flexion',
@@ -47,6 +47,34 @@ describe('the range-of-motion entry form', () => {
 		});
 		expect(romEntrySchema.parse({ ...rotation, armPosition: 'side' }).armPosition).toBe('side');
 		expect(romEntrySchema.parse({ ...base, armPosition: 'side' }).armPosition).toBeNull();
+	});
+});
+
+describe('the entry form as posted', () => {
+	const posted = { ...base, armPosition: '' };
+	const problems = (changes: Record<string, string>) =>
+		romEntryForm
+			.safeParse({ ...posted, ...changes })
+			.error?.issues.map((issue) => [issue.path.join('.'), issue.message]);
+
+	it('keeps what was typed when it can be read', () => {
+		expect(romEntryForm.parse(posted)).toEqual(posted);
+	});
+
+	it('says every problem at once, each on its own field', () => {
+		expect(problems({ side: '', degrees: '250.3', measuredOn: '' })).toEqual([
+			['side', 'Choose the side measured.'],
+			['degrees', 'Degrees cannot be above 200.'],
+			['degrees', 'Degrees are recorded to the half degree.'],
+			['measuredOn', 'Give the date of the measurement as a calendar date.']
+		]);
+	});
+
+	it('asks where the arm was for a rotation even when the degrees cannot be read', () => {
+		expect(problems({ motion: 'shoulder-external-rotation', degrees: 'ninety' })).toEqual([
+			['degrees', 'Give the degrees measured, e.g. 95 or -5.'],
+			['armPosition', 'Say where the arm was: rotation is read differently at the side and raised.']
+		]);
 	});
 });
 

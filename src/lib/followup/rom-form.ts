@@ -22,46 +22,53 @@ export const DEGREE_LIMITS = { min: -60, max: 200 } as const;
 
 export const MAX_ROM_NOTE = 500;
 
-export const romEntrySchema = z
-	.object({
-		motion: z.enum(MOTION_IDS as [MotionId, ...MotionId[]], {
-			error: 'Choose the motion measured.'
-		}),
-		side: z.enum(['left', 'right'], { error: 'Choose the side measured.' }),
-		mode: z.enum(['active', 'passive'], { error: 'Choose active or passive.' }),
-		degrees: z.preprocess(
-			// A typed minus sign or a decimal comma is still the number meant; blank is no number.
-			(v) =>
-				typeof v === 'string' ? v.trim().replace('−', '-').replace(',', '.') || undefined : v,
-			z.coerce
-				.number({ error: 'Give the degrees measured, e.g. 95 or -5.' })
-				.refine(Number.isFinite, 'Degrees must be a number, e.g. 95 or -5.')
-				.min(DEGREE_LIMITS.min, `Degrees cannot be below ${DEGREE_LIMITS.min}.`)
-				.max(DEGREE_LIMITS.max, `Degrees cannot be above ${DEGREE_LIMITS.max}.`)
-				.refine((d) => Number.isInteger(d * 2), 'Degrees are recorded to the half degree.')
-		),
-		measuredOn: z
-			.string({ error: 'Give the date of the measurement.' })
-			.refine(isLocalDate, 'Give the date of the measurement as a calendar date.'),
-		note: z
-			.string()
-			.max(MAX_ROM_NOTE, `A note can be at most ${MAX_ROM_NOTE} characters.`)
-			.default('')
-			.transform((n) => n.trim()),
-		instrument: z.enum(ROM_INSTRUMENTS, { error: 'Choose what the reading was taken with.' }),
-		armPosition: z.enum(['', ...ARM_POSITIONS], { error: 'Choose where the arm was.' }).default('')
-	})
+/** The entry's fields, each with its own checks; the check across fields is romEntrySchema's. */
+const romEntryFields = z.object({
+	motion: z.enum(MOTION_IDS as [MotionId, ...MotionId[]], {
+		error: 'Choose the motion measured.'
+	}),
+	side: z.enum(['left', 'right'], { error: 'Choose the side measured.' }),
+	mode: z.enum(['active', 'passive'], { error: 'Choose active or passive.' }),
+	degrees: z.preprocess(
+		// A typed minus sign or a decimal comma is still the number meant; blank is no number.
+		(v) => (typeof v === 'string' ? v.trim().replace('−', '-').replace(',', '.') || undefined : v),
+		z.coerce
+			.number({ error: 'Give the degrees measured, e.g. 95 or -5.' })
+			.refine(Number.isFinite, 'Degrees must be a number, e.g. 95 or -5.')
+			.min(DEGREE_LIMITS.min, `Degrees cannot be below ${DEGREE_LIMITS.min}.`)
+			.max(DEGREE_LIMITS.max, `Degrees cannot be above ${DEGREE_LIMITS.max}.`)
+			.refine((d) => Number.isInteger(d * 2), 'Degrees are recorded to the half degree.')
+	),
+	measuredOn: z
+		.string({ error: 'Give the date of the measurement.' })
+		.refine(isLocalDate, 'Give the date of the measurement as a calendar date.'),
+	note: z
+		.string()
+		.max(MAX_ROM_NOTE, `A note can be at most ${MAX_ROM_NOTE} characters.`)
+		.default('')
+		.transform((n) => n.trim()),
+	instrument: z.enum(ROM_INSTRUMENTS, { error: 'Choose what the reading was taken with.' }),
+	armPosition: z.enum(['', ...ARM_POSITIONS], { error: 'Choose where the arm was.' }).default('')
+});
+
+/** The fields the arm position check reads. */
+const motionAndArm = romEntryFields.pick({ motion: true, armPosition: true });
+
+export const romEntrySchema = romEntryFields
 	// Rotation normals and comparisons depend on where the arm was, so a rotation reading says it;
-	// other motions keep none.
-	.superRefine((entry, ctx) => {
-		if (needsArmPosition(entry.motion) && entry.armPosition === '') {
-			ctx.addIssue({
-				code: 'custom',
-				path: ['armPosition'],
-				message: 'Say where the arm was: rotation is read differently at the side and raised.'
-			});
-		}
-	})
+	// other motions keep none. Checked even when another field is wrong, so one try shows all.
+	.superRefine(
+		(entry, ctx) => {
+			if (needsArmPosition(entry.motion) && entry.armPosition === '') {
+				ctx.addIssue({
+					code: 'custom',
+					path: ['armPosition'],
+					message: 'Say where the arm was: rotation is read differently at the side and raised.'
+				});
+			}
+		},
+		{ when: (payload) => motionAndArm.safeParse(payload.value).success }
+	)
 	.transform((entry) => ({
 		...entry,
 		armPosition:
@@ -100,22 +107,39 @@ export function degreesHint(motion: string): string {
 	}
 }
 
-/** The entry form's fields as typed, before the check. */
-export type RomEntryDraft = Record<
-	'motion' | 'side' | 'mode' | 'degrees' | 'measuredOn' | 'note' | 'instrument' | 'armPosition',
-	string
->;
+type RomField = keyof typeof romEntryFields.shape;
 
 /**
- * The page's answer to a range-of-motion form: which form (`rom` to add, `deleteRom` to remove),
- * and a reading saved or refused (with the field to fix and what was typed).
+ * The entry form as it is posted (superforms' schema): each of the entry's fields as typed, then
+ * romEntrySchema's checks, every problem on its own field. The fields and their checks are
+ * written once, in romEntrySchema; the action reads the entry from the form's data with it.
+ */
+export const romEntryForm = z
+	.object(
+		Object.fromEntries(
+			Object.keys(romEntryFields.shape).map((name) => [name, z.string()])
+		) as Record<RomField, z.ZodString>
+	)
+	.superRefine((draft, ctx) => {
+		const checked = romEntrySchema.safeParse(draft);
+		for (const issue of checked.error?.issues ?? []) {
+			ctx.addIssue({ code: 'custom', message: issue.message, path: issue.path });
+		}
+	});
+
+/** The entry form's fields as typed, before the check. */
+export type RomEntryDraft = z.infer<typeof romEntryForm>;
+
+/**
+ * The page's last answer, as the range-of-motion section reads it: which form (`rom` to add,
+ * `deleteRom` to remove) and a reading saved or removed, or why not. The entry form's own
+ * answer (`form`, what was typed and its problems) is superforms'.
  */
 export interface RomFormAnswer {
 	action?: string;
-	field?: string;
 	message?: string;
 	saved?: string;
-	values?: RomEntryDraft;
+	form?: unknown;
 }
 
 /**

@@ -1,11 +1,18 @@
 import { error, fail } from '@sveltejs/kit';
+import { setError, superValidate } from 'sveltekit-superforms';
+import { zod4 } from 'sveltekit-superforms/adapters';
 import { z } from 'zod';
 import { protocolById } from '$lib/clinical/phases';
 import { describePrecaution, detailOf } from '$lib/clinical/precautions';
 import { holdsOn } from '$lib/clinical/until';
 import { formatDate } from '$lib/followup/words';
 import { NORM_SOURCES } from '$lib/clinical/rom';
-import { NORM_SOURCE_IDS, romEntrySchema } from '$lib/followup/rom-form';
+import {
+	NORM_SOURCE_IDS,
+	romEntryDefaults,
+	romEntryForm,
+	romEntrySchema
+} from '$lib/followup/rom-form';
 import { requireRole } from '$lib/server/auth/guard';
 import {
 	addRomMeasurement,
@@ -24,7 +31,7 @@ const viewQuery = z.object({
 	logs: z.enum(['recent', 'all']).catch('recent')
 });
 
-export const load: PageServerLoad = ({ params, url }) => {
+export const load: PageServerLoad = async ({ params, url }) => {
 	const clinician = requireRole('clinician');
 	// Scoped by clinic in the query: another clinic's patient is simply not found.
 	const patient = findPatientInClinic(clinician.clinicId, params.id);
@@ -68,6 +75,11 @@ export const load: PageServerLoad = ({ params, url }) => {
 			logs: view.logs === 'all' ? followup.logs : followup.logs.slice(0, LOGS_SHOWN)
 		},
 		logCount: followup.logs.length,
+		romForm: await superValidate(
+			romEntryDefaults(followup.figures.rom.at(-1), patient, followup.figures.today),
+			zod4(romEntryForm),
+			{ id: 'rom', errors: false }
+		),
 		view,
 		normSources: Object.values(NORM_SOURCES).map((s) => ({
 			id: s.id,
@@ -80,40 +92,20 @@ export const load: PageServerLoad = ({ params, url }) => {
 export const actions: Actions = {
 	rom: async ({ params, request }) => {
 		const clinician = requireRole('clinician');
-		const raw = Object.fromEntries(await request.formData());
-		const values = {
-			motion: String(raw.motion ?? ''),
-			side: String(raw.side ?? ''),
-			mode: String(raw.mode ?? ''),
-			degrees: String(raw.degrees ?? ''),
-			measuredOn: String(raw.measuredOn ?? ''),
-			note: String(raw.note ?? ''),
-			instrument: String(raw.instrument ?? ''),
-			armPosition: String(raw.armPosition ?? '')
-		};
-		const parsed = romEntrySchema.safeParse(values);
-		if (!parsed.success) {
-			const issue = parsed.error.issues[0];
-			return fail(400, {
-				action: 'rom',
-				field: String(issue.path[0] ?? ''),
-				message: issue.message,
-				values
-			});
-		}
+		const form = await superValidate(request, zod4(romEntryForm), { id: 'rom' });
+		if (!form.valid) return fail(400, { form });
+		// The form's checks are this schema's: what passed them reads as an entry.
+		const entry = romEntrySchema.parse(form.data);
 		try {
-			addRomMeasurement(clinician, params.id, parsed.data);
+			addRomMeasurement(clinician, params.id, entry);
 		} catch (e) {
 			if (!(e instanceof RomError)) throw e;
 			if (!findPatientInClinic(clinician.clinicId, params.id)) error(404, 'Not found.');
-			return fail(400, { action: 'rom', field: 'measuredOn', message: e.message, values });
+			return setError(form, 'measuredOn', e.message);
 		}
 		// Keep the motion, side and mode for the next reading; clear what changes each time.
-		return {
-			action: 'rom',
-			saved: `${parsed.data.degrees}° saved.`,
-			values: { ...values, degrees: '', note: '' }
-		};
+		form.data = { ...form.data, degrees: '', note: '' };
+		return { form, action: 'rom', saved: `${entry.degrees}° saved.` };
 	},
 	deleteRom: async ({ params, request }) => {
 		const clinician = requireRole('clinician');
