@@ -116,3 +116,52 @@ test('once a patient is invited the form is empty again, with and without script
 		await expect(invite.getByLabel('Operation or injury', { exact: true })).toHaveValue('');
 	});
 });
+
+test('a range-of-motion reading with two problems says each beside its field, with and without scripts', async ({
+	browser
+}) => {
+	const { patientId } = await seedSignInPatient(ACCOUNTS.clinician, { name: 'Reading Checks' });
+	await withAndWithoutScripts(
+		browser,
+		`/patients/${patientId}`,
+		async (page, javaScriptEnabled) => {
+			const form = page.getByRole('form', { name: 'Add a reading' });
+			const box = (label: string) =>
+				form.locator('.field').filter({ has: page.getByLabel(label, { exact: true }) });
+			// A rotation says where the arm was; the degrees are past what any joint we record reaches.
+			await form.getByLabel('Motion').selectOption('shoulder-external-rotation');
+			// The second round starts from the first's reading: clear where the arm was.
+			await form.getByLabel('Arm position (rotations)').selectOption('');
+			await form.getByLabel('Degrees').fill('250');
+			await form.getByLabel('Note (optional)').fill('lying on the couch');
+			await form.getByRole('button', { name: 'Save reading' }).click();
+
+			await expect(form.getByRole('alert')).toContainText('Not saved: 2 problems.');
+			await expect(form.getByLabel('Degrees')).toHaveAccessibleDescription(
+				/Degrees cannot be above 200\./
+			);
+			await expect(box('Degrees')).toContainText('Degrees cannot be above 200.');
+			await expect(box('Degrees')).not.toContainText('Say where the arm was');
+			await expect(form.getByLabel('Arm position (rotations)')).toHaveAccessibleDescription(
+				/Say where the arm was: rotation is read differently at the side and raised\./
+			);
+			await expect(box('Arm position (rotations)')).toContainText('Say where the arm was');
+			await expect(form.getByLabel('Measured on')).not.toHaveAttribute('aria-invalid');
+			// What was typed stays.
+			await expect(form.getByLabel('Motion')).toHaveValue('shoulder-external-rotation');
+			await expect(form.getByLabel('Degrees')).toHaveValue('250');
+			await expect(form.getByLabel('Note (optional)')).toHaveValue('lying on the couch');
+			if (javaScriptEnabled) await expectNoAxeViolations(page);
+
+			// Once fixed it is saved, and the form is ready for the next reading.
+			await form.getByLabel('Arm position (rotations)').selectOption('side');
+			await form.getByLabel('Degrees').fill('45');
+			await form.getByRole('button', { name: 'Save reading' }).click();
+			await expect(form.getByRole('status')).toContainText('45° saved.');
+			await expect(form.getByRole('alert')).toHaveCount(0);
+			await expect(form.getByLabel('Degrees')).toHaveValue('');
+			await expect(form.getByLabel('Note (optional)')).toHaveValue('');
+			await expect(form.getByLabel('Motion')).toHaveValue('shoulder-external-rotation');
+		}
+	);
+});
