@@ -31,6 +31,8 @@ const RUN = crypto.randomUUID().slice(0, 4).toUpperCase();
 const NEW_EXERCISE = `Kneeling reach (e2e) ${RUN}`;
 const NEW_PATIENT = `Mabel Quill ${RUN}`;
 const SEEDED_EXERCISE = 'Ankle pumps (e2e)';
+/** A second ready exercise of this file's own, so no test needs the one another test makes. */
+const OTHER_SEEDED_EXERCISE = 'Heel raises (e2e)';
 
 let dir: string;
 let segmentId: string;
@@ -143,6 +145,7 @@ test.beforeAll(async () => {
 	await putPoster(segmentId, poster);
 	await putPoster(secondSegmentId, poster);
 	seedExercise(secondSegmentId, SEEDED_EXERCISE);
+	seedExercise(secondSegmentId, OTHER_SEEDED_EXERCISE);
 });
 
 test.afterAll(async () => {
@@ -420,21 +423,30 @@ test('the builder works without scripts: add, reorder and a refused save that ke
 	await expect(page.getByRole('heading', { level: 1 })).toHaveText('Without scripts');
 
 	await page.getByRole('button', { name: `Add ${SEEDED_EXERCISE}` }).click();
-	await page.getByRole('button', { name: `Add ${NEW_EXERCISE}` }).click();
+	await page.getByRole('button', { name: `Add ${OTHER_SEEDED_EXERCISE}` }).click();
 	const items = page.locator('ol > li h3');
-	await expect(items).toHaveText([`1. ${SEEDED_EXERCISE}`, `2. ${NEW_EXERCISE}`]);
-	await page.getByRole('button', { name: `Move ${NEW_EXERCISE} up` }).click();
-	await expect(items).toHaveText([`1. ${NEW_EXERCISE}`, `2. ${SEEDED_EXERCISE}`]);
+	await expect(items).toHaveText([`1. ${SEEDED_EXERCISE}`, `2. ${OTHER_SEEDED_EXERCISE}`]);
+	await page.getByRole('button', { name: `Move ${OTHER_SEEDED_EXERCISE} up` }).click();
+	await expect(items).toHaveText([`1. ${OTHER_SEEDED_EXERCISE}`, `2. ${SEEDED_EXERCISE}`]);
 
 	const row = page.locator('ol > li').filter({ hasText: SEEDED_EXERCISE });
 	await row.getByLabel('Reps', { exact: true }).fill('lots');
+	await row.getByLabel('Sets', { exact: true }).fill('some');
+	await page.getByLabel('Title').fill('');
 	await page.getByRole('button', { name: 'Save draft' }).click();
 	await expect(
 		page.getByText(`Exercise 2 (${SEEDED_EXERCISE}): Reps must be a whole number from 1 to 100.`)
 	).toBeVisible();
-	await expect(
-		page.locator('ol > li').filter({ hasText: SEEDED_EXERCISE }).getByLabel('Reps', { exact: true })
-	).toHaveValue('lots');
-	await expect(items).toHaveText([`1. ${NEW_EXERCISE}`, `2. ${SEEDED_EXERCISE}`]);
+	// Each problem is said beside its own field too, and read with it.
+	const reps = row.getByLabel('Reps', { exact: true });
+	const sets = row.getByLabel('Sets', { exact: true });
+	await expect(reps).toHaveValue('lots');
+	await expect(sets).toHaveValue('some');
+	await expect(reps).toHaveAccessibleDescription(/Reps must be a whole number from 1 to 100\./);
+	await expect(sets).toHaveAccessibleDescription(/Sets must be a whole number/);
+	await expect(sets).not.toHaveAccessibleDescription(/Reps/);
+	await expect(page.getByLabel('Title')).toHaveAccessibleDescription('Give the programme a title.');
+	await expect(reps).toHaveAttribute('aria-invalid', 'true');
+	await expect(items).toHaveText([`1. ${OTHER_SEEDED_EXERCISE}`, `2. ${SEEDED_EXERCISE}`]);
 	await context.close();
 });

@@ -112,6 +112,45 @@ describe('the programme builder’s state', () => {
 		expect(builder.where('title')).toBe('');
 	});
 
+	it('puts each problem beside its own field, and under the exercise only what is no field’s', () => {
+		const problems = [
+			{ path: 'items.0.dosage.reps', message: 'Reps is above the highest allowed, 12.' },
+			{ path: 'items.0.dosage.reps', message: 'Reps is a whole number.' },
+			{ path: 'items.0.weekdays', message: '2 weekdays are ticked but days a week is 3.' },
+			{
+				path: 'items.0.weekdays.1',
+				message: 'A weekday is a number from 1 (Monday) to 7 (Sunday).'
+			},
+			{
+				path: 'items.0.progression.ceiling',
+				message: 'The most it rises to is below where it starts.'
+			},
+			{ path: 'items.0.rangeGuides.1.until', message: 'Write a week or a date.' },
+			{ path: 'items.0.rangeGuides', message: 'Keep to 4 range targets and limits an exercise.' },
+			{ path: 'items.0', message: 'This exercise is no longer in your clinic.' },
+			{ path: 'title', message: 'Give the programme a title.' }
+		];
+		const builder = new ProgrammeBuilderState(initial(), () => ({
+			...inputs('draft'),
+			result: { problems }
+		}));
+		expect(builder.problemsAt('items.0.dosage.reps')).toEqual([
+			'Reps is above the highest allowed, 12.',
+			'Reps is a whole number.'
+		]);
+		expect(builder.problemsAt('items.0.weekdays')).toEqual([
+			'2 weekdays are ticked but days a week is 3.',
+			'A weekday is a number from 1 (Monday) to 7 (Sunday).'
+		]);
+		expect(builder.problemsAt('items.0.rangeGuides.1.until')).toEqual(['Write a week or a date.']);
+		expect(builder.problemsAt('items.1.dosage.reps')).toEqual([]);
+		expect(builder.itemProblems(0).map((p) => p.message)).toEqual([
+			'Keep to 4 range targets and limits an exercise.',
+			'This exercise is no longer in your clinic.'
+		]);
+		expect(builder.itemProblems(1)).toEqual([]);
+	});
+
 	it('saves the draft, gives new rows their ids, and says why a save failed', async () => {
 		const fetch = vi.fn(async () =>
 			Response.json({ draft: { items: [{ id: 'item-a' }, { id: 'item-b' }] } })
@@ -143,7 +182,7 @@ describe('the programme builder’s state', () => {
 			message: 'Give a title.',
 			problems: [{ path: 'title', message: 'Give a title.' }]
 		});
-		expect(builder.problemFor('title')).toBe('Give a title.');
+		expect(builder.problemsAt('title')).toEqual(['Give a title.']);
 
 		fetch.mockImplementation(async () => {
 			throw new TypeError('offline');

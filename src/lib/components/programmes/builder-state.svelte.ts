@@ -72,6 +72,10 @@ const SAVE_DELAY_MS = 1200;
  * Create while the builder component initialises (or inside `$effect.root`): its effects mark the
  * page as scripted once it has rendered and run the auto-save for as long as the component lives.
  */
+/** The paths of an exercise's own fields, whose problems are shown beside them. */
+const ITEM_FIELD =
+	/^items\.\d+\.(dosage\.\w+|progression\.\w+|weekdays(\.\d+)?|rangeGuides\.\d+\.(motion|degrees|until))$/;
+
 export class ProgrammeBuilderState {
 	draft: ProgrammeDraft = $state() as ProgrammeDraft;
 	/** True once the page runs scripts (the buttons then act here instead of posting). */
@@ -291,12 +295,22 @@ export class ProgrammeBuilderState {
 		return `Exercise ${index + 1} (${this.titleOf(this.draft.items[index])}): `;
 	}
 
-	problemFor(path: string): string | undefined {
-		return this.problems.find((p) => p.path === path)?.message;
-	}
-
 	problemsUnder(prefix: string): Problem[] {
 		return this.problems.filter((p) => p.path === prefix || p.path.startsWith(`${prefix}.`));
+	}
+
+	/** Every problem said of one field, for beside it (a weekday's own problems count for the days). */
+	problemsAt(path: string): string[] {
+		return this.problems
+			.filter(
+				(p) => p.path === path || (path.endsWith('.weekdays') && p.path.startsWith(`${path}.`))
+			)
+			.map((p) => p.message);
+	}
+
+	/** An exercise's problems that belong to none of its fields, said under the exercise. */
+	itemProblems(index: number): Problem[] {
+		return this.problemsUnder(`items.${index}`).filter((p) => !ITEM_FIELD.test(p.path));
 	}
 
 	// --- picker --------------------------------------------------------------------------------
